@@ -34,8 +34,13 @@ type BullingtonTerms struct {
 	LineOfSight bool
 	// HtsM and HrsM are the antenna heights amsl, terrain plus antenna.
 	HtsM, HrsM float64
+	// HstipM and HsripM are the heights amsl at the transmitter and
+	// receiver of the least-squares straight line fitted to the terrain
+	// (eqs. 58–60), before the obstruction correction.
+	HstipM, HsripM float64
 	// HstM and HsrM are the heights amsl of the smooth surface at the
-	// transmitter and receiver (eq. 63).
+	// transmitter and receiver after the obstruction correction and the
+	// limit to the ground heights (eqs. 61–63).
 	HstM, HsrM float64
 	// HtsSmoothM and HrsSmoothM are the antenna heights above the smooth
 	// surface, h'_ts = h_ts − h_st and h'_rs = h_rs − h_sr (eq. 64).
@@ -196,6 +201,7 @@ func deltaBullington(p Path, rp params, s *profileScan) BullingtonTerms {
 	// Smooth surface (eqs. 60–63).
 	hstip := (2*s.v1*d - s.v2) / (d * d)
 	hsrip := (s.v2 - s.v1*d) / (d * d)
+	t.HstipM, t.HsripM = hstip, hsrip
 	hstp, hsrp := hstip, hsrip
 	if s.hobs > 0 {
 		gt := s.aobt / (s.aobt + s.aobr)
