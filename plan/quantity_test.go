@@ -68,10 +68,10 @@ func TestParseLengthM(t *testing.T) {
 		{name: "metres", in: "12m", want: 12, tol: 0},
 		{name: "bare number is metres", in: "12", want: 12, tol: 0},
 		{name: "space before unit", in: " 12 m ", want: 12, tol: 0},
-		{name: "feet", in: "40ft", want: 12.192, tol: 1e-12},       // 40 × 0.3048 m, international foot (1959), exact
+		{name: "feet", in: "40ft", want: 12.192, tol: 1e-12},            // 40 × 0.3048 m, international foot (1959), exact
 		{name: "feet upper case", in: "40FT", want: 12.192, tol: 1e-12}, // same
 		{name: "kilometres", in: "1.5km", want: 1500, tol: 1e-9},
-		{name: "miles", in: "3mi", want: 4828.032, tol: 1e-9}, // 3 × 1609.344 m, international mile, exact
+		{name: "miles", in: "3mi", want: 4828.032, tol: 1e-9},  // 3 × 1609.344 m, international mile, exact
 		{name: "inches", in: "18in", want: 0.4572, tol: 1e-12}, // 18 × 0.0254 m, exact
 		{name: "centimetres", in: "250cm", want: 2.5, tol: 1e-12},
 		{name: "exponent", in: "1e3m", want: 1000, tol: 0},
@@ -99,9 +99,9 @@ func TestParsePowerW(t *testing.T) {
 		{name: "milliwatts lower case", in: "500mw", want: 0.5, tol: 1e-15},
 		{name: "kilowatt", in: "1kW", want: 1000, tol: 0},
 		{name: "kilowatt upper case", in: "1.5 KW", want: 1500, tol: 0},
-		{name: "dBm", in: "37dBm", want: 5.011872336, tol: 1e-9}, // 10^(0.7) W [calc: dBm = 10 log10(P/1 mW)]
+		{name: "dBm", in: "37dBm", want: 5.011872336, tol: 1e-9},   // 10^(0.7) W [calc: dBm = 10 log10(P/1 mW)]
 		{name: "dBm 30 is 1 W", in: "30 dBm", want: 1, tol: 1e-12}, // definition of dBm
-		{name: "dBW", in: "10dBW", want: 10, tol: 1e-12},          // definition of dBW
+		{name: "dBW", in: "10dBW", want: 10, tol: 1e-12},           // definition of dBW
 		{name: "megawatt rejected", in: "5MW", err: ErrRange,
 			msg: `"5MW": megawatts are above 100 kW (for milliwatts write mW)`},
 		{name: "zero", in: "0W", err: ErrRange, msg: `"0W": power must be more than 0 W`},
@@ -143,7 +143,7 @@ func TestParseSensitivityDBm(t *testing.T) {
 	runParseTable(t, KindSensitivity, ParseSensitivityDBm, []parseCase{
 		{name: "dBm", in: "-120dBm", want: -120, tol: 0},
 		{name: "bare number is dBm", in: "-122", want: -122, tol: 0},
-		{name: "uV", in: "0.25uV", want: -119.0, tol: 0.05},        // REFERENCES §6 [calc], P = V²/R, 50 Ω
+		{name: "uV", in: "0.25uV", want: -119.0, tol: 0.05},         // REFERENCES §6 [calc], P = V²/R, 50 Ω
 		{name: "micro sign", in: "0.25µV", want: -119.0, tol: 0.05}, // same, U+00B5
 		{name: "greek mu", in: "0.25μV", want: -119.0, tol: 0.05},   // same, U+03BC
 		{name: "1 uV", in: "1 uV", want: -107.0, tol: 0.05},         // REFERENCES §6 [calc]
