@@ -157,6 +157,9 @@ func number(k Kind, input, example string) (float64, string, error) {
 	if overflow {
 		return 0, "", qerr(k, input, ErrRange, "number too large for a %s", k)
 	}
+	if len(unit) > 1 && unit[0] == ',' && unit[1] >= '0' && unit[1] <= '9' {
+		return 0, "", qerr(k, input, ErrSyntax, "write a decimal point, not a comma")
+	}
 	return v, unit, nil
 }
 
@@ -463,8 +466,7 @@ func ParseLengthRange(s string) (LengthRange, error) {
 		}
 		return LengthRange{FromM: m, ToM: m}, nil
 	}
-	lower := strings.ToLower(rest)
-	i := strings.Index(lower, "step")
+	i := indexFold(rest, "step")
 	if i < 0 {
 		return LengthRange{}, qerr(KindLengthRange, s, ErrSyntax, "no step (write e.g. %s)", example)
 	}
@@ -492,6 +494,18 @@ func ParseLengthRange(s string) (LengthRange, error) {
 		return LengthRange{}, qerr(KindLengthRange, s, ErrRange, "more than %d values (use a larger step)", MaxRangeValues)
 	}
 	return r, nil
+}
+
+// indexFold returns the byte index of the first ASCII-case-insensitive
+// match of word (ASCII) in s, or −1. Unlike strings.ToLower it keeps byte
+// offsets intact on invalid UTF-8.
+func indexFold(s, word string) int {
+	for i := 0; i+len(word) <= len(s); i++ {
+		if strings.EqualFold(s[i:i+len(word)], word) {
+			return i
+		}
+	}
+	return -1
 }
 
 // ParsePoint parses "LAT,LON" in decimal degrees on WGS84 (spaces allowed
