@@ -15,14 +15,6 @@ type Antenna struct {
 	HeightM float64 // metres above ground
 }
 
-// Feedline is the line between radio and antenna.
-type Feedline struct {
-	Cable      string  // catalog name; "" means no line (0 dB)
-	LengthM    float64 // metres
-	Connectors int     // mated connector pairs
-	SWR        float64 // SWR at the antenna; 0 or 1 means matched
-}
-
 // End is one end of a link: a named position with its kit.
 type End struct {
 	Name     string
