@@ -1,0 +1,77 @@
+package plan
+
+import (
+	"fmt"
+	"strings"
+)
+
+// ResolveCable turns a cable named on the command line or in a plan file
+// into a Cable: a catalog name ("RG-8X", "rg8x"), or a cable of the user's
+// own given by its matched loss at one or two frequencies,
+//
+//	custom:6.1dB/100ft@146MHz
+//	custom:20dB/100m@146MHz,38dB/100m@440MHz
+//
+// (loss per 100 ft or per 100 m; frequencies with units as ParseFreqMHz
+// takes them). One figure fits the conductor term only; two fit the
+// two-term model (see CustomCable). Unknown names wrap ErrUnknownCable.
+func ResolveCable(spec string) (Cable, error) {
+	s := strings.TrimSpace(spec)
+	rest, ok := cutPrefixFold(s, "custom:")
+	if !ok {
+		return LookupCable(s)
+	}
+	var pts []LossPoint
+	for _, part := range strings.Split(rest, ",") {
+		p, err := parseLossPoint(strings.TrimSpace(part))
+		if err != nil {
+			return Cable{}, fmt.Errorf("%q: %w", spec, err)
+		}
+		pts = append(pts, p)
+	}
+	if len(pts) > 2 {
+		return Cable{}, fmt.Errorf("%q: give the loss at one or two frequencies", spec)
+	}
+	return CustomCable("custom", pts...)
+}
+
+func cutPrefixFold(s, prefix string) (string, bool) {
+	if len(s) >= len(prefix) && strings.EqualFold(s[:len(prefix)], prefix) {
+		return s[len(prefix):], true
+	}
+	return s, false
+}
+
+// parseLossPoint parses "6.1dB/100ft@146MHz" or "20dB/100m@146MHz".
+func parseLossPoint(s string) (LossPoint, error) {
+	const want = "write e.g. custom:6.1dB/100ft@146MHz or custom:20dB/100m@146MHz,38dB/100m@440MHz"
+	loss, freq, ok := strings.Cut(s, "@")
+	if !ok {
+		return LossPoint{}, fmt.Errorf("no frequency after the loss (%s)", want)
+	}
+	num, per, ok := strings.Cut(loss, "/")
+	if !ok {
+		return LossPoint{}, fmt.Errorf("the loss needs a length it is per, /100ft or /100m (%s)", want)
+	}
+	db, err := ParseLossDB(strings.TrimSpace(num))
+	if err != nil {
+		return LossPoint{}, err
+	}
+	if !(db > 0) {
+		return LossPoint{}, fmt.Errorf("a cable loss must be more than 0 dB")
+	}
+	var perFt float64
+	switch strings.ToLower(strings.TrimSpace(per)) {
+	case "100ft":
+		perFt = db
+	case "100m":
+		perFt = DBPer100FtFromDBPer100M(db)
+	default:
+		return LossPoint{}, fmt.Errorf("loss per %q: use /100ft or /100m (%s)", per, want)
+	}
+	f, err := ParseFreqMHz(strings.TrimSpace(freq))
+	if err != nil {
+		return LossPoint{}, err
+	}
+	return LossPoint{FreqMHz: f, DBPer100Ft: perFt, Source: "user"}, nil
+}
