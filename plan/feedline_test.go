@@ -143,7 +143,7 @@ func TestSWRLoss(t *testing.T) {
 		{"ML 1 dB SWR 3", 1, 3, 1.504, 0.0005},
 		{"ML 3 dB SWR 2", 3, 2, 3.389, 0.0005},
 		{"ML 3 dB SWR 3", 3, 3, 3.968, 0.0005},
-		{"matched", 2.5, 1, 2.5, 1e-12},  // SWR 1 adds nothing (Γ = 0)
+		{"matched", 2.5, 1, 2.5, 1e-12},   // SWR 1 adds nothing (Γ = 0)
 		{"lossless line", 0, 3, 0, 1e-12}, // a = 1: no loss whatever the SWR
 	}
 	for _, c := range total {
