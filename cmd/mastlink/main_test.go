@@ -1,0 +1,91 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files under testdata/")
+
+// runCmd runs mastlink with args and returns stdout, stderr and the exit code.
+func runCmd(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(context.Background(), args, strings.NewReader(""), &out, &errb)
+	return out.String(), errb.String(), code
+}
+
+// golden compares got with testdata/NAME, or rewrites it with -update.
+func golden(t *testing.T, name, got string) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if *update {
+		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test ./cmd/mastlink -update to create it)", err)
+	}
+	if string(want) != got {
+		t.Errorf("output differs from %s (rerun with -update if the change is intended)\n--- got ---\n%s\n--- want ---\n%s", path, got, want)
+	}
+}
+
+// decodeJSON decodes the JSON output of a command into a map.
+func decodeJSON(t *testing.T, s string) map[string]any {
+	t.Helper()
+	var m map[string]any
+	if err := json.Unmarshal([]byte(s), &m); err != nil {
+		t.Fatalf("output is not JSON: %v\n%s", err, s)
+	}
+	return m
+}
+
+func TestExitCodes(t *testing.T) {
+	cases := []struct {
+		name string
+		args []string
+		code int
+		msg  string
+	}{
+		{"unknown command", []string{"nosuch"}, 2, "unknown command"},
+		{"bad format", []string{"--format", "xml", "version"}, 2, `--format: "xml" is not a format`},
+		{"bad units", []string{"--units", "furlongs", "version"}, 2, "--units"},
+		{"bad quantity", []string{"horizon", "--height", "12 meters"}, 2, `--height: "12 meters": unknown unit "meters" (use m, km, ft or mi)`},
+		{"missing flag", []string{"horizon"}, 2, `"height" not set`},
+		{"bad k", []string{"horizon", "--height", "2m", "--k", "zero"}, 2, "--k:"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, stderr, code := runCmd(t, c.args...)
+			if code != c.code {
+				t.Errorf("exit code %d, want %d (stderr %q)", code, c.code, stderr)
+			}
+			if !strings.Contains(stderr, c.msg) {
+				t.Errorf("stderr %q does not contain %q", stderr, c.msg)
+			}
+			if n := strings.Count(strings.TrimSpace(stderr), "\n"); n != 0 {
+				t.Errorf("error is not one line: %q", stderr)
+			}
+		})
+	}
+}
+
+func TestVersion(t *testing.T) {
+	out, _, code := runCmd(t, "version")
+	if code != 0 || !strings.HasPrefix(out, "mastlink ") {
+		t.Fatalf("version: %q, code %d", out, code)
+	}
+}

@@ -1,0 +1,159 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/spf13/cobra"
+)
+
+// version is set at build time with -ldflags "-X main.version=…".
+var version = "0.1.0-dev"
+
+// globals holds the flags every command shares and the streams it writes to.
+type globals struct {
+	format  string // text, json or csv
+	dem     string // DEM directory or files (comma separated); also MASTLINK_DEM
+	units   string // metric or imperial (text output only)
+	out     string // output file, format from its extension
+	cacheMB int    // tile cache size in MiB; also MASTLINK_CACHE_MB
+
+	stdin          io.Reader
+	stdout, stderr io.Writer
+}
+
+// usageError marks an error as bad usage (exit code 2).
+type usageError struct{ err error }
+
+func (e usageError) Error() string { return e.err.Error() }
+func (e usageError) Unwrap() error { return e.err }
+
+func usagef(format string, a ...any) error { return usageError{fmt.Errorf(format, a...)} }
+
+// run builds the command tree, runs it with args and returns the exit code:
+// 0 success, 1 computation or data error, 2 bad usage.
+func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	g := &globals{stdin: stdin, stdout: stdout, stderr: stderr}
+	root := newRootCmd(g)
+	root.SetArgs(args)
+	root.SetIn(stdin)
+	root.SetOut(stdout)
+	root.SetErr(stderr)
+	err := root.ExecuteContext(ctx)
+	if err == nil {
+		return 0
+	}
+	fmt.Fprintf(stderr, "mastlink: %s\n", firstLine(err.Error()))
+	var ue usageError
+	if errors.As(err, &ue) || isCobraUsage(err) {
+		return 2
+	}
+	return 1
+}
+
+func firstLine(s string) string {
+	s = strings.TrimSpace(s)
+	if i := strings.IndexByte(s, '\n'); i >= 0 {
+		return s[:i]
+	}
+	return s
+}
+
+// isCobraUsage recognises the argument and flag errors cobra itself returns.
+func isCobraUsage(err error) bool {
+	msg := err.Error()
+	for _, p := range []string{"unknown command", "unknown flag", "unknown shorthand flag", "flag needs an argument", "invalid argument", "accepts ", "requires at least", "requires at most", "required flag", "if any flags in the group", "none of the others can be"} {
+		if strings.Contains(msg, p) {
+			return true
+		}
+	}
+	return false
+}
+
+func newRootCmd(g *globals) *cobra.Command {
+	root := &cobra.Command{
+		Use:   "mastlink",
+		Short: "Plan portable VHF/UHF radio deployments over real terrain",
+		Long: `mastlink plans portable VHF/UHF radio deployments: link budgets over terrain,
+mast and coax trade-offs, coverage along routes, ranking of candidate sites and
+RF-exposure keep-out distances. It works offline from SRTM or GeoTIFF elevation
+data and GPX waypoints.
+
+Quantities take units (12m, 40ft, 5W, 37dBm, 146.52MHz, 2.15dBi, 0.25uV, 90%);
+a bare number takes the default unit named in each flag's help.`,
+		Version:       version,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
+			return g.validate(cmd)
+		},
+	}
+	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err} })
+	pf := root.PersistentFlags()
+	pf.StringVar(&g.format, "format", "text", "output format: text, json or csv (csv where the output is a table)")
+	pf.StringVar(&g.dem, "dem", os.Getenv("MASTLINK_DEM"), "elevation data: a directory or files of SRTM .hgt/.hgt.zip/.hgt.gz or GeoTIFF, comma separated (env MASTLINK_DEM)")
+	pf.StringVar(&g.units, "units", "metric", "units in text output: metric or imperial (JSON is always SI)")
+	pf.StringVarP(&g.out, "out", "o", "", "write the result to this file; the format follows its extension")
+	pf.IntVar(&g.cacheMB, "cache-mb", envInt("MASTLINK_CACHE_MB", 1024), "memory for cached elevation tiles, MiB (env MASTLINK_CACHE_MB)")
+
+	root.AddCommand(
+		newVersionCmd(g),
+	)
+	for _, add := range commandConstructors {
+		root.AddCommand(add(g))
+	}
+	return root
+}
+
+// commandConstructors lists the commands registered by their own files.
+var commandConstructors []func(*globals) *cobra.Command
+
+func envInt(name string, def int) int {
+	v := os.Getenv(name)
+	if v == "" {
+		return def
+	}
+	var n int
+	if _, err := fmt.Sscanf(v, "%d", &n); err != nil || n <= 0 {
+		return def
+	}
+	return n
+}
+
+func (g *globals) validate(cmd *cobra.Command) error {
+	switch g.format {
+	case "text", "json", "csv":
+	default:
+		return usagef("--format: %q is not a format (use text, json or csv)", g.format)
+	}
+	switch g.units {
+	case "metric", "imperial":
+	default:
+		return usagef("--units: %q is not a unit system (use metric or imperial)", g.units)
+	}
+	if g.cacheMB <= 0 {
+		return usagef("--cache-mb: must be a positive number of MiB")
+	}
+	return nil
+}
+
+func (g *globals) imperial() bool { return g.units == "imperial" }
+
+func newVersionCmd(g *globals) *cobra.Command {
+	return &cobra.Command{
+		Use:   "version",
+		Short: "Print the mastlink version",
+		Args:  cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if g.format == "json" {
+				return writeJSON(g.stdout, map[string]string{"version": version})
+			}
+			_, err := fmt.Fprintf(g.stdout, "mastlink %s\n", version)
+			return err
+		},
+	}
+}

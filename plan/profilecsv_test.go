@@ -1,0 +1,67 @@
+package plan
+
+import (
+	"errors"
+	"strings"
+	"testing"
+)
+
+func TestDecodeProfileCSV(t *testing.T) {
+	in := "# surveyed\ndistance_km,elevation_m,clutter_m,lat\n1.0,100,0,1\n1.5,120,10,1\n3.0,90,,1\n"
+	p, err := DecodeProfileCSV(strings.NewReader(in), "p.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantD := []float64{0, 500, 2000}
+	for i, d := range wantD {
+		if p.DistM[i] != d {
+			t.Errorf("DistM[%d] = %v, want %v", i, p.DistM[i], d)
+		}
+	}
+	if p.ElevM[1] != 120 || p.ClutterM[1] != 10 || p.ClutterM[2] != 0 {
+		t.Errorf("got %+v", p)
+	}
+}
+
+func TestDecodeProfileCSVErrors(t *testing.T) {
+	cases := []struct{ name, in, want string }{
+		{"empty", "", "the file is empty"},
+		{"no columns", "d,h\n1,2\n", "p.csv:1: the header needs distance_m"},
+		{"not a number", "distance_m,elevation_m\n0,1\n10,x\n", `p.csv:3: elevation_m: "x" is not a number`},
+		{"decreasing", "distance_m,elevation_m\n0,1\n10,2\n5,3\n", "p.csv:4: distance_m: distances must increase"},
+		{"one row", "distance_m,elevation_m\n0,1\n", "at least two rows"},
+		{"missing value", "distance_m,elevation_m\n0,1\n10\n", "p.csv:3: elevation_m: missing value"},
+		{"absurd height", "distance_m,elevation_m\n0,1\n10,99999\n", "not a ground height"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := DecodeProfileCSV(strings.NewReader(c.in), "p.csv")
+			if err == nil || !errors.Is(err, ErrProfileCSV) || !strings.Contains(err.Error(), c.want) {
+				t.Fatalf("err = %v, want %q", err, c.want)
+			}
+		})
+	}
+}
+
+func FuzzDecodeProfileCSV(f *testing.F) {
+	f.Add("distance_m,elevation_m\n0,10\n100,20\n")
+	f.Add("distance_km,elevation_m,clutter_m\n0,10,0\n0.1,20,5\n0.2,5,\n")
+	f.Add("\ufeffdistance_m;elevation_m\n")
+	f.Fuzz(func(t *testing.T, in string) {
+		p, err := DecodeProfileCSV(strings.NewReader(in), "fuzz.csv")
+		if err != nil {
+			if !errors.Is(err, ErrProfileCSV) {
+				t.Fatalf("error does not wrap ErrProfileCSV: %v", err)
+			}
+			return
+		}
+		if len(p.DistM) < 2 || p.DistM[0] != 0 {
+			t.Fatalf("accepted a bad profile: %+v", p)
+		}
+		for i := 1; i < len(p.DistM); i++ {
+			if !(p.DistM[i] > p.DistM[i-1]) {
+				t.Fatalf("distances not increasing: %v", p.DistM)
+			}
+		}
+	})
+}

@@ -1,0 +1,130 @@
+package propagation
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+)
+
+// ErrUnknownModel is wrapped by ModelByName when no model has the name.
+var ErrUnknownModel = errors.New("propagation: unknown model")
+
+// Result is the loss breakdown of one path. Losses are in dB.
+type Result struct {
+	// Model is the Name of the model that produced the result.
+	Model string
+	// FreeSpaceDB is the free-space basic transmission loss over the path
+	// length (ITU-R P.525-4), with the wavelength from Params.
+	FreeSpaceDB float64
+	// ExcessDB is the loss beyond free space (diffraction); 0 for FreeSpace.
+	ExcessDB float64
+	// PathLossDB = FreeSpaceDB + ExcessDB.
+	PathLossDB float64
+	// LineOfSight is true when the terrain, clutter and earth bulge stay
+	// below the straight ray between the antennas at every point.
+	LineOfSight bool
+	// WorstClearanceF1 is the smallest ratio over the intermediate points of
+	// the clearance between the ray and terrain + clutter + bulge to the
+	// first Fresnel-zone radius there: ≥ 1 clear, 0.6 the usual planning
+	// minimum, < 0 obstructed; +Inf for a path with no intermediate points.
+	WorstClearanceF1 float64
+	// ObstacleIndex is the index in Path of the point of WorstClearanceF1,
+	// −1 when the path has no intermediate points.
+	ObstacleIndex int
+	// Bullington holds the delta-Bullington terms (Terrain model only;
+	// zero for other models).
+	Bullington BullingtonTerms
+}
+
+// Model computes the loss of a radio path. Implementations are safe for
+// concurrent use and do not allocate in Loss. Further models (for instance
+// Longley–Rice ITM) join by implementing this interface; parameters they
+// need beyond Params are fields of the model value, so callers holding a
+// Model do not change.
+type Model interface {
+	// Name is the short name used on the command line and in JSON
+	// ("free-space", "terrain").
+	Name() string
+	// Loss returns the loss breakdown of path p for prm. Errors wrap
+	// ErrBadPath or ErrBadParams.
+	Loss(p Path, prm Params) (Result, error)
+}
+
+// FreeSpace is the Model of free-space loss alone (ITU-R P.525-4): terrain
+// only informs the clearance and line-of-sight fields, never the loss.
+type FreeSpace struct{}
+
+// Name returns "free-space".
+func (FreeSpace) Name() string { return "free-space" }
+
+// Loss returns the free-space loss over the path length, with the clearance
+// of the profile. ExcessDB is 0.
+func (m FreeSpace) Loss(p Path, prm Params) (Result, error) {
+	rp, err := prm.resolve()
+	if err != nil {
+		return Result{}, err
+	}
+	s, err := scanProfile(p, rp)
+	if err != nil {
+		return Result{}, err
+	}
+	r := baseResult(m.Name(), &s, rp)
+	r.PathLossDB = r.FreeSpaceDB
+	return r, nil
+}
+
+// Terrain is the Model of free-space loss plus diffraction over the terrain
+// profile by the delta-Bullington method of ITU-R P.526-16 §4.5, which
+// includes smooth-earth diffraction (§3.2) for the polarization and ground
+// in Params. Over a profile of zero heights it reduces to smooth-earth
+// diffraction. For a 3300-point profile it reads the profile twice and does
+// not allocate.
+type Terrain struct{}
+
+// Name returns "terrain".
+func (Terrain) Name() string { return "terrain" }
+
+// Loss returns free-space loss plus delta-Bullington diffraction
+// (ExcessDB = BullingtonTerms.LossDB, eq. 66).
+func (m Terrain) Loss(p Path, prm Params) (Result, error) {
+	rp, err := prm.resolve()
+	if err != nil {
+		return Result{}, err
+	}
+	s, err := scanProfile(p, rp)
+	if err != nil {
+		return Result{}, err
+	}
+	r := baseResult(m.Name(), &s, rp)
+	r.Bullington = deltaBullington(p, rp, &s)
+	r.ExcessDB = r.Bullington.LossDB
+	r.PathLossDB = r.FreeSpaceDB + r.ExcessDB
+	return r, nil
+}
+
+func baseResult(name string, s *profileScan, rp params) Result {
+	c := s.clearance()
+	return Result{
+		Model:            name,
+		FreeSpaceDB:      FreeSpaceLossWavelengthDB(s.dKM, rp.wavelengthM),
+		LineOfSight:      c.LineOfSight,
+		WorstClearanceF1: c.WorstF1,
+		ObstacleIndex:    c.Index,
+	}
+}
+
+// ModelNames returns the names ModelByName accepts, in a new slice.
+func ModelNames() []string { return []string{FreeSpace{}.Name(), Terrain{}.Name()} }
+
+// ModelByName returns the model with the given Name, case-insensitively.
+// An unknown name gives an error wrapping ErrUnknownModel that lists the
+// known ones.
+func ModelByName(name string) (Model, error) {
+	switch strings.ToLower(strings.TrimSpace(name)) {
+	case FreeSpace{}.Name():
+		return FreeSpace{}, nil
+	case Terrain{}.Name():
+		return Terrain{}, nil
+	}
+	return nil, fmt.Errorf("%w %q; use one of: %s", ErrUnknownModel, name, strings.Join(ModelNames(), ", "))
+}

@@ -1,0 +1,95 @@
+package propagation
+
+import "math"
+
+// SmoothEarthLossDB returns the diffraction loss in dB, relative to free
+// space, over a smooth spherical earth for a path distKM kilometres long
+// between antennas h1M and h2M metres above the surface, by ITU-R P.526-16
+// §3.2 (eqs. 21–25): beyond the radio horizon the first term of the residue
+// series (§3.1.1, eqs. 11–18); within it the loss interpolated between zero
+// at the clearance h_req and the first-term loss for the modified radius
+// a_em. It uses FreqMHz, EarthRadiusKM, Polarization, Ground and
+// SpeedOfLight from prm (antenna heights come from the arguments). The
+// formulas hold above about 10 MHz. Non-positive distances give 0; negative
+// heights count as 0.
+func SmoothEarthLossDB(distKM, h1M, h2M float64, prm Params) (float64, error) {
+	rp, err := prm.resolve()
+	if err != nil {
+		return 0, err
+	}
+	return smoothEarthLoss(distKM, h1M, h2M, rp), nil
+}
+
+// smoothEarthLoss implements ITU-R P.526-16 §3.2.
+func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
+	if !(dKM > 0) {
+		return 0
+	}
+	h1 = math.Max(h1, 0)
+	h2 = math.Max(h2, 0)
+	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
+		return firstTermLoss(dKM, h1, h2, rp.aeKM, rp)
+	}
+	// Within the horizon: work in metres.
+	d := dKM * 1000
+	ae := rp.aeKM * 1000
+	c := (h1 - h2) / (h1 + h2)                       // eq. 22d
+	m := d * d / (4 * ae * (h1 + h2))                // eq. 22e
+	arg := 1.5 * c * math.Sqrt(3*m/math.Pow(m+1, 3)) // argument of arccos in eq. 22c
+	arg = math.Max(-1, math.Min(1, arg))
+	b := 2 * math.Sqrt((m+1)/(3*m)) * math.Cos(math.Pi/3+math.Acos(arg)/3) // eq. 22c
+	d1 := d / 2 * (1 + b)                                                  // eq. 22a
+	d2 := d - d1                                                           // eq. 22b
+	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d                 // eq. 22
+	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d)                      // eq. 23
+	if h > hreq {
+		return 0
+	}
+	s := math.Sqrt(h1) + math.Sqrt(h2)
+	aem := 0.5 * (d / s) * (d / s) // eq. 24, metres
+	ah := firstTermLoss(dKM, h1, h2, aem/1000, rp)
+	if ah < 0 {
+		return 0
+	}
+	return (1 - h/hreq) * ah // eq. 25
+}
+
+// firstTermLoss is the loss −(F(X) + G(Y1) + G(Y2)) of the first term of the
+// residue series (ITU-R P.526-16 §3.1.1, eqs. 11a–18), distance in km, heights
+// in m, for an effective radius aeKM.
+func firstTermLoss(dKM, h1, h2, aeKM float64, rp params) float64 {
+	f := rp.freqMHz
+	eps := rp.ground.Permittivity
+	q := 18000 * rp.ground.ConductivitySM / f
+	k := 0.36 * math.Pow(aeKM*f, -1.0/3) * math.Pow((eps-1)*(eps-1)+q*q, -0.25) // eq. 11a
+	if rp.pol == Vertical {
+		k *= math.Sqrt(eps*eps + q*q) // eq. 12a
+	}
+	k2 := k * k
+	beta := (1 + 1.6*k2 + 0.67*k2*k2) / (1 + 4.5*k2 + 1.53*k2*k2)   // eq. 16
+	x := 2.188 * beta * math.Cbrt(f) * math.Pow(aeKM, -2.0/3) * dKM // eq. 14a
+	yk := 9.575e-3 * beta * math.Pow(f, 2.0/3) / math.Cbrt(aeKM)    // eq. 15a per metre
+	var fx float64                                                  // eq. 17
+	if x >= 1.6 {
+		fx = 11 + 10*math.Log10(x) - 17.6*x
+	} else {
+		fx = -20*math.Log10(x) - 5.6488*math.Pow(x, 1.425)
+	}
+	floor := 2 + 20*math.Log10(k)
+	return -(fx + heightGain(beta*yk*h1, floor) + heightGain(beta*yk*h2, floor))
+}
+
+// heightGain is G(Y) of ITU-R P.526-16 eq. 18 for B = βY, never below floor
+// (2 + 20 log K).
+func heightGain(b, floor float64) float64 {
+	var g float64
+	if b > 2 {
+		g = 17.6*math.Sqrt(b-1.1) - 5*math.Log10(b-1.1) - 8
+	} else {
+		g = 20 * math.Log10(b+0.1*b*b*b)
+	}
+	if !(g >= floor) {
+		return floor
+	}
+	return g
+}
