@@ -353,3 +353,23 @@ func BenchmarkFeedlineLoss(b *testing.B) {
 		}
 	}
 }
+
+// FuzzLookupCable: any name either finds a catalog cable whose normalized
+// name matches, or fails with ErrUnknownCable; never a panic.
+func FuzzLookupCable(f *testing.F) {
+	for _, s := range append(CableNames(), "rg8x", "RG 8X", "foam 0.24 IN", "RG-59X", "", "\xc2", "--") {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, name string) {
+		c, err := LookupCable(name)
+		if err != nil {
+			if !errors.Is(err, ErrUnknownCable) {
+				t.Fatalf("%q: %v does not wrap ErrUnknownCable", name, err)
+			}
+			return
+		}
+		if normalizeCableName(c.Name) != normalizeCableName(name) {
+			t.Fatalf("%q found %q", name, c.Name)
+		}
+	})
+}

@@ -8,7 +8,8 @@ package plan
 // ParsePowerW watts, ParseFreqMHz megahertz). The rest of the package carries
 // the same unit suffixes on its fields (HeightM, FreqMHz, LossDB), so values
 // pass through without conversion and a reader always sees the unit at the
-// call site. Durations are the exception: they return time.Duration.
+// call site. The exceptions are durations (time.Duration), length ranges
+// (LengthRange, metres) and points (orb.Point, lon/lat degrees).
 //
 // Syntax: a decimal number (optional sign, optional fraction, optional
 // exponent such as 1e3), optional spaces, then a unit. A bare number takes the

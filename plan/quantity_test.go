@@ -464,3 +464,12 @@ func FuzzParsePoint(f *testing.F) {
 		}
 	})
 }
+
+func BenchmarkParseLengthM(b *testing.B) {
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := ParseLengthM("40 ft"); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
