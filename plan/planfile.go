@@ -1,0 +1,885 @@
+package plan
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/mastlink/mastlink/propagation"
+	"github.com/paulmach/orb"
+	"go.yaml.in/yaml/v3"
+)
+
+// ErrPlanFile is wrapped by every error in a plan file.
+var ErrPlanFile = errors.New("plan file")
+
+// PlanError is an error at a place in a plan file: the file, the line (1-based,
+// 0 when the file as a whole is at fault) and the field path.
+type PlanError struct {
+	File  string
+	Line  int
+	Field string // e.g. "stations[0].feedline.cable"; "" for the document
+	Err   error  // what is wrong, often a *QuantityError or a catalog error
+}
+
+// Error renders "plan.yaml:14: feedline.cable: unknown cable …".
+func (e *PlanError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Line > 0 {
+		b.WriteString(":" + strconv.Itoa(e.Line))
+	}
+	b.WriteString(": ")
+	if e.Field != "" {
+		b.WriteString(e.Field + ": ")
+	}
+	b.WriteString(e.Err.Error())
+	return b.String()
+}
+
+// Unwrap returns both ErrPlanFile and the underlying cause.
+func (e *PlanError) Unwrap() []error { return []error{ErrPlanFile, e.Err} }
+
+// Requirement is what every required link must meet.
+type Requirement struct {
+	MarginDB    float64 // fade margin over the receiver sensitivity, dB
+	Reliability float64 // fraction of locations, 0 when not asked
+	SigmaDB     float64 // location variability σ used with Reliability, dB
+}
+
+// NeededMarginDB returns the margin a link needs: the larger of MarginDB and
+// the margin that gives Reliability with a log-normal location variability
+// of SigmaDB (ITU-R P.1812-8 §4.8, eq. 69: M = σ·I(1 − p)).
+func (r Requirement) NeededMarginDB() float64 {
+	m := r.MarginDB
+	if r.Reliability > 0 && r.SigmaDB > 0 {
+		if need := propagation.MarginForReliabilityDB(r.Reliability, r.SigmaDB); need > m {
+			m = need
+		}
+	}
+	return m
+}
+
+// Station is a place the team sets up: its kit and exposure habits.
+type Station struct {
+	End
+	// Exposure holds the station's operating habits for the RF-exposure
+	// evaluation (mode, time on the air, standard, head height, ground
+	// reflection); power, gain, feedline, frequency and height are filled
+	// in from the station when it is evaluated.
+	Exposure ExposureInput
+	line     int
+}
+
+// TargetKind says how a target's links are checked.
+type TargetKind int
+
+// Kinds of target.
+const (
+	// Simplex targets talk and listen on one frequency; checked both ways.
+	Simplex TargetKind = iota
+	// Repeater targets listen on one frequency and transmit on another:
+	// talk-in is checked on ListenMHz with the station transmitting,
+	// talk-out on TransmitMHz with the repeater transmitting.
+	Repeater
+)
+
+// Target is a place the stations must reach.
+type Target struct {
+	End
+	Kind        TargetKind
+	FreqMHz     float64 // simplex frequency
+	ListenMHz   float64 // repeater input (the station transmits here)
+	TransmitMHz float64 // repeater output (the station listens here)
+	Optional    bool    // reported but not part of the requirement
+	line        int
+}
+
+// MastSweep asks for the lowest mast and lightest cable that meet the
+// requirement.
+type MastSweep struct {
+	Heights LengthRange
+	Cables  []Cable // from the catalog, or described by the user
+	RunM    float64 // cable from the mast foot to the radio, metres
+	SlackM  float64 // extra cable for drip loops and the mast head, metres
+}
+
+// Plan is a parsed, validated plan file with every name resolved.
+type Plan struct {
+	Path       string // the plan file as given
+	Name       string
+	FreqMHz    float64
+	Terrain    []string // DEM directories or files, resolved against the plan's folder
+	TerrainAt  int      // line of the terrain field, for errors about missing tiles
+	Waypoints  *GPXFile // nil when the plan names none
+	Require    Requirement
+	K          float64 // effective earth-radius factor
+	Model      string  // "terrain" or "free-space"
+	Vertical   bool    // polarization
+	Sea        bool    // ground constants
+	Stations   []Station
+	Targets    []Target
+	Mast       *MastSweep
+	Routes     []string // GPX files with tracks, resolved
+	Sites      []string // GPX files with candidate waypoints, resolved
+	InputFiles []string // every file the plan reads, for output guards
+}
+
+// Defaults used where a plan file does not say.
+const (
+	DefaultK       = 4.0 / 3.0 // ITU-R P.530-19 §2.2 (median, no local data)
+	DefaultSigmaDB = 5.5       // ITU-R P.1812-8 Table 6 location variability
+)
+
+// LineOf returns the plan-file line where the station was defined.
+func (s Station) LineOf() int { return s.line }
+
+// LineOf returns the plan-file line where the target was defined.
+func (t Target) LineOf() int { return t.line }
+
+// ReadPlan reads and validates the plan file at path. Every error is a
+// *PlanError naming the file, line and field and saying what would fix it.
+func ReadPlan(path string) (*Plan, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, &PlanError{File: path, Err: fmt.Errorf("cannot read the plan: %w", unwrapPathError(err))}
+	}
+	return ParsePlan(data, path)
+}
+
+func unwrapPathError(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// ParsePlan parses a plan document; path names it in errors and anchors the
+// relative paths inside it.
+func ParsePlan(data []byte, path string) (*Plan, error) {
+	p := &planParser{file: path, dir: filepath.Dir(path)}
+	return p.parse(data)
+}
+
+type planParser struct {
+	file, dir string
+	plan      *Plan
+}
+
+func (p *planParser) errf(n *yaml.Node, field, format string, a ...any) error {
+	line := 0
+	if n != nil {
+		line = n.Line
+	}
+	return &PlanError{File: p.file, Line: line, Field: field, Err: fmt.Errorf(format, a...)}
+}
+
+func (p *planParser) wrap(n *yaml.Node, field string, err error) error {
+	line := 0
+	if n != nil {
+		line = n.Line
+	}
+	return &PlanError{File: p.file, Line: line, Field: field, Err: err}
+}
+
+// fields checks that n is a mapping with only the allowed keys and returns
+// its values by key.
+func (p *planParser) fields(n *yaml.Node, field string, allowed ...string) (map[string]*yaml.Node, error) {
+	if n.Kind != yaml.MappingNode {
+		what := "a mapping of " + strings.Join(allowed, ", ")
+		return nil, p.errf(n, field, "expected %s, found %s", what, describe(n))
+	}
+	out := make(map[string]*yaml.Node, len(n.Content)/2)
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := n.Content[i], n.Content[i+1]
+		key := k.Value
+		ok := false
+		for _, a := range allowed {
+			if a == key {
+				ok = true
+				break
+			}
+		}
+		sub := joinField(field, key)
+		if !ok {
+			return nil, p.errf(k, sub, "unknown field (known here: %s)", strings.Join(allowed, ", "))
+		}
+		if _, dup := out[key]; dup {
+			return nil, p.errf(k, sub, "given twice")
+		}
+		out[key] = v
+	}
+	return out, nil
+}
+
+func joinField(parent, key string) string {
+	if parent == "" {
+		return key
+	}
+	return parent + "." + key
+}
+
+func describe(n *yaml.Node) string {
+	switch n.Kind {
+	case yaml.MappingNode:
+		return "a mapping"
+	case yaml.SequenceNode:
+		return "a list"
+	case yaml.ScalarNode:
+		if n.Tag == "!!null" {
+			return "nothing"
+		}
+		return fmt.Sprintf("%q", n.Value)
+	case yaml.AliasNode:
+		return "an alias"
+	}
+	return "something else"
+}
+
+// scalar returns the text of a scalar node.
+func (p *planParser) scalar(n *yaml.Node, field string) (string, error) {
+	if n.Kind != yaml.ScalarNode || n.Tag == "!!null" {
+		return "", p.errf(n, field, "expected a value, found %s", describe(n))
+	}
+	return strings.TrimSpace(n.Value), nil
+}
+
+// quantity parses a scalar with fn, wrapping the error with the position.
+func (p *planParser) quantity(n *yaml.Node, field string, fn func(string) (float64, error)) (float64, error) {
+	s, err := p.scalar(n, field)
+	if err != nil {
+		return 0, err
+	}
+	v, err := fn(s)
+	if err != nil {
+		return 0, p.wrap(n, field, err)
+	}
+	return v, nil
+}
+
+func (p *planParser) path(n *yaml.Node, field string) (string, error) {
+	s, err := p.scalar(n, field)
+	if err != nil {
+		return "", err
+	}
+	if s == "" {
+		return "", p.errf(n, field, "empty path")
+	}
+	if !filepath.IsAbs(s) {
+		s = filepath.Join(p.dir, s)
+	}
+	return s, nil
+}
+
+// paths accepts one path or a list of paths.
+func (p *planParser) paths(n *yaml.Node, field string) ([]string, error) {
+	if n.Kind == yaml.SequenceNode {
+		var out []string
+		for i, c := range n.Content {
+			s, err := p.path(c, fmt.Sprintf("%s[%d]", field, i))
+			if err != nil {
+				return nil, err
+			}
+			out = append(out, s)
+		}
+		return out, nil
+	}
+	s, err := p.path(n, field)
+	if err != nil {
+		return nil, err
+	}
+	return []string{s}, nil
+}
+
+var topFields = []string{"name", "frequency", "terrain", "waypoints", "require", "k", "model", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites"}
+
+func (p *planParser) parse(data []byte) (*Plan, error) {
+	if len(bytes.TrimSpace(data)) == 0 {
+		return nil, p.errf(nil, "", "the plan is empty (start from examples/valley/plan.yaml)")
+	}
+	var doc yaml.Node
+	if err := yaml.Unmarshal(data, &doc); err != nil {
+		return nil, p.yamlError(err)
+	}
+	if doc.Kind != yaml.DocumentNode || len(doc.Content) == 0 {
+		return nil, p.errf(nil, "", "the plan is empty (start from examples/valley/plan.yaml)")
+	}
+	root := doc.Content[0]
+	f, err := p.fields(root, "", topFields...)
+	if err != nil {
+		return nil, err
+	}
+	pl := &Plan{Path: p.file, K: DefaultK, Model: "terrain", Vertical: true, InputFiles: []string{p.file}}
+	p.plan = pl
+	pl.Require.SigmaDB = DefaultSigmaDB
+
+	if n := f["name"]; n != nil {
+		if pl.Name, err = p.scalar(n, "name"); err != nil {
+			return nil, err
+		}
+	}
+	if n := f["frequency"]; n != nil {
+		if pl.FreqMHz, err = p.quantity(n, "frequency", ParseFreqMHz); err != nil {
+			return nil, err
+		}
+	}
+	if n := f["terrain"]; n != nil {
+		if pl.Terrain, err = p.paths(n, "terrain"); err != nil {
+			return nil, err
+		}
+		pl.TerrainAt = n.Line
+		for _, t := range pl.Terrain {
+			if _, err := os.Stat(t); err != nil {
+				return nil, p.errf(n, "terrain", "%s: %v (give a folder of .hgt or GeoTIFF files, relative to the plan)", t, unwrapPathError(err))
+			}
+		}
+	}
+	if n := f["waypoints"]; n != nil {
+		wp, err := p.path(n, "waypoints")
+		if err != nil {
+			return nil, err
+		}
+		g, err := ReadGPX(wp)
+		if err != nil {
+			return nil, p.wrap(n, "waypoints", err)
+		}
+		pl.Waypoints = g
+		pl.InputFiles = append(pl.InputFiles, wp)
+	}
+	if n := f["require"]; n != nil {
+		if err := p.require(n, &pl.Require); err != nil {
+			return nil, err
+		}
+	}
+	if n := f["k"]; n != nil {
+		if pl.K, err = p.quantity(n, "k", parseK); err != nil {
+			return nil, err
+		}
+	}
+	if n := f["model"]; n != nil {
+		if pl.Model, err = p.choice(n, "model", "terrain", "free-space"); err != nil {
+			return nil, err
+		}
+	}
+	if n := f["polarization"]; n != nil {
+		v, err := p.choice(n, "polarization", "vertical", "horizontal")
+		if err != nil {
+			return nil, err
+		}
+		pl.Vertical = v == "vertical"
+	}
+	if n := f["ground"]; n != nil {
+		v, err := p.choice(n, "ground", "land", "sea")
+		if err != nil {
+			return nil, err
+		}
+		pl.Sea = v == "sea"
+	}
+	def := kit{antenna: Antenna{GainDBi: 0, HeightM: 1.5}} // a handheld at chest height; radios must be given
+	if n := f["defaults"]; n != nil {
+		if err := p.defaults(n, &def); err != nil {
+			return nil, err
+		}
+	}
+	n := f["stations"]
+	if n == nil || n.Kind != yaml.SequenceNode || len(n.Content) == 0 {
+		return nil, p.errf(orNode(n, root), "stations", "the plan needs at least one station (a list of name, at, radio, antenna, feedline)")
+	}
+	for i, c := range n.Content {
+		st, err := p.station(c, fmt.Sprintf("stations[%d]", i), def)
+		if err != nil {
+			return nil, err
+		}
+		pl.Stations = append(pl.Stations, st)
+	}
+	if n := f["targets"]; n != nil {
+		if n.Kind != yaml.SequenceNode {
+			return nil, p.errf(n, "targets", "expected a list of targets, found %s", describe(n))
+		}
+		for i, c := range n.Content {
+			t, err := p.target(c, fmt.Sprintf("targets[%d]", i), def)
+			if err != nil {
+				return nil, err
+			}
+			pl.Targets = append(pl.Targets, t)
+		}
+	}
+	if n := f["mast"]; n != nil {
+		m, err := p.mast(n)
+		if err != nil {
+			return nil, err
+		}
+		pl.Mast = m
+	}
+	for _, key := range []string{"routes", "sites"} {
+		n := f[key]
+		if n == nil {
+			continue
+		}
+		files, err := p.paths(n, key)
+		if err != nil {
+			return nil, err
+		}
+		for _, fp := range files {
+			if _, err := os.Stat(fp); err != nil {
+				return nil, p.errf(n, key, "%s: %v", fp, unwrapPathError(err))
+			}
+		}
+		if key == "routes" {
+			pl.Routes = files
+		} else {
+			pl.Sites = files
+		}
+		pl.InputFiles = append(pl.InputFiles, files...)
+	}
+	if len(pl.Targets) == 0 && len(pl.Routes) == 0 && len(pl.Sites) == 0 {
+		return nil, p.errf(root, "targets", "the plan has no targets: list the repeaters, net control and teams to reach")
+	}
+	return pl, nil
+}
+
+func orNode(n, fallback *yaml.Node) *yaml.Node {
+	if n != nil {
+		return n
+	}
+	return fallback
+}
+
+func (p *planParser) yamlError(err error) error {
+	msg := err.Error()
+	msg = strings.TrimPrefix(msg, "yaml: ")
+	line := 0
+	// yaml.v3 reports "line N: …" or "yaml: unmarshal errors:\n  line N: …".
+	if i := strings.Index(msg, "line "); i >= 0 {
+		rest := msg[i+5:]
+		j := 0
+		for j < len(rest) && rest[j] >= '0' && rest[j] <= '9' {
+			j++
+		}
+		if n, e := strconv.Atoi(rest[:j]); e == nil {
+			line = n
+			msg = strings.TrimLeft(strings.TrimPrefix(rest[j:], ":"), " ")
+		}
+	}
+	return &PlanError{File: p.file, Line: line, Err: fmt.Errorf("not valid YAML: %s", firstLineOf(msg))}
+}
+
+func firstLineOf(s string) string {
+	if i := strings.IndexByte(s, '\n'); i >= 0 {
+		return s[:i]
+	}
+	return s
+}
+
+func (p *planParser) choice(n *yaml.Node, field string, options ...string) (string, error) {
+	s, err := p.scalar(n, field)
+	if err != nil {
+		return "", err
+	}
+	ls := strings.ToLower(s)
+	for _, o := range options {
+		if ls == o {
+			return o, nil
+		}
+	}
+	return "", p.errf(n, field, "%q is not one of %s", s, strings.Join(options, ", "))
+}
+
+// parseK parses an effective earth-radius factor: a number such as 1.333 or
+// a fraction such as 4/3, between 0.5 and 10.
+func parseK(s string) (float64, error) {
+	var k float64
+	if a, b, ok := strings.Cut(s, "/"); ok {
+		x, e1 := strconv.ParseFloat(strings.TrimSpace(a), 64)
+		y, e2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
+		if e1 != nil || e2 != nil || y == 0 {
+			return 0, fmt.Errorf("%q is not a k-factor (write e.g. 4/3 or 1.333)", s)
+		}
+		k = x / y
+	} else {
+		x, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			return 0, fmt.Errorf("%q is not a k-factor (write e.g. 4/3 or 1.333)", s)
+		}
+		k = x
+	}
+	if !(k >= 0.5 && k <= 10) {
+		return 0, fmt.Errorf("k-factor %g is outside 0.5 to 10 (4/3 is the usual median)", k)
+	}
+	return k, nil
+}
+
+func (p *planParser) require(n *yaml.Node, r *Requirement) error {
+	f, err := p.fields(n, "require", "margin", "reliability", "sigma")
+	if err != nil {
+		return err
+	}
+	if c := f["margin"]; c != nil {
+		if r.MarginDB, err = p.quantity(c, "require.margin", ParseLossDB); err != nil {
+			return err
+		}
+	}
+	if c := f["reliability"]; c != nil {
+		if r.Reliability, err = p.quantity(c, "require.reliability", ParseRatio); err != nil {
+			return err
+		}
+		if !(r.Reliability > 0 && r.Reliability < 1) {
+			return p.errf(c, "require.reliability", "must be above 0%% and below 100%% (e.g. 90%%)")
+		}
+	}
+	if c := f["sigma"]; c != nil {
+		if r.SigmaDB, err = p.quantity(c, "require.sigma", ParseLossDB); err != nil {
+			return err
+		}
+		if !(r.SigmaDB > 0) {
+			return p.errf(c, "require.sigma", "must be more than 0 dB (5.5 to 8 dB is usual at VHF/UHF)")
+		}
+	}
+	return nil
+}
+
+// kit is the radio, antenna and feedline an end uses.
+type kit struct {
+	radio    Radio
+	antenna  Antenna
+	feedline Feedline
+}
+
+func (p *planParser) defaults(n *yaml.Node, k *kit) error {
+	f, err := p.fields(n, "defaults", "radio", "antenna", "feedline")
+	if err != nil {
+		return err
+	}
+	return p.kit(f, "defaults", k)
+}
+
+func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
+	var err error
+	if c := f["radio"]; c != nil {
+		rf, err := p.fields(c, joinField(field, "radio"), "power", "sensitivity")
+		if err != nil {
+			return err
+		}
+		if v := rf["power"]; v != nil {
+			if k.radio.PowerW, err = p.quantity(v, joinField(field, "radio.power"), ParsePowerW); err != nil {
+				return err
+			}
+		}
+		if v := rf["sensitivity"]; v != nil {
+			if k.radio.SensitivityDBm, err = p.quantity(v, joinField(field, "radio.sensitivity"), ParseSensitivityDBm); err != nil {
+				return err
+			}
+		}
+	}
+	if c := f["antenna"]; c != nil {
+		af, err := p.fields(c, joinField(field, "antenna"), "gain", "height")
+		if err != nil {
+			return err
+		}
+		if v := af["gain"]; v != nil {
+			if k.antenna.GainDBi, err = p.quantity(v, joinField(field, "antenna.gain"), ParseGainDBi); err != nil {
+				return err
+			}
+		}
+		if v := af["height"]; v != nil {
+			if k.antenna.HeightM, err = p.quantity(v, joinField(field, "antenna.height"), ParseLengthM); err != nil {
+				return err
+			}
+		}
+	}
+	if c := f["feedline"]; c != nil {
+		ff, err := p.fields(c, joinField(field, "feedline"), "cable", "length", "connectors", "swr")
+		if err != nil {
+			return err
+		}
+		if v := ff["cable"]; v != nil {
+			name, err := p.scalar(v, joinField(field, "feedline.cable"))
+			if err != nil {
+				return err
+			}
+			c, err := ResolveCable(name)
+			if err != nil {
+				return p.wrap(v, joinField(field, "feedline.cable"), err)
+			}
+			k.feedline.Cable = c
+			if k.feedline.ConnectorLossDB == 0 {
+				k.feedline.ConnectorLossDB = DefaultConnectorLossDB
+			}
+		}
+		if v := ff["length"]; v != nil {
+			if k.feedline.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), ParseLengthM); err != nil {
+				return err
+			}
+		}
+		if v := ff["connectors"]; v != nil {
+			s, err := p.scalar(v, joinField(field, "feedline.connectors"))
+			if err != nil {
+				return err
+			}
+			c, e := strconv.Atoi(s)
+			if e != nil || c < 0 || c > 20 {
+				return p.errf(v, joinField(field, "feedline.connectors"), "%q is not a number of connector pairs from 0 to 20", s)
+			}
+			k.feedline.Connectors = c
+		}
+		if v := ff["swr"]; v != nil {
+			if k.feedline.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), ParseSWR); err != nil {
+				return err
+			}
+		}
+	}
+	_ = err
+	return nil
+}
+
+// position resolves "at": a waypoint name or LAT,LON.
+func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
+	s, err := p.scalar(n, field)
+	if err != nil {
+		return orb.Point{}, err
+	}
+	pt, perr := ParsePoint(s)
+	if perr == nil {
+		return pt, nil
+	}
+	if !errors.Is(perr, ErrSyntax) {
+		return orb.Point{}, p.wrap(n, field, perr)
+	}
+	if p.plan.Waypoints == nil {
+		return orb.Point{}, p.errf(n, field, "%q is neither LAT,LON nor a waypoint (the plan names no waypoints file; add `waypoints: FILE.gpx`)", s)
+	}
+	w, err := p.plan.Waypoints.Lookup(s)
+	if err != nil {
+		return orb.Point{}, p.wrap(n, field, err)
+	}
+	return w.Pos, nil
+}
+
+func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, error) {
+	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", "exposure")
+	if err != nil {
+		return Station{}, err
+	}
+	st := Station{line: n.Line}
+	if err := p.end(n, f, field, def, &st.End, true); err != nil {
+		return Station{}, err
+	}
+	st.Exposure = ExposureInput{Mode: ModeFM, TxFraction: 0.5, Standard: StandardFCC, HeadHeightM: DefaultHeadHeightM, ReflectionFactor: ReflectionGround}
+	if c := f["exposure"]; c != nil {
+		if err := p.exposure(c, joinField(field, "exposure"), &st.Exposure); err != nil {
+			return Station{}, err
+		}
+	}
+	return st, nil
+}
+
+func (p *planParser) end(n *yaml.Node, f map[string]*yaml.Node, field string, def kit, e *End, needRadio bool) error {
+	nameNode := f["name"]
+	if nameNode == nil {
+		return p.errf(n, joinField(field, "name"), "missing: every entry needs a name")
+	}
+	name, err := p.scalar(nameNode, joinField(field, "name"))
+	if err != nil {
+		return err
+	}
+	e.Name = name
+	atNode := f["at"]
+	if atNode == nil {
+		atNode = nameNode // a waypoint of the same name
+	}
+	if e.Pos, err = p.position(atNode, joinField(field, "at")); err != nil {
+		return err
+	}
+	k := def
+	if err := p.kit(f, field, &k); err != nil {
+		return err
+	}
+	if needRadio && (k.radio.PowerW == 0 || k.radio.SensitivityDBm == 0) {
+		return p.errf(n, joinField(field, "radio"), "missing: give radio: {power: 5W, sensitivity: 0.25uV} here or under defaults")
+	}
+	e.Radio, e.Antenna, e.Feedline = k.radio, k.antenna, k.feedline
+	if e.Feedline.Cable.Name != "" && e.Feedline.LengthM == 0 {
+		return p.errf(orNode(f["feedline"], n), joinField(field, "feedline.length"), "missing: a cable needs a length (e.g. length: 15m)")
+	}
+	return nil
+}
+
+func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error) {
+	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", "listen", "transmit", "frequency", "optional")
+	if err != nil {
+		return Target{}, err
+	}
+	t := Target{line: n.Line}
+	if err := p.end(n, f, field, def, &t.End, true); err != nil {
+		return Target{}, err
+	}
+	l, tx, fr := f["listen"], f["transmit"], f["frequency"]
+	switch {
+	case l != nil || tx != nil:
+		if l == nil || tx == nil {
+			return Target{}, p.errf(n, field, "a repeater needs both listen and transmit frequencies")
+		}
+		if fr != nil {
+			return Target{}, p.errf(fr, joinField(field, "frequency"), "give either frequency (simplex) or listen and transmit (repeater), not both")
+		}
+		t.Kind = Repeater
+		if t.ListenMHz, err = p.quantity(l, joinField(field, "listen"), ParseFreqMHz); err != nil {
+			return Target{}, err
+		}
+		if t.TransmitMHz, err = p.quantity(tx, joinField(field, "transmit"), ParseFreqMHz); err != nil {
+			return Target{}, err
+		}
+	case fr != nil:
+		if t.FreqMHz, err = p.quantity(fr, joinField(field, "frequency"), ParseFreqMHz); err != nil {
+			return Target{}, err
+		}
+	default:
+		if p.plan.FreqMHz == 0 {
+			return Target{}, p.errf(n, joinField(field, "frequency"), "missing: give frequency here or at the top of the plan")
+		}
+		t.FreqMHz = p.plan.FreqMHz
+	}
+	if c := f["optional"]; c != nil {
+		s, err := p.choice(c, joinField(field, "optional"), "true", "false", "yes", "no")
+		if err != nil {
+			return Target{}, err
+		}
+		t.Optional = s == "true" || s == "yes"
+	}
+	return t, nil
+}
+
+var exposureModes = []string{"fm", "ssb", "ssb-processed", "cw", "digital", "carrier"}
+
+func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) error {
+	f, err := p.fields(n, field, "mode", "duty", "tx_time", "on", "off", "standard", "head_height", "reflection")
+	if err != nil {
+		return err
+	}
+	if c := f["mode"]; c != nil {
+		m, err := p.choice(c, joinField(field, "mode"), exposureModes...)
+		if err != nil {
+			return err
+		}
+		e.Mode = TxMode(m)
+	}
+	if c := f["duty"]; c != nil {
+		if e.DutyFactor, err = p.quantity(c, joinField(field, "duty"), ParseRatio); err != nil {
+			return err
+		}
+		if !(e.DutyFactor > 0 && e.DutyFactor <= 1) {
+			return p.errf(c, joinField(field, "duty"), "give a duty factor above 0 and up to 100%%")
+		}
+	}
+	on, off := f["on"], f["off"]
+	if c := f["tx_time"]; c != nil {
+		if on != nil || off != nil {
+			return p.errf(c, joinField(field, "tx_time"), "give either tx_time or an on/off cycle, not both")
+		}
+		if e.TxFraction, err = p.quantity(c, joinField(field, "tx_time"), ParseRatio); err != nil {
+			return err
+		}
+		if !(e.TxFraction > 0 && e.TxFraction <= 1) {
+			return p.errf(c, joinField(field, "tx_time"), "give a fraction above 0 and up to 100%% of the time")
+		}
+	}
+	if on != nil || off != nil {
+		if on == nil || off == nil {
+			return p.errf(n, field, "a transmit cycle needs both on and off (e.g. on: 2min, off: 2min)")
+		}
+		for _, pair := range []struct {
+			n   *yaml.Node
+			key string
+			dst *time.Duration
+		}{{on, "on", &e.OnTime}, {off, "off", &e.OffTime}} {
+			s, err := p.scalar(pair.n, joinField(field, pair.key))
+			if err != nil {
+				return err
+			}
+			d, err := ParseDuration(s)
+			if err != nil {
+				return p.wrap(pair.n, joinField(field, pair.key), err)
+			}
+			*pair.dst = d
+		}
+		if e.OnTime <= 0 {
+			return p.errf(on, joinField(field, "on"), "the transmit time must be more than 0")
+		}
+		e.TxFraction = 0
+	}
+	if c := f["standard"]; c != nil {
+		v, err := p.choice(c, joinField(field, "standard"), "fcc", "icnirp2020", "icnirp1998")
+		if err != nil {
+			return err
+		}
+		e.Standard = ExposureStandard(v)
+	}
+	if c := f["head_height"]; c != nil {
+		if e.HeadHeightM, err = p.quantity(c, joinField(field, "head_height"), ParseLengthM); err != nil {
+			return err
+		}
+	}
+	if c := f["reflection"]; c != nil {
+		s, err := p.choice(c, joinField(field, "reflection"), "1", "2.56", "4")
+		if err != nil {
+			return err
+		}
+		e.ReflectionFactor, _ = strconv.ParseFloat(s, 64)
+	}
+	return nil
+}
+
+func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
+	f, err := p.fields(n, "mast", "heights", "cables", "run", "slack")
+	if err != nil {
+		return nil, err
+	}
+	m := &MastSweep{SlackM: 1}
+	c := f["heights"]
+	if c == nil {
+		return nil, p.errf(n, "mast.heights", "missing: give the heights to try (e.g. heights: 2m..12m step 1m)")
+	}
+	s, err := p.scalar(c, "mast.heights")
+	if err != nil {
+		return nil, err
+	}
+	if m.Heights, err = ParseLengthRange(s); err != nil {
+		return nil, p.wrap(c, "mast.heights", err)
+	}
+	c = f["cables"]
+	if c == nil {
+		return nil, p.errf(n, "mast.cables", "missing: list the cables to try (e.g. cables: [RG-58, RG-8X, RG-213])")
+	}
+	if c.Kind != yaml.SequenceNode || len(c.Content) == 0 {
+		return nil, p.errf(c, "mast.cables", "expected a list of cable names, found %s", describe(c))
+	}
+	for i, cc := range c.Content {
+		fld := fmt.Sprintf("mast.cables[%d]", i)
+		name, err := p.scalar(cc, fld)
+		if err != nil {
+			return nil, err
+		}
+		c, err := ResolveCable(name)
+		if err != nil {
+			return nil, p.wrap(cc, fld, err)
+		}
+		m.Cables = append(m.Cables, c)
+	}
+	if c := f["run"]; c != nil {
+		if m.RunM, err = p.quantity(c, "mast.run", ParseLengthM); err != nil {
+			return nil, err
+		}
+	}
+	if c := f["slack"]; c != nil {
+		if m.SlackM, err = p.quantity(c, "mast.slack", ParseLengthM); err != nil {
+			return nil, err
+		}
+	}
+	return m, nil
+}

@@ -1,0 +1,137 @@
+package plan
+
+import (
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+const examplePlan = "../examples/valley/plan.yaml"
+
+func TestReadExamplePlan(t *testing.T) {
+	p, err := ReadPlan(examplePlan)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(p.Stations) != 1 || len(p.Targets) != 5 {
+		t.Fatalf("stations %d, targets %d", len(p.Stations), len(p.Targets))
+	}
+	st := p.Stations[0]
+	if st.Name != "Valley Base" || st.Antenna.HeightM != 9 || st.Feedline.Cable.Name != "RG-8X" || st.Feedline.Connectors != 2 {
+		t.Errorf("station = %+v", st)
+	}
+	// 0.25 µV across 50 Ω = −119.0 dBm (REFERENCES §6, P = V²/R).
+	if math.Abs(st.Radio.SensitivityDBm-(-119.04)) > 0.01 {
+		t.Errorf("sensitivity %v dBm", st.Radio.SensitivityDBm)
+	}
+	rep := p.Targets[0]
+	if rep.Kind != Repeater || rep.ListenMHz != 147.78 || rep.TransmitMHz != 147.18 {
+		t.Errorf("repeater = %+v", rep)
+	}
+	if alder := p.Targets[1]; alder.Kind != Simplex || alder.FreqMHz != 146.55 || alder.Radio.PowerW != 5 || alder.Antenna.HeightM != 1.5 {
+		t.Errorf("defaults not applied: %+v", alder)
+	}
+	if !p.Targets[4].Optional {
+		t.Errorf("hut should be optional")
+	}
+	// σ 5.5 dB and 90 % need 7.05 dB (REFERENCES §5); the 10 dB margin is larger.
+	if got := p.Require.NeededMarginDB(); got != 10 {
+		t.Errorf("needed margin %v", got)
+	}
+	if p.Mast == nil || len(p.Mast.Cables) != 4 || p.Mast.Heights.Len() != 10 || p.Mast.RunM != 10 {
+		t.Errorf("mast = %+v", p.Mast)
+	}
+}
+
+func TestRequirementReliability(t *testing.T) {
+	// ITU-R P.1812-8 eq. 69 with σ = 8 dB: 90 % needs 10.25 dB, 95 % 13.16 dB
+	// (REFERENCES §5, computed from the published formula).
+	r := Requirement{MarginDB: 3, Reliability: 0.95, SigmaDB: 8}
+	if got := r.NeededMarginDB(); math.Abs(got-13.16) > 0.01 {
+		t.Errorf("needed margin %v, want 13.16", got)
+	}
+}
+
+// TestBrokenPlans: each broken plan gives one clear error naming the file,
+// the line and the field.
+func TestBrokenPlans(t *testing.T) {
+	base := func(s string) string {
+		return "waypoints: " + absExample("points.gpx") + "\nfrequency: 146.55MHz\n" + s
+	}
+	station := `stations:
+  - name: base
+    at: Wethermoss Saddle
+    radio: {power: 25W, sensitivity: 0.25uV}
+    antenna: {gain: 2.15dBi, height: 9m}
+`
+	target := "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n    radio: {power: 5W, sensitivity: 0.25uV}\n"
+	cases := []struct {
+		name, doc, want string
+		sentinel        error
+	}{
+		{"bad yaml", "stations: [\n  - name: x\n", "plan.yaml:", nil},
+		{"empty", "", "plan.yaml: the plan is empty", nil},
+		{"unknown field", base(station + "  - name: x\n    colour: red\n"), "plan.yaml:9: stations[1].colour: unknown field", nil},
+		{"unknown cable", base(strings.Replace(station, "    antenna:", "    feedline: {cable: RG-59X, length: 10m}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].feedline.cable: unknown cable "RG-59X" (known: RG-174`, ErrUnknownCable},
+		{"unknown waypoint", base(strings.Replace(station, "Wethermoss Saddle", "Wethermos Sadle", 1) + target), `plan.yaml:5: stations[0].at: unknown waypoint "Wethermos Sadle"`, ErrUnknownWaypoint},
+		{"negative height", base(strings.Replace(station, "height: 9m", "height: -9m", 1) + target), "plan.yaml:7: stations[0].antenna.height:", ErrRange},
+		{"power unit", base(strings.Replace(station, "power: 25W", "power: 25 watts", 1) + target), `plan.yaml:6: stations[0].radio.power: "25 watts": unknown unit`, ErrUnit},
+		{"frequency range", "frequency: 146.55THz\n" + station, "plan.yaml:1: frequency:", nil},
+		{"target without radio", base(station + "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n"), "plan.yaml:9: targets[0].radio: missing: give radio:", nil},
+		{"target radio from defaults", base("defaults: {radio: {power: 5W, sensitivity: 0.25uV}}\n" + station + "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n"), "", nil},
+		{"missing gpx", "waypoints: nosuch.gpx\n" + station, "plan.yaml:1: waypoints:", nil},
+		{"no stations", base(target), "plan.yaml:1: stations: the plan needs at least one station", nil},
+		{"no targets", base(station), "the plan has no targets", nil},
+		{"repeater half", base(station + "targets:\n  - name: r\n    at: Corvane Peak\n    radio: {power: 50W, sensitivity: -122dBm}\n    listen: 147.78MHz\n"), "plan.yaml:9: targets[0]: a repeater needs both listen and transmit", nil},
+		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", ErrRange},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ParsePlan([]byte(c.doc), "plan.yaml")
+			if c.want == "" { // the case must parse (a target may inherit a radio)
+				if err != nil {
+					t.Fatalf("unexpected error: %v", err)
+				}
+				return
+			}
+			if err == nil {
+				t.Fatalf("no error, want %q", c.want)
+			}
+			if !errors.Is(err, ErrPlanFile) {
+				t.Errorf("error does not wrap ErrPlanFile: %v", err)
+			}
+			if c.sentinel != nil && !errors.Is(err, c.sentinel) {
+				t.Errorf("error does not wrap %v: %v", c.sentinel, err)
+			}
+			if !strings.HasPrefix(err.Error(), "plan.yaml") || !strings.Contains(err.Error(), c.want) {
+				t.Errorf("error %q does not contain %q", err, c.want)
+			}
+			if strings.Contains(err.Error(), "\n") {
+				t.Errorf("error is not one line: %q", err)
+			}
+		})
+	}
+}
+
+func absExample(name string) string {
+	p, _ := filepath.Abs(filepath.Join("../examples/valley", name))
+	return p
+}
+
+func FuzzParsePlan(f *testing.F) {
+	if b, err := os.ReadFile(examplePlan); err == nil {
+		f.Add(string(b))
+	}
+	f.Add("stations: [{name: a, at: '1,2'}]\ntargets: [{name: b, at: '1.1,2', frequency: 146}]\n")
+	f.Add("name: [\n")
+	f.Add("stations:\n  - &a {name: x}\n  - *a\n")
+	f.Fuzz(func(t *testing.T, doc string) {
+		_, err := ParsePlan([]byte(doc), filepath.Join("..", "examples", "valley", "fuzz.yaml"))
+		if err != nil && !errors.Is(err, ErrPlanFile) {
+			t.Fatalf("error does not wrap ErrPlanFile: %v", err)
+		}
+	})
+}
