@@ -127,6 +127,9 @@ const geoTIFFWarpHint = "gdalwarp -t_srs EPSG:4326 in.tif out.tif"
 
 // ReadGeoTIFF reads a single-band GeoTIFF DEM in geographic WGS84 degrees
 // (EPSG:4326) into a Tile of heights in metres; Name is the file's base name.
+// It implements the TIFF 6.0 baseline and extensions (strips, tiles,
+// predictors; Adobe TIFF Technical Note 3 for the floating-point predictor),
+// BigTIFF, and the georeferencing of OGC GeoTIFF 1.1 (19-008r4) §7.
 //
 // Supported: classic TIFF and BigTIFF in either byte order; int16, uint16
 // or float32 samples; strips or tiles; no compression, LZW, Deflate or
@@ -272,7 +275,7 @@ func (d *tiffIFD) readAt(field string, off, n uint64) ([]byte, error) {
 		return nil, d.bad(field, "%d bytes at offset %d run past the end of the %d-byte file (truncated download?)", n, off, d.size)
 	}
 	b := make([]byte, n)
-	if _, err := d.r.ReadAt(b, int64(off)); err != nil && !(errors.Is(err, io.EOF) && n > 0) {
+	if m, err := d.r.ReadAt(b, int64(off)); m < len(b) {
 		return nil, d.bad(field, "reading %d bytes at offset %d: %v", n, off, err)
 	}
 	return b, nil
@@ -386,7 +389,7 @@ func readGeoTIFFIFD(r io.ReaderAt, size int64, name string) (*tiffIFD, error) {
 	if size < 16 {
 		n = int(size)
 	}
-	if _, err := r.ReadAt(h[:n], 0); err != nil && !errors.Is(err, io.EOF) {
+	if m, err := r.ReadAt(h[:n], 0); m < n {
 		return nil, d.bad("", "reading header: %v", err)
 	}
 	switch string(h[:2]) {
@@ -674,10 +677,12 @@ func (g *geoTIFFHeader) readGeoreference(d *tiffIFD) error {
 		((crs == 0 || crs == geoKeyUser) && datum == epsgWGS84Datum) ||
 		((crs == 0 || crs == geoKeyUser) && (datum == 0 || datum == geoKeyUser) && ellip == epsgWGS84Ellip)
 	if !wgs84 {
+		if crs == 0 && datum == 0 && ellip == 0 {
+			return d.unsupported(keyField(keyGeographic), "the geographic coordinate system is not given, so the datum is unknown; if it is WGS84 assign it with gdal_translate -a_srs EPSG:4326 in.tif out.tif, otherwise convert with: %s", geoTIFFWarpHint)
+		}
 		what := fmt.Sprintf("EPSG:%d", crs)
-		switch {
-		case crs == 0 || crs == geoKeyUser:
-			what = fmt.Sprintf("a user-defined one (datum %d, ellipsoid %d)", datum, ellip)
+		if crs == 0 || crs == geoKeyUser {
+			what = fmt.Sprintf("a user-defined one (datum EPSG:%d, ellipsoid EPSG:%d)", datum, ellip)
 		}
 		return d.unsupported(keyField(keyGeographic), "geographic coordinate system is %s, not WGS84 (EPSG:4326); convert with: %s", what, geoTIFFWarpHint)
 	}
@@ -832,7 +837,7 @@ func (br *geoTIFFBlockReader) block(i, rows int) error {
 		br.in = make([]byte, n)
 	}
 	in := br.in[:n]
-	if _, err := g.r.ReadAt(in, int64(g.offsets[i])); err != nil && !errors.Is(err, io.EOF) {
+	if m, err := g.r.ReadAt(in, int64(g.offsets[i])); m < len(in) {
 		return br.bad(i, "reading %d bytes at offset %d: %v", n, g.offsets[i], err)
 	}
 	if uint64(cap(br.out)) < need {

@@ -628,7 +628,8 @@ func gtGeoEntries(scale, tie []float64) []gtEntry {
 	}
 }
 
-// gtInt16Image is a 3×2 uncompressed int16 image, one strip.
+// gtInt16Image describes a w×h uncompressed int16 image in one strip of
+// count bytes at gtDataOffset.
 func gtInt16Image(w, h uint64, count uint64, extra ...gtEntry) []gtEntry {
 	e := []gtEntry{
 		{tag: tagImageWidth, typ: 4, vals: []uint64{w}},
@@ -654,26 +655,28 @@ func TestDecodeGeoTIFFHandBuilt(t *testing.T) {
 		wantErr    error
 		wantH      []float32
 		lat0, lon0 float64
+		sizeExtra  int64 // claim this many bytes more than the reader holds
 	}{
 		{"north-up point", gtTIFF(append(gtInt16Image(3, 2, 12), geo...), data), nil,
-			[]float32{1, 2, 3, 4, 5, 6}, 50, 10},
+			[]float32{1, 2, 3, 4, 5, 6}, 50, 10, 0},
 		{"south-up point", gtTIFF(append(gtInt16Image(3, 2, 12), gtGeoEntries([]float64{0.5, -0.25, 0}, []float64{0, 0, 0, 10, 50, 0})...), data), nil,
-			[]float32{4, 5, 6, 1, 2, 3}, 50.25, 10},
+			[]float32{4, 5, 6, 1, 2, 3}, 50.25, 10, 0},
 		{"east-to-west point", gtTIFF(append(gtInt16Image(3, 2, 12), gtGeoEntries([]float64{-0.5, 0.25, 0}, []float64{0, 0, 0, 10, 50, 0})...), data), nil,
-			[]float32{3, 2, 1, 6, 5, 4}, 50, 9},
-		{"huge dimensions", gtTIFF(append(gtInt16Image(100000, 100000, 12), geo...), data), ErrUnsupportedGeoTIFF, nil, 0, 0},
-		{"dimensions beyond compressed data", gtTIFF(append(gtInt16Image(3000, 2000, 12), geo...), data), ErrBadGeoTIFF, nil, 0, 0},
-		{"strip past end of file", gtTIFF(append(gtInt16Image(3, 2, 1<<20), geo...), data), ErrBadGeoTIFF, nil, 0, 0},
-		{"zero width", gtTIFF(append(gtInt16Image(0, 2, 12), geo...), data), ErrBadGeoTIFF, nil, 0, 0},
-		{"several tiepoints", gtTIFF(append(gtInt16Image(3, 2, 12), gtGeoEntries([]float64{0.5, 0.25, 0}, []float64{0, 0, 0, 10, 50, 0, 2, 1, 0, 11, 49.75, 0})...), data), ErrUnsupportedGeoTIFF, nil, 0, 0},
-		{"latitude beyond the pole", gtTIFF(append(gtInt16Image(3, 2, 12), gtGeoEntries([]float64{0.5, 0.25, 0}, []float64{0, 0, 0, 10, 95, 0})...), data), ErrBadGeoTIFF, nil, 0, 0},
-		{"not a TIFF", []byte("PK\x03\x04 not a tiff at all"), ErrBadGeoTIFF, nil, 0, 0},
-		{"header only", []byte("II*\x00"), ErrBadGeoTIFF, nil, 0, 0},
-		{"IFD past end", []byte("II*\x00\xff\xff\x00\x00"), ErrBadGeoTIFF, nil, 0, 0},
+			[]float32{3, 2, 1, 6, 5, 4}, 50, 9, 0},
+		{"huge dimensions", gtTIFF(append(gtInt16Image(100000, 100000, 12), geo...), data), ErrUnsupportedGeoTIFF, nil, 0, 0, 0},
+		{"dimensions beyond compressed data", gtTIFF(append(gtInt16Image(3000, 2000, 12), geo...), data), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"strip past end of file", gtTIFF(append(gtInt16Image(3, 2, 1<<20), geo...), data), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"zero width", gtTIFF(append(gtInt16Image(0, 2, 12), geo...), data), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"several tiepoints", gtTIFF(append(gtInt16Image(3, 2, 12), gtGeoEntries([]float64{0.5, 0.25, 0}, []float64{0, 0, 0, 10, 50, 0, 2, 1, 0, 11, 49.75, 0})...), data), ErrUnsupportedGeoTIFF, nil, 0, 0, 0},
+		{"latitude beyond the pole", gtTIFF(append(gtInt16Image(3, 2, 12), gtGeoEntries([]float64{0.5, 0.25, 0}, []float64{0, 0, 0, 10, 95, 0})...), data), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"not a TIFF", []byte("PK\x03\x04 not a tiff at all"), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"header only", []byte("II*\x00"), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"IFD past end", []byte("II*\x00\xff\xff\x00\x00"), ErrBadGeoTIFF, nil, 0, 0, 0},
+		{"reader shorter than declared size", gtTIFF(append(gtInt16Image(3, 2, 12), geo...), data)[:100], ErrBadGeoTIFF, nil, 0, 0, 300},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			tile, err := DecodeGeoTIFF(bytes.NewReader(tc.file), int64(len(tc.file)), "hand.tif")
+			tile, err := DecodeGeoTIFF(bytes.NewReader(tc.file), int64(len(tc.file))+tc.sizeExtra, "hand.tif")
 			if tc.wantErr != nil {
 				if !errors.Is(err, tc.wantErr) {
 					t.Fatalf("error %v, want one wrapping %v", err, tc.wantErr)
