@@ -1,0 +1,228 @@
+package terrain
+
+import (
+	"fmt"
+	"math"
+)
+
+// NoDEMStepM is the default profile step in metres when the set holds no
+// elevation files: about the 3″ SRTM spacing (92.6 m of latitude).
+const NoDEMStepM = 90
+
+// MaxProfileSamples bounds the number of samples of one profile, so that a
+// tiny step over a long path is refused instead of exhausting memory.
+const MaxProfileSamples = 10_000_000
+
+// profileTolM is the largest position error, in metres, that linear
+// interpolation between exact geodesic points may add (see Profile).
+const profileTolM = 0.05
+
+// Profile is the terrain along the WGS84 geodesic between two points,
+// sampled at equal distances with both ends included. The slices have one
+// entry per sample and are reused by (*Set).Profile.
+type Profile struct {
+	DistanceM      float64 // geodesic length from point 1 to point 2, metres
+	AzimuthDeg     float64 // azimuth at point 1 towards point 2, degrees clockwise from north in [0, 360)
+	BackAzimuthDeg float64 // azimuth at point 2 back towards point 1, degrees clockwise from north in [0, 360)
+	StepM          float64 // distance between samples, metres
+
+	DistM []float64 // distance of each sample from point 1 along the geodesic, metres
+	Lat   []float64 // latitude of each sample, degrees
+	Lon   []float64 // longitude of each sample, degrees in [−180, 180)
+	ElevM []float64 // ground height, metres above the EGM96 geoid (0 where NoData)
+
+	Sources []string // base names of the elevation files used, in order of first use
+	NoData  int      // samples no file covers or in an unfillable void (ElevM 0 there)
+}
+
+// Len returns the number of samples.
+func (p *Profile) Len() int { return len(p.DistM) }
+
+// grow returns s resized to n, reusing its storage when large enough.
+func grow(s []float64, n int) []float64 {
+	if cap(s) >= n {
+		return s[:n]
+	}
+	return make([]float64, n)
+}
+
+// Profile fills dst with the terrain along the WGS84 geodesic from (lat1,
+// lon1) to (lat2, lon2), degrees, computed by Karney's algorithm (Karney,
+// "Algorithms for geodesics", J. Geodesy 87, 2013; see InverseLine), and
+// sampled with bilinear interpolation like Elevation.
+//
+// stepM is the distance between samples in metres; 0 takes the set's finest
+// sample spacing at the higher of the two end latitudes (SpacingM), or
+// NoDEMStepM when the set is empty. The step is then shortened so that the
+// samples are equally spaced and both ends are samples: n = ⌈D/step⌉ + 1
+// samples (at least 2; coincident ends give two samples at 0 m).
+//
+// Sample positions: exact geodesic points (Line.Position) are computed every
+// few samples, at most about a kilometre apart, and the positions between
+// are interpolated linearly in latitude and longitude. The knot spacing is
+// chosen from the highest latitude of the path so that the interpolation
+// adds less than 0.05 m of position error (the chord of a geodesic bends
+// from a straight latitude–longitude line by about L²·tan φ / 8R); near the
+// poles every sample is exact. The ends are exactly the given points.
+//
+// dst's slices are reused: no allocation happens when they are large
+// enough. Where no file covers a sample its height is 0 m and it counts in
+// NoData (uncovered HGT tiles are added to Missing). An error means invalid
+// coordinates or step, too many samples, or an elevation file that cannot
+// be read.
+func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error {
+	if err := checkPoint(lat1, lon1); err != nil {
+		return fmt.Errorf("profile start: %w", err)
+	}
+	if err := checkPoint(lat2, lon2); err != nil {
+		return fmt.Errorf("profile end: %w", err)
+	}
+	if math.IsNaN(stepM) || stepM < 0 || math.IsInf(stepM, 0) {
+		return fmt.Errorf("profile step %v m: want a positive length, or 0 for the elevation data's spacing", stepM)
+	}
+	// One inverse solution gives the length, both azimuths and the line
+	// (as InverseLine and Inverse would, without solving twice).
+	distM, salp1, calp1, salp2, calp2 := wgs84Geod.inverse(lat1, lon1, lat2, lon2)
+	line := wgs84Geod.newLine(lat1, lon1, salp1, calp1)
+	azi1, azi2 := gdAtan2d(salp1, calp1), gdAtan2d(salp2, calp2)
+	if stepM == 0 {
+		stepM = s.SpacingM(math.Max(math.Abs(lat1), math.Abs(lat2)))
+		if stepM == 0 {
+			stepM = NoDEMStepM
+		}
+	}
+	nf := math.Ceil(distM/stepM) + 1
+	if nf > MaxProfileSamples {
+		return fmt.Errorf("profile of %.0f m at a %.3g m step needs %.0f samples (limit %d): use a longer step", distM, stepM, nf, MaxProfileSamples)
+	}
+	n := max(int(nf), 2)
+	step := distM / float64(n-1)
+
+	dst.DistanceM = distM
+	dst.AzimuthDeg = math.Mod(azi1+360, 360)
+	dst.BackAzimuthDeg = math.Mod(azi2+180+360, 360)
+	dst.StepM = step
+	dst.DistM = grow(dst.DistM, n)
+	dst.Lat = grow(dst.Lat, n)
+	dst.Lon = grow(dst.Lon, n)
+	dst.ElevM = grow(dst.ElevM, n)
+	dst.Sources = dst.Sources[:0]
+	dst.NoData = 0
+
+	s.profilePositions(line, lat1, lon1, lat2, lon2, step, dst)
+	return s.profileHeights(dst)
+}
+
+// profilePositions fills DistM, Lat and Lon (see Profile for the method).
+func (s *Set) profilePositions(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Profile) {
+	n := len(dst.DistM)
+	distM := step * float64(n-1)
+	// Knot spacing for the error bound L²·tan φ / 8R ≤ profileTolM, with φ
+	// the highest latitude on the path (ends and midpoint), plus 0.5° for
+	// the geodesic's bulge towards the pole between them.
+	midLat, _ := line.Position(distM / 2)
+	phi := math.Max(math.Max(math.Abs(lat1), math.Abs(lat2)), math.Abs(midLat)) + 0.5
+	knotM := 1000.0
+	if phi < 89.9 {
+		const rM = 6.371e6 // mean earth radius, metres (IUGG; common practice)
+		knotM = math.Min(knotM, math.Sqrt(8*rM*profileTolM/math.Tan(phi*math.Pi/180)))
+	} else {
+		knotM = 0
+	}
+	k := max(int(knotM/step), 1)
+
+	la, lo := lat1, normLon(lon1)
+	for i := 0; i < n; i += k {
+		j := min(i+k, n-1)
+		var lb, lob float64
+		if j == n-1 {
+			lb, lob = lat2, normLon(lon2)
+		} else {
+			lb, lob = line.Position(float64(j) * step)
+		}
+		dlon := lob - lo
+		if dlon > 180 {
+			dlon -= 360
+		} else if dlon < -180 {
+			dlon += 360
+		}
+		dlat := lb - la
+		inv := 1 / float64(j-i)
+		for m := i; m < j; m++ {
+			f := float64(m-i) * inv
+			dst.DistM[m] = float64(m) * step
+			dst.Lat[m] = la + f*dlat
+			l := lo + f*dlon
+			if l >= 180 {
+				l -= 360
+			} else if l < -180 {
+				l += 360
+			}
+			dst.Lon[m] = l
+		}
+		la, lo = lb, lob
+		if j == n-1 {
+			break
+		}
+	}
+	dst.DistM[n-1], dst.Lat[n-1], dst.Lon[n-1] = distM, lat2, normLon(lon2)
+	dst.DistM[0], dst.Lat[0], dst.Lon[0] = 0, lat1, normLon(lon1)
+}
+
+// profileHeights fills ElevM, Sources and NoData from Lat and Lon, keeping
+// the tile in use between samples.
+func (s *Set) profileHeights(dst *Profile) error {
+	var (
+		cur                    *Tile
+		curSrc                 *source
+		south, north           float64
+		west, east             float64
+		lastMissLa, lastMissLo = math.MaxInt, math.MaxInt
+	)
+	// With only HGT tiles, a point inside the tile in use needs no lookup;
+	// other files may overlap tiles, so then every sample is looked up.
+	fast := len(s.others) == 0
+	for i, lat := range dst.Lat {
+		lon := dst.Lon[i]
+		if !fast || cur == nil || lat < south || lat > north || lon < west || lon > east {
+			src := s.lookup(lat, lon)
+			if src == nil {
+				cur, curSrc = nil, nil
+				dst.ElevM[i] = 0
+				dst.NoData++
+				if la, lo := int(math.Floor(lat)), int(math.Floor(lon)); la != lastMissLa || lo != lastMissLo {
+					lastMissLa, lastMissLo = la, lo
+					s.noteMissing(lat, lon)
+				}
+				continue
+			}
+			if src != curSrc {
+				t, err := s.tile(src)
+				if err != nil {
+					return err
+				}
+				cur, curSrc = t, src
+				north, west = t.Lat0, t.Lon0
+				south = t.Lat0 - float64(t.Rows-1)*t.DLat
+				east = t.Lon0 + float64(t.Cols-1)*t.DLon
+				seen := false
+				for _, n := range dst.Sources {
+					if n == src.name {
+						seen = true
+						break
+					}
+				}
+				if !seen {
+					dst.Sources = append(dst.Sources, src.name)
+				}
+			}
+		}
+		h := cur.At(lat, lon)
+		if h != h {
+			h = 0
+			dst.NoData++
+		}
+		dst.ElevM[i] = h
+	}
+	return nil
+}
