@@ -199,6 +199,29 @@ func gdSinSeries(sinx, cosx float64, c []float64) float64 {
 	return 2 * sinx * cosx * b1 // sin 2x · b1
 }
 
+// gdSinSeries6 is gdSinSeries unrolled for the six-term C′1 series.
+func gdSinSeries6(sinx, cosx float64, c *[7]float64) float64 {
+	ar := 2 * (cosx - sinx) * (cosx + sinx)
+	b1 := c[6]
+	b2 := ar*b1 + c[5]
+	b1 = ar*b2 - b1 + c[4]
+	b2 = ar*b1 - b2 + c[3]
+	b1 = ar*b2 - b1 + c[2]
+	b2 = ar*b1 - b2 + c[1]
+	return 2 * sinx * cosx * b2
+}
+
+// gdSinSeries5 is gdSinSeries unrolled for the five-term C3 series.
+func gdSinSeries5(sinx, cosx float64, c *[6]float64) float64 {
+	ar := 2 * (cosx - sinx) * (cosx + sinx)
+	b1 := c[5]
+	b2 := ar*b1 + c[4]
+	b1 = ar*b2 - b1 + c[3]
+	b2 = ar*b1 - b2 + c[2]
+	b1 = ar*b2 - b1 + c[1]
+	return 2 * sinx * cosx * b1
+}
+
 // gdNorm scales (x, y) to unit length.
 func gdNorm(x, y float64) (float64, float64) {
 	r := math.Hypot(x, y)
@@ -730,7 +753,10 @@ func Inverse(lat1, lon1, lat2, lon2 float64) (distM, azi1Deg, azi2Deg float64) {
 // degrees with lon2 in [−180°, 180°], and the forward azimuth azi2Deg there,
 // degrees. A latitude outside [−90°, 90°] gives NaN results.
 func Direct(lat1, lon1, azi1Deg, distM float64) (lat2, lon2, azi2Deg float64) {
-	l := NewLine(lat1, lon1, azi1Deg)
+	var l Line // on the stack: Direct does not allocate
+	azi1Deg = gdAngNormalize(azi1Deg)
+	salp1, calp1 := gdSincosd(gdAngRound(azi1Deg))
+	wgs84Geod.initLine(&l, lat1, lon1, salp1, calp1)
 	lat2, lon2, salp2, calp2 := l.position(distM)
 	return lat2, lon2, gdAtan2d(salp2, calp2)
 }
@@ -750,7 +776,7 @@ type Line struct {
 	b11          float64 // B1(σ1)
 	b31          float64 // B3(σ1)
 	a3c          float64 // −f sin α0 A3, radians of λ per radian of σ
-	bA1          float64 // b·A1, metres per radian of τ
+	invBA1       float64 // 1/(b·A1), radians of τ per metre
 	c1p          [7]float64
 	c3           [6]float64
 }
@@ -761,7 +787,9 @@ type Line struct {
 func NewLine(lat1, lon1, azi1Deg float64) *Line {
 	azi1Deg = gdAngNormalize(azi1Deg)
 	salp1, calp1 := gdSincosd(gdAngRound(azi1Deg))
-	return wgs84Geod.newLine(lat1, lon1, salp1, calp1)
+	l := new(Line)
+	wgs84Geod.initLine(l, lat1, lon1, salp1, calp1)
+	return l
 }
 
 // InverseLine returns the geodesic on WGS84 from (lat1, lon1) through
@@ -771,11 +799,15 @@ func NewLine(lat1, lon1, azi1Deg float64) *Line {
 // Inverse.
 func InverseLine(lat1, lon1, lat2, lon2 float64) (l *Line, distM float64) {
 	s12, salp1, calp1, _, _ := wgs84Geod.inverse(lat1, lon1, lat2, lon2)
-	return wgs84Geod.newLine(lat1, lon1, salp1, calp1), s12
+	l = new(Line)
+	wgs84Geod.initLine(l, lat1, lon1, salp1, calp1)
+	return l, s12
 }
 
-func (g *geodEllipsoid) newLine(lat1, lon1, salp1, calp1 float64) *Line {
-	l := &Line{f1: g.f1}
+// initLine sets l to the geodesic leaving (lat1, lon1), degrees, with
+// azimuth α1 given by its sine and cosine.
+func (g *geodEllipsoid) initLine(l *Line, lat1, lon1, salp1, calp1 float64) {
+	*l = Line{f1: g.f1}
 	l.lat1 = gdLatFix(lat1)
 	l.lon1 = gdAngNormalize(lon1)
 	sbet1, cbet1 := gdSincosd(gdAngRound(l.lat1))
@@ -803,7 +835,7 @@ func (g *geodEllipsoid) newLine(lat1, lon1, salp1, calp1 float64) *Line {
 
 	var c1 [7]float64
 	gdC1(eps, &c1)
-	l.bA1 = g.b * (1 + gdA1m1(eps))
+	l.invBA1 = 1 / (g.b * (1 + gdA1m1(eps)))
 	l.b11 = gdSinSeries(l.ssig1, l.csig1, c1[:])
 	s, c := math.Sincos(l.b11)
 	l.stau1 = l.ssig1*c + l.csig1*s
@@ -813,7 +845,6 @@ func (g *geodEllipsoid) newLine(lat1, lon1, salp1, calp1 float64) *Line {
 	g.c3(eps, &l.c3)
 	l.a3c = -g.f * l.salp0 * g.a3(eps)
 	l.b31 = gdSinSeries(l.ssig1, l.csig1, l.c3[:])
-	return l
 }
 
 // Position returns the point (lat, lon), degrees with lon in [−180°, 180°],
@@ -829,19 +860,20 @@ func (l *Line) Position(distM float64) (lat, lon float64) {
 // forward azimuth there (not normalised).
 func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
 	// τ12 from s12 = b A1 τ12 (eq. 20); τ2 = τ1 + τ12.
-	tau12 := distM / l.bA1
+	tau12 := distM * l.invBA1
 	s, c := math.Sincos(tau12)
 	stau2 := l.stau1*c + l.ctau1*s
 	ctau2 := l.ctau1*c - l.stau1*s
 	// σ2 = τ2 + Σ C′1l sin 2lτ2 (eq. 21); the correction d is small
 	// (|d| < ε ≤ 0.0017 for WGS84), so its sine and cosine come from their
 	// Taylor series, exact in float64 below |d| = 0.01.
-	d := gdSinSeries(stau2, ctau2, l.c1p[:])
+	d := gdSinSeries6(stau2, ctau2, &l.c1p)
 	var sd, cd float64
 	if math.Abs(d) < 0.01 {
 		d2 := d * d
-		sd = d * (1 - d2/6*(1-d2/20*(1-d2/42)))
-		cd = 1 - d2/2*(1-d2/12*(1-d2/30*(1-d2/56)))
+		// Horner form with constant factors (no divisions).
+		sd = d * (1 + d2*(-1.0/6+d2*(1.0/120+d2*(-1.0/5040))))
+		cd = 1 + d2*(-1.0/2+d2*(1.0/24+d2*(-1.0/720+d2*(1.0/40320))))
 	} else {
 		sd, cd = math.Sincos(d)
 	}
@@ -852,7 +884,7 @@ func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
 
 	// sin β2 = cos α0 sin σ2; cos β2 = hypot(sin α0, cos α0 cos σ2).
 	sbet2 := l.calp0 * ssig2
-	cbet2 := math.Hypot(l.salp0, l.calp0*csig2)
+	cbet2 := math.Sqrt(l.salp0*l.salp0 + (l.calp0*csig2)*(l.calp0*csig2)) // both ≤ 1: no overflow
 	if cbet2 == 0 {
 		// Meridian through a pole (sin α0 = 0, cos σ2 = 0).
 		cbet2, csig2 = gdTiny, gdTiny
@@ -861,15 +893,15 @@ func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
 	somg2, comg2 := l.salp0*ssig2, csig2
 	omg12 := math.Atan2(somg2*l.comg1-comg2*l.somg1, comg2*l.comg1+somg2*l.somg1)
 	// λ12 = ω12 − f sin α0 A3 (σ12 + B3(σ2) − B3(σ1)) (eqs. 8, 23).
-	lam12 := omg12 + l.a3c*(sig12+(gdSinSeries(ssig2, csig2, l.c3[:])-l.b31))
-	lon = l.lon1 + lam12/gdDeg
+	lam12 := omg12 + l.a3c*(sig12+(gdSinSeries5(ssig2, csig2, &l.c3)-l.b31))
+	lon = l.lon1 + lam12*(180/math.Pi)
 	if lon > 180 {
 		lon -= 360
 	} else if lon < -180 {
 		lon += 360
 	}
 	// tan φ2 = tan β2 / (1 − f); cos β2 > 0.
-	lat = math.Atan(sbet2/(l.f1*cbet2)) / gdDeg
+	lat = math.Atan(sbet2/(l.f1*cbet2)) * (180 / math.Pi)
 	lat = min(90, max(-90, lat)) // atan(±∞)/deg may round past ±90
 	return lat, lon, l.salp0, l.calp0 * csig2
 }
