@@ -89,76 +89,125 @@ func TestDirectReference(t *testing.T) {
 }
 
 // gdSimpson integrates fn over [0, x] with the composite Simpson rule on n
-// (even) intervals.
+// (even) intervals, summing with Neumaier's compensation so that rounding
+// stays near 1e-16 of the result.
 func gdSimpson(fn func(float64) float64, x float64, n int) float64 {
 	h := x / float64(n)
-	sum := fn(0) + fn(x)
+	var sum, comp float64
+	add := func(v float64) {
+		t := sum + v
+		if math.Abs(sum) >= math.Abs(v) {
+			comp += (sum - t) + v
+		} else {
+			comp += (v - t) + sum
+		}
+		sum = t
+	}
+	add(fn(0))
+	add(fn(x))
 	for i := 1; i < n; i++ {
 		w := 2.0
 		if i%2 == 1 {
 			w = 4
 		}
-		sum += w * fn(float64(i)*h)
+		add(w * fn(float64(i)*h))
 	}
-	return sum * h / 3
+	return (sum + comp) * h / 3
 }
 
-// TestGeodesicSeriesAgainstIntegrals checks the order-6 series against the
-// integrals they expand, evaluated by quadrature. The integrals are the
-// definitions in Karney (2013): I1(σ) = ∫₀^σ √(1 + k² sin²σ′) dσ′ (distance
+// gdSeriesErr returns series − integral for one of the expansions of
+// Karney (2013) at ε (and n = nPerEps·ε for I3) and arc σ. The integrals are
+// the definitions in the paper: I1(σ) = ∫₀^σ √(1 + k² sin²σ′) dσ′ (distance
 // s/b), I2(σ) = ∫₀^σ dσ′/√(1 + k² sin²σ′) (reduced length) and
 // I3(σ) = ∫₀^σ (2 − f)/(1 + (1 − f)√(1 + k² sin²σ′)) dσ′ (longitude), with
-// k² = 4ε/(1 − ε)² from the definition of ε. The truncation error is
-// O(ε⁷) (O of order 6 in n and ε for I3), so a wrong coefficient at any
-// order shows at the larger ε used here.
-func TestGeodesicSeriesAgainstIntegrals(t *testing.T) {
-	sigmas := []float64{0.3, 1.1, 2.0, 2.9, 4.5}
-	for _, eps := range []float64{wgs84Geod.n, 0.01, 0.03, 0.05} {
-		k2 := 4 * eps / ((1 - eps) * (1 - eps))
-		tol := 1e-13 + 4*math.Pow(eps, 7)
-		var c1, c1p, c2 [7]float64
-		gdC1(eps, &c1)
-		gdC1p(eps, &c1p)
-		gdC2(eps, &c2)
-		for _, sig := range sigmas {
-			ss, cs := math.Sincos(sig)
-			i1 := gdSimpson(func(x float64) float64 { s := math.Sin(x); return math.Sqrt(1 + k2*s*s) }, sig, 4000)
-			got1 := (1 + gdA1m1(eps)) * (sig + gdSinSeries(ss, cs, c1[:]))
-			if math.Abs(got1-i1) > tol*sig {
-				t.Errorf("I1 eps=%g sigma=%g: series %.15g, quadrature %.15g", eps, sig, got1, i1)
-			}
-			i2 := gdSimpson(func(x float64) float64 { s := math.Sin(x); return 1 / math.Sqrt(1+k2*s*s) }, sig, 4000)
-			got2 := (1 + gdA2m1(eps)) * (sig + gdSinSeries(ss, cs, c2[:]))
-			if math.Abs(got2-i2) > tol*sig {
-				t.Errorf("I2 eps=%g sigma=%g: series %.15g, quadrature %.15g", eps, sig, got2, i2)
-			}
-			// C′1 reverts C1: τ = σ + B1(σ) ⇒ σ = τ + Σ C′1l sin 2lτ.
-			tau := sig + gdSinSeries(ss, cs, c1[:])
-			st, ct := math.Sincos(tau)
-			back := tau + gdSinSeries(st, ct, c1p[:])
-			if math.Abs(back-sig) > tol {
-				t.Errorf("C1p eps=%g sigma=%g: reverted %.15g, want %.15g", eps, sig, back, sig)
-			}
-		}
-	}
-	for _, p := range []struct{ n, eps float64 }{
-		{wgs84Geod.n, wgs84Geod.n}, {wgs84Geod.n, 0.0005}, {0.01, 0.01}, {0.02, 0.005}, {0.005, 0.03},
-	} {
-		f := 2 * p.n / (1 + p.n)
+// k² = 4ε/(1 − ε)² from the definition of ε; "rev" is the reversion
+// σ = τ + Σ C′1l sin 2lτ of τ = σ + Σ C1l sin 2lσ.
+func gdSeriesErr(kind string, eps, nPerEps, sig float64) float64 {
+	k2 := 4 * eps / ((1 - eps) * (1 - eps))
+	ss, cs := math.Sincos(sig)
+	var c1, c1p, c2 [7]float64
+	gdC1(eps, &c1)
+	gdC1p(eps, &c1p)
+	gdC2(eps, &c2)
+	const nq = 20000 // Simpson intervals: quadrature error below 1e-15
+	switch kind {
+	case "I1":
+		q := gdSimpson(func(x float64) float64 { s := math.Sin(x); return math.Sqrt(1 + k2*s*s) }, sig, nq)
+		return (1+gdA1m1(eps))*(sig+gdSinSeries(ss, cs, c1[:])) - q
+	case "I2":
+		q := gdSimpson(func(x float64) float64 { s := math.Sin(x); return 1 / math.Sqrt(1+k2*s*s) }, sig, nq)
+		return (1+gdA2m1(eps))*(sig+gdSinSeries(ss, cs, c2[:])) - q
+	case "rev":
+		// (τ − σ) + (σ′ − τ), summed as the two small series so that the
+		// rounding error is O(ε·1e−16).
+		b1 := gdSinSeries(ss, cs, c1[:])
+		st, ct := math.Sincos(sig + b1)
+		return b1 + gdSinSeries(st, ct, c1p[:])
+	case "I3":
+		n := nPerEps * eps
+		f := 2 * n / (1 + n)
 		g := newGeodEllipsoid(1, f)
-		k2 := 4 * p.eps / ((1 - p.eps) * (1 - p.eps))
-		tol := 1e-13 + 4*math.Pow(max(p.n, p.eps), 6)
 		var c3 [6]float64
-		g.c3(p.eps, &c3)
-		for _, sig := range sigmas {
-			ss, cs := math.Sincos(sig)
-			i3 := gdSimpson(func(x float64) float64 {
-				s := math.Sin(x)
-				return (2 - f) / (1 + (1-f)*math.Sqrt(1+k2*s*s))
-			}, sig, 4000)
-			got := g.a3(p.eps) * (sig + gdSinSeries(ss, cs, c3[:]))
-			if math.Abs(got-i3) > tol*sig {
-				t.Errorf("I3 n=%g eps=%g sigma=%g: series %.15g, quadrature %.15g", p.n, p.eps, sig, got, i3)
+		g.c3(eps, &c3)
+		q := gdSimpson(func(x float64) float64 {
+			s := math.Sin(x)
+			return (2 - f) / (1 + (1-f)*math.Sqrt(1+k2*s*s))
+		}, sig, nq)
+		return g.a3(eps)*(sig+gdSinSeries(ss, cs, c3[:])) - q
+	}
+	panic("terrain: unknown series " + kind)
+}
+
+// TestGeodesicSeriesOrder checks that each series of Karney (2013) matches
+// its defining integral through its stated order: the error e(ε) must vanish
+// like ε^(p+1), so the coefficient of ε^p in e, extrapolated from ε = h, 2h,
+// 3h, 4h (e/ε^p is cubic-extrapolated to ε = 0), must be zero. A wrong
+// coefficient at any order up to p (the paper's order 6 for A1, C1, C′1, A2,
+// C2, order 5 in ε and n jointly for A3, C3) leaves a non-zero value.
+func TestGeodesicSeriesOrder(t *testing.T) {
+	tests := []struct {
+		name    string
+		kind    string
+		nPerEps float64 // n/ε, I3 only
+		p       float64 // order that must cancel
+		h       float64 // ε step
+		tol     float64 // on the extrapolated coefficient
+	}{
+		{"I1 (A1, C1; eqs. 17-18)", "I1", 0, 6, 0.05, 1e-4},
+		{"I2 (A2, C2; eqs. 42-43)", "I2", 0, 6, 0.05, 1e-4},
+		{"C1p reverts C1 (eq. 21)", "rev", 0, 6, 0.01, 1e-4},
+		{"I3 (A3, C3; eqs. 24-25), n = eps", "I3", 1, 5, 0.05, 1e-4},
+		{"I3 (A3, C3; eqs. 24-25), n = eps/3", "I3", 1.0 / 3, 5, 0.05, 1e-4},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			for _, sig := range []float64{0.3, 0.7, 1.3, 2.2, 2.9} {
+				var y [4]float64
+				for i := range y {
+					eps := tc.h * float64(i+1)
+					y[i] = gdSeriesErr(tc.kind, eps, tc.nPerEps, sig) / math.Pow(eps, tc.p)
+				}
+				a := 4*y[0] - 6*y[1] + 4*y[2] - y[3]
+				if math.Abs(a) > tc.tol {
+					t.Errorf("sigma %g: coefficient of eps^%g in the error is %.3g, want 0 (±%g); e/eps^%g = %.3g",
+						sig, tc.p, a, tc.tol, tc.p, y)
+				}
+			}
+		})
+	}
+}
+
+// TestGeodesicSeriesWGS84 checks the series against their integrals at the
+// ε of WGS84 geodesics, where the truncation error must be negligible.
+func TestGeodesicSeriesWGS84(t *testing.T) {
+	n := wgs84Geod.n // ε ≤ n for WGS84 geodesics
+	for _, kind := range []string{"I1", "I2", "rev", "I3"} {
+		for _, eps := range []float64{n / 10, n / 2, n} {
+			for _, sig := range []float64{0.3, 1.1, 2.0, 2.9, 4.5} {
+				e := gdSeriesErr(kind, eps, n/eps, sig)
+				if math.Abs(e) > 2e-15*max(1, sig) {
+					t.Errorf("%s eps=%g sigma=%g: series − integral = %.3g", kind, eps, sig, e)
+				}
 			}
 		}
 	}
@@ -427,15 +476,23 @@ func TestGeodesicInvalidLatitude(t *testing.T) {
 	}
 }
 
-func TestLinePositionDoesNotAllocate(t *testing.T) {
-	l, s := InverseLine(45.5, 7.5, 45.6, 7.9)
+// TestLineProfileDoesNotAllocate checks that a whole profile's worth of
+// geodesic work, InverseLine and 100 Position calls, stays off the heap
+// (the Line lives on the caller's stack once InverseLine is inlined).
+func TestLineProfileDoesNotAllocate(t *testing.T) {
+	var sum float64
 	allocs := testing.AllocsPerRun(100, func() {
+		l, s := InverseLine(45.5, 7.5, 45.6, 7.9)
 		for i := range 100 {
-			l.Position(s * float64(i) / 99)
+			lat, lon := l.Position(s * float64(i) / 99)
+			sum += lat + lon
 		}
 	})
 	if allocs != 0 {
-		t.Errorf("Position allocates %v times per 100 calls, want 0", allocs)
+		t.Errorf("InverseLine and 100 Position calls allocate %v times, want 0", allocs)
+	}
+	if math.IsNaN(sum) {
+		t.Error("NaN position")
 	}
 }
 
