@@ -117,7 +117,7 @@ func (g *geodEllipsoid) c3(eps float64, c *[6]float64) {
 	}
 }
 
-// epsFromK2 returns ε = (√(1+k²) − 1)/(√(1+k²) + 1) (eq. 16) without
+// gdEpsFromK2 returns ε = (√(1+k²) − 1)/(√(1+k²) + 1) (eq. 16) without
 // cancellation.
 func gdEpsFromK2(k2 float64) float64 {
 	return k2 / (2*(1+math.Sqrt(1+k2)) + k2)
@@ -761,8 +761,8 @@ func Inverse(lat1, lon1, lat2, lon2 float64) (distM, azi1Deg, azi2Deg float64) {
 func Direct(lat1, lon1, azi1Deg, distM float64) (lat2, lon2, azi2Deg float64) {
 	var l Line // on the stack: Direct does not allocate
 	wgs84Geod.initLineDeg(&l, lat1, lon1, azi1Deg)
-	lat2, lon2, salp2, calp2 := l.position(distM)
-	return lat2, lon2, gdAtan2d(salp2, calp2)
+	lat2, lon2, _, _, calp2 := l.position(distM)
+	return lat2, lon2, gdAtan2d(l.salp0, calp2)
 }
 
 // Line is a geodesic on WGS84 from a starting point in a given direction,
@@ -772,6 +772,7 @@ func Direct(lat1, lon1, azi1Deg, distM float64) (lat2, lon2, azi2Deg float64) {
 // after construction and safe for concurrent use.
 type Line struct {
 	lat1, lon1   float64 // start, degrees; lon1 reduced to [−180°, 180°]
+	a            float64 // equatorial radius, m
 	f1           float64 // 1 − f
 	salp0, calp0 float64 // azimuth at the equator crossing, α0
 	ssig1, csig1 float64 // σ1, arc from the northward equator crossing
@@ -827,7 +828,7 @@ func (g *geodEllipsoid) initInverseLine(l *Line, lat1, lon1, lat2, lon2 float64)
 // initLine sets l to the geodesic leaving (lat1, lon1), degrees, with
 // azimuth α1 given by its sine and cosine.
 func (g *geodEllipsoid) initLine(l *Line, lat1, lon1, salp1, calp1 float64) {
-	*l = Line{f1: g.f1}
+	*l = Line{a: g.a, f1: g.f1}
 	l.lat1 = gdLatFix(lat1)
 	l.lon1 = gdAngNormalize(lon1)
 	sbet1, cbet1 := gdSincosd(gdAngRound(l.lat1))
@@ -872,13 +873,93 @@ func (g *geodEllipsoid) initLine(l *Line, lat1, lon1, salp1, calp1 float64) {
 // Karney's direct solution (Karney 2013, §4, eqs. 20–21 and 23–25). It does
 // not allocate.
 func (l *Line) Position(distM float64) (lat, lon float64) {
-	lat, lon, _, _ = l.position(distM)
+	lat, lon, _, _, _ = l.position(distM)
 	return lat, lon
 }
 
-// position returns the point after distM metres and sin and cos of the
-// forward azimuth there (not normalised).
-func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
+// Positions fills lats[i] and lons[i], degrees (lon in [−180°, 180°]), with
+// the point startM + i·stepM metres along the line, for
+// i < min(len(lats), len(lons)): the samples of a terrain profile. Every
+// k-th point, with k ≤ 16 chosen so that these nodes are at most 2 km apart,
+// is computed exactly as by Position; the points between are cubic Hermite
+// interpolation in latitude and longitude between the nodes, using the
+// exact derivatives dφ/ds = cos α/M and dλ/ds = sin α/(a cos β) there (M the
+// meridional radius of curvature, β the reduced latitude). This stays within
+// 1e−11° (about 1 µm) of Position. Where a node lies within 15° of a pole
+// the points are all computed exactly. It does not allocate.
+func (l *Line) Positions(startM, stepM float64, lats, lons []float64) {
+	n := min(len(lats), len(lons))
+	lats, lons = lats[:n], lons[:n]
+	k := 1
+	if math.Abs(stepM) > 0 {
+		k = int(min(16, 2000/math.Abs(stepM)))
+	}
+	if k <= 1 || n < 3 {
+		for i := range n {
+			lats[i], lons[i] = l.Position(startM + float64(i)*stepM)
+		}
+		return
+	}
+	h := float64(k) * stepM
+	inv := 1 / float64(k)
+	lat0, lon0, dlat0, dlon0, ok0 := l.node(startM)
+	for j := 0; j < n-1; {
+		lats[j], lons[j] = lat0, lon0
+		end := min(j+k, n-1) // the next node
+		lat1, lon1, dlat1, dlon1, ok1 := l.node(startM + float64(end)*stepM)
+		if end-j < k || !ok0 || !ok1 {
+			for i := j + 1; i < end; i++ {
+				lats[i], lons[i] = l.Position(startM + float64(i)*stepM)
+			}
+		} else {
+			dl := lon1 - lon0
+			if dl > 180 {
+				dl -= 360
+			} else if dl < -180 {
+				dl += 360
+			}
+			for i := 1; i < k; i++ {
+				t := float64(i) * inv
+				t2 := t * t
+				t3 := t2 * t
+				h01 := 3*t2 - 2*t3         // weight of the value at node 1
+				h10 := (t3 - 2*t2 + t) * h // of the slope at node 0
+				h11 := (t3 - t2) * h       // of the slope at node 1
+				lats[j+i] = lat0 + h01*(lat1-lat0) + h10*dlat0 + h11*dlat1
+				lon := lon0 + h01*dl + h10*dlon0 + h11*dlon1
+				if lon > 180 {
+					lon -= 360
+				} else if lon < -180 {
+					lon += 360
+				}
+				lons[j+i] = lon
+			}
+		}
+		lat0, lon0, dlat0, dlon0, ok0 = lat1, lon1, dlat1, dlon1, ok1
+		j = end
+	}
+	lats[n-1], lons[n-1] = lat0, lon0
+}
+
+// node returns the point distM metres along the line, the rates of change
+// of its latitude and longitude in degrees per metre, and whether it is far
+// enough from the poles (|φ| ≤ 75°) for Positions to interpolate there.
+func (l *Line) node(distM float64) (lat, lon, dlat, dlon float64, ok bool) {
+	lat, lon, sbet2, cbet2, calp2 := l.position(distM)
+	// With (sin φ, cos φ) ∝ (sin β, (1 − f) cos β):
+	// M = a D^(3/2)/(1 − f), D = sin²β + (1 − f)² cos²β, and cos α = calp2/cos β;
+	// the radius of the parallel is N cos φ = a cos β.
+	fc := l.f1 * cbet2
+	d := sbet2*sbet2 + fc*fc
+	dlat = calp2 / cbet2 * l.f1 / (l.a * d * math.Sqrt(d)) * (180 / math.Pi)
+	dlon = l.salp0 / (l.a * cbet2 * cbet2) * (180 / math.Pi)
+	return lat, lon, dlat, dlon, math.Abs(lat) <= 75
+}
+
+// position returns the point after distM metres, sin β2 and cos β2 (reduced
+// latitude) there, and cos α2 · cos β2 (sin α2 · cos β2 = sin α0): the
+// forward azimuth there, not normalised.
+func (l *Line) position(distM float64) (lat, lon, sbet2, cbet2, calp2 float64) {
 	// τ12 from s12 = b A1 τ12 (eq. 20); τ2 = τ1 + τ12.
 	tau12 := distM * l.invBA1
 	s, c := math.Sincos(tau12)
@@ -887,7 +968,16 @@ func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
 	// σ2 = τ2 + Σ C′1l sin 2lτ2 (eq. 21); the correction d is small
 	// (|d| < ε ≤ 0.0017 for WGS84), so its sine and cosine come from their
 	// Taylor series, exact in float64 below |d| = 0.01.
-	d := gdSinSeries6(stau2, ctau2, &l.c1p)
+	// (gdSinSeries6 written out: it is just too large for the inliner.)
+	c1p := &l.c1p
+	ar := 2 * (ctau2 - stau2) * (ctau2 + stau2) // 2 cos 2τ2
+	b1 := c1p[6]
+	b2 := ar*b1 + c1p[5]
+	b1 = ar*b2 - b1 + c1p[4]
+	b2 = ar*b1 - b2 + c1p[3]
+	b1 = ar*b2 - b1 + c1p[2]
+	b2 = ar*b1 - b2 + c1p[1]
+	d := 2 * stau2 * ctau2 * b2
 	var sd, cd float64
 	if math.Abs(d) < 0.01 {
 		d2 := d * d
@@ -903,8 +993,8 @@ func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
 	sig12 := tau12 + d + l.b11
 
 	// sin β2 = cos α0 sin σ2; cos β2 = hypot(sin α0, cos α0 cos σ2).
-	sbet2 := l.calp0 * ssig2
-	cbet2 := math.Sqrt(l.salp0*l.salp0 + (l.calp0*csig2)*(l.calp0*csig2)) // both ≤ 1: no overflow
+	sbet2 = l.calp0 * ssig2
+	cbet2 = math.Sqrt(l.salp0*l.salp0 + (l.calp0*csig2)*(l.calp0*csig2)) // both ≤ 1: no overflow
 	if cbet2 == 0 {
 		// Meridian through a pole (sin α0 = 0, cos σ2 = 0).
 		cbet2, csig2 = gdTiny, gdTiny
@@ -923,5 +1013,5 @@ func (l *Line) position(distM float64) (lat, lon, salp2, calp2 float64) {
 	// tan φ2 = tan β2 / (1 − f); cos β2 > 0.
 	lat = math.Atan(sbet2/(l.f1*cbet2)) * (180 / math.Pi)
 	lat = min(90, max(-90, lat)) // atan(±∞)/deg may round past ±90
-	return lat, lon, l.salp0, l.calp0 * csig2
+	return lat, lon, sbet2, cbet2, l.calp0 * csig2
 }

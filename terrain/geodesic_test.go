@@ -71,6 +71,9 @@ func TestDirectReference(t *testing.T) {
 		{"over-the-pole", 89, 0, 180, 300000, 86.31403945599301, 0, 180, 1e-11},
 		{"one-lap-around", 10, 20, 30, 40000000, 10.06592929188367, 19.44439027350426, 30.00669152545163, 1e-11},
 		{"backwards", -30, -60, 0, -2500, -30.02255246395277, -60, 0, 1e-11},
+		{"from-north-pole", 90, 0, 30, 1000000, 81.04623281595062, 150, 180, 1e-11},
+		{"from-south-pole", -90, 45, 0, 5000000, -45.15316161149450, 45, 0, 1e-11},
+		{"north-across-pole", 0, 10, 0, 12000000, 72.10576607705724, -170, 180, 1e-11},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -477,22 +480,97 @@ func TestGeodesicInvalidLatitude(t *testing.T) {
 }
 
 // TestLineProfileDoesNotAllocate checks that a whole profile's worth of
-// geodesic work, InverseLine and 100 Position calls, stays off the heap
+// geodesic work, InverseLine, 100 Position calls and Positions, stays off
+// the heap
 // (the Line lives on the caller's stack once InverseLine is inlined).
 func TestLineProfileDoesNotAllocate(t *testing.T) {
 	var sum float64
+	var lats, lons [100]float64
 	allocs := testing.AllocsPerRun(100, func() {
 		l, s := InverseLine(45.5, 7.5, 45.6, 7.9)
 		for i := range 100 {
 			lat, lon := l.Position(s * float64(i) / 99)
 			sum += lat + lon
 		}
+		l.Positions(0, s/99, lats[:], lons[:])
 	})
 	if allocs != 0 {
-		t.Errorf("InverseLine and 100 Position calls allocate %v times, want 0", allocs)
+		t.Errorf("InverseLine, 100 Position calls and Positions allocate %v times, want 0", allocs)
 	}
 	if math.IsNaN(sum) {
 		t.Error("NaN position")
+	}
+}
+
+// TestLinePositionsMatchesPosition checks the interpolated profile sampler
+// against the exact Position on seeded random lines and steps.
+func TestLinePositionsMatchesPosition(t *testing.T) {
+	r := rand.New(rand.NewPCG(20130104, 4355))
+	lats := make([]float64, 5000)
+	lons := make([]float64, 5000)
+	const tolDeg = 1e-11 // documented bound, about 1 µm
+	var worstLat, worstLon float64
+	for trial := range 250 {
+		lat1 := gdRandomLat(r)
+		if trial%5 == 0 {
+			lat1 = math.Copysign(90-math.Abs(gdLogUniform(r, 1e-6, 15)), lat1)
+		}
+		l := NewLine(lat1, gdUniform(r, -180, 180), gdUniform(r, -180, 180))
+		step := math.Abs(gdLogUniform(r, 0.5, 5000))
+		if r.IntN(4) == 0 {
+			step = -step
+		}
+		start := gdUniform(r, -1e6, 2e7)
+		n := r.IntN(len(lats) + 1)
+		l.Positions(start, step, lats[:n], lons[:n])
+		for i := range n {
+			lat, lon := l.Position(start + float64(i)*step)
+			el, eo := math.Abs(lats[i]-lat), gdAziErr(lons[i], lon)
+			if !(el <= tolDeg && eo <= tolDeg) {
+				t.Fatalf("line %d (lat1 %g, step %g m, n %d) point %d: Positions %.14f %.14f, Position %.14f %.14f",
+					trial, lat1, step, n, i, lats[i], lons[i], lat, lon)
+			}
+			if lons[i] < -180 || lons[i] > 180 {
+				t.Fatalf("line %d point %d: longitude %.14f outside [−180, 180]", trial, i, lons[i])
+			}
+			worstLat, worstLon = max(worstLat, el), max(worstLon, eo)
+		}
+	}
+	t.Logf("worst difference from Position: lat %.2g°, lon %.2g°", worstLat, worstLon)
+}
+
+func TestLinePositionsEdgeCases(t *testing.T) {
+	l := NewLine(45.5, 7.5, 70)
+	tests := []struct {
+		name        string
+		start, step float64
+		nLat, nLon  int
+	}{
+		{"empty", 0, 10, 0, 0},
+		{"one", 100, 10, 1, 1},
+		{"two", 100, 10, 2, 2},
+		{"zero step", 500, 0, 40, 40},
+		{"uneven slices", 0, 30, 50, 37},
+		{"partial last stretch", 0, 30, 103, 103},
+		{"huge step", 0, 1e7, 5, 5},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			lats := make([]float64, tc.nLat)
+			lons := make([]float64, tc.nLon)
+			l.Positions(tc.start, tc.step, lats, lons)
+			for i := range min(tc.nLat, tc.nLon) {
+				lat, lon := l.Position(tc.start + float64(i)*tc.step)
+				if math.Abs(lats[i]-lat) > 1e-11 || gdAziErr(lons[i], lon) > 1e-11 {
+					t.Errorf("point %d: %.14f %.14f, Position %.14f %.14f", i, lats[i], lons[i], lat, lon)
+				}
+			}
+		})
+	}
+	lats, lons := make([]float64, 10), make([]float64, 10)
+	l.Positions(0, math.NaN(), lats, lons)
+	if !math.IsNaN(lats[3]) {
+		t.Errorf("NaN step: got latitude %v, want NaN", lats[3])
 	}
 }
 
@@ -535,6 +613,19 @@ func BenchmarkLinePosition(b *testing.B) {
 		lat, lon := l.Position(s * float64(i%3300) / 3299)
 		gdSink += lat + lon
 		i++
+	}
+}
+
+// BenchmarkLinePositions3300 measures the geodesic part of a 3300-sample
+// profile with the interpolating sampler: one InverseLine and one Positions.
+func BenchmarkLinePositions3300(b *testing.B) {
+	lats := make([]float64, 3300)
+	lons := make([]float64, 3300)
+	b.ReportAllocs()
+	for b.Loop() {
+		l, s := InverseLine(45.5, 7.5, 45.6, 7.9)
+		l.Positions(0, s/3299, lats, lons)
+		gdSink += lats[1000]
 	}
 }
 
