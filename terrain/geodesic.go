@@ -768,8 +768,8 @@ func Direct(lat1, lon1, azi1Deg, distM float64) (lat2, lon2, azi2Deg float64) {
 // Line is a geodesic on WGS84 from a starting point in a given direction,
 // with the coefficients of Karney's series (Karney 2013, §4: the reverted
 // distance series, eq. 21, and the longitude series, eqs. 23–25) worked out
-// once, so that Position is cheap and does not allocate. A Line is read-only
-// after construction and safe for concurrent use.
+// once, so that Position and Positions are cheap and do not allocate. A Line
+// is read-only after construction and safe for concurrent use.
 type Line struct {
 	lat1, lon1   float64 // start, degrees; lon1 reduced to [−180°, 180°]
 	a            float64 // equatorial radius, m
