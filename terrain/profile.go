@@ -83,7 +83,8 @@ func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
 	// One inverse solution gives the length, both azimuths and the line
 	// (as InverseLine and Inverse would, without solving twice).
 	distM, salp1, calp1, salp2, calp2 := wgs84Geod.inverse(lat1, lon1, lat2, lon2)
-	line := wgs84Geod.newLine(lat1, lon1, salp1, calp1)
+	line := new(Line)
+	wgs84Geod.initLine(line, lat1, lon1, salp1, calp1)
 	azi1, azi2 := gdAtan2d(salp1, calp1), gdAtan2d(salp2, calp2)
 	if stepM == 0 {
 		stepM = s.SpacingM(math.Max(math.Abs(lat1), math.Abs(lat2)))
