@@ -51,8 +51,8 @@ type BullingtonTerms struct {
 // delta-Bullington method of ITU-R P.526-16 §4.5 (eqs. 49–66), with every
 // intermediate term. Clutter heights in p are part of the real profile
 // (L_ba, eqs. 49–57); the smooth surface (eqs. 58–63) is fitted to the
-// terrain alone, as in ITU-R P.1812-8. It reads the profile twice and does
-// not allocate.
+// terrain alone, as in ITU-R P.1812-8 (its validation results confirm
+// this). It reads the profile two or three times and does not allocate.
 func DeltaBullington(p Path, prm Params) (BullingtonTerms, error) {
 	rp, err := prm.resolve()
 	if err != nil {
@@ -65,8 +65,8 @@ func DeltaBullington(p Path, prm Params) (BullingtonTerms, error) {
 	return deltaBullington(p, rp, &s), nil
 }
 
-// profileScan gathers, in one pass over a profile, everything the
-// delta-Bullington method and the clearance need from the real profile.
+// profileScan gathers everything the delta-Bullington method and the
+// clearance need from the real profile.
 type profileScan struct {
 	n          int
 	d0, dKM    float64 // first distance, path length
@@ -80,7 +80,9 @@ type profileScan struct {
 	aobt, aobr float64 // eqs. 61b, 61c
 }
 
-// scanProfile validates p and makes the single pass over the real profile.
+// scanProfile validates p and reads it: one pass for the checks and the
+// terrain sums, one for the real-profile maxima, and a third only when the
+// terrain rises above the antenna line (eqs. 61b, 61c).
 func scanProfile(p Path, rp params) (profileScan, error) {
 	if err := checkPath(p); err != nil {
 		return profileScan{}, err
