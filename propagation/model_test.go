@@ -120,3 +120,31 @@ func BenchmarkFreeSpaceModel3300(b *testing.B) {
 		}
 	}
 }
+
+// FuzzTerrainLoss feeds the model profiles built from arbitrary bytes
+// within physical ranges: it must never panic, and must return finite,
+// non-negative losses for valid input.
+func FuzzTerrainLoss(f *testing.F) {
+	f.Add([]byte{10, 200, 30, 40, 250, 3, 7}, 146.0, 10.0, 2.0, 20.0)
+	f.Add([]byte{0, 0, 0}, 30.0, 0.0, 0.0, 0.1)
+	f.Fuzz(func(t *testing.T, hs []byte, freqMHz, txM, rxM, lengthKM float64) {
+		if len(hs) < 2 || !(freqMHz >= 30 && freqMHz <= 20000) || !(txM >= 0 && txM <= 3000) ||
+			!(rxM >= 0 && rxM <= 3000) || !(lengthKM >= 0.01 && lengthKM <= 500) {
+			return
+		}
+		p := Path{DistKM: make([]float64, len(hs)), HeightM: make([]float64, len(hs))}
+		for i, h := range hs {
+			p.DistKM[i] = lengthKM * float64(i) / float64(len(hs)-1)
+			p.HeightM[i] = 20 * float64(h) // 0–5100 m
+		}
+		r, err := Terrain{}.Loss(p, Params{FreqMHz: freqMHz, TxHeightM: txM, RxHeightM: rxM})
+		if err != nil {
+			t.Fatalf("valid input rejected: %v", err)
+		}
+		for _, v := range []float64{r.FreeSpaceDB, r.ExcessDB, r.PathLossDB, r.Bullington.LbaDB, r.Bullington.LbsDB, r.Bullington.LsphDB} {
+			if math.IsNaN(v) || math.IsInf(v, 0) || (v < 0 && v != r.FreeSpaceDB && v != r.PathLossDB) {
+				t.Fatalf("loss term %v in %+v", v, r)
+			}
+		}
+	})
+}
