@@ -80,11 +80,7 @@ func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
 	if math.IsNaN(stepM) || stepM < 0 || math.IsInf(stepM, 0) {
 		return fmt.Errorf("profile step %v m: want a positive length, or 0 for the elevation data's spacing", stepM)
 	}
-	// One inverse solution gives the length, both azimuths and the line
-	// (as InverseLine and Inverse would, without solving twice).
-	distM, salp1, calp1, salp2, calp2 := wgs84Geod.inverse(lat1, lon1, lat2, lon2)
-	line := wgs84Geod.newLine(lat1, lon1, salp1, calp1)
-	azi1, azi2 := gdAtan2d(salp1, calp1), gdAtan2d(salp2, calp2)
+	line, distM, azi1, azi2 := profileLine(lat1, lon1, lat2, lon2)
 	if stepM == 0 {
 		stepM = s.SpacingM(math.Max(math.Abs(lat1), math.Abs(lat2)))
 		if stepM == 0 {
@@ -111,6 +107,15 @@ func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
 
 	s.profilePositions(line, lat1, lon1, lat2, lon2, step, dst)
 	return s.profileHeights(dst)
+}
+
+// profileLine solves the inverse geodesic problem once and returns the line
+// from point 1 through point 2, its length in metres and the forward
+// azimuths in degrees at both ends (what InverseLine and Inverse give,
+// without solving twice).
+func profileLine(lat1, lon1, lat2, lon2 float64) (line *Line, distM, azi1Deg, azi2Deg float64) {
+	distM, salp1, calp1, salp2, calp2 := wgs84Geod.inverse(lat1, lon1, lat2, lon2)
+	return wgs84Geod.newLine(lat1, lon1, salp1, calp1), distM, gdAtan2d(salp1, calp1), gdAtan2d(salp2, calp2)
 }
 
 // profilePositions fills DistM, Lat and Lon (see Profile for the method).
