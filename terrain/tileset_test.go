@@ -455,3 +455,37 @@ func TestSetCache(t *testing.T) {
 		}
 	})
 }
+
+// TestSetSpacingBeforeLoading: the grid size of plain, zipped and gzipped
+// tiles is known from file headers (zip member size, gzip ISIZE trailer,
+// RFC 1952 §2.3.1) without reading the tiles.
+func TestSetSpacingBeforeLoading(t *testing.T) {
+	latM, lonM := metresPerDegree(45)
+	cases := []struct {
+		name, file, member string
+		n                  int
+	}{
+		{"plain 3″", "N45E007.hgt", "", HGTSamples3},
+		{"zip 1″", "N45E007.SRTMGL1.hgt.zip", "N45E007.hgt", HGTSamples1},
+		{"gzip 3″", "n45e007.hgt.gz", "", HGTSamples3},
+		{"gzip 1″", "N45E007.hgt.gz", "", HGTSamples1},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			dir := t.TempDir()
+			htWriteContainer(t, filepath.Join(dir, c.file), c.member, make([]byte, 2*c.n*c.n))
+			set, err := Open(dir)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// One sample step: 1/(n−1) degree of longitude at 45°N.
+			want := math.Min(latM, lonM) / float64(c.n-1)
+			if got := set.SpacingM(45); math.Abs(got-want) > 1e-9 {
+				t.Errorf("SpacingM %v m; want %v m", got, want)
+			}
+			if b := set.CacheBytes(); b != 0 {
+				t.Errorf("%d bytes cached before any height was asked for", b)
+			}
+		})
+	}
+}
