@@ -89,17 +89,17 @@ func TestProfileGeometry(t *testing.T) {
 		name                   string
 		lat1, lon1, lat2, lon2 float64
 		stepM                  float64
-		posTolM                float64 // interpolation bound 0.05 m plus GeodSolve's printed precision
+		posTolM                float64 // Line.Positions' stated 1e-11° (≈ 1 µm), plus GeodSolve's printed precision
 	}{
-		{"mid-latitude 100 km", 45.05, 7.05, 45.75, 7.85, 30, 0.06},
-		{"equator eastwards", 0, 10, 0, 10.5, 25, 0.06},
-		{"southern 300 km", -33, -71, -35, -69, 200, 0.06},
-		{"80°N east-west", 80, 5, 80, 8, 20, 0.06},
-		{"across the antimeridian", 10, 179.8, 10.1, -179.9, 30, 0.06},
-		{"close to the pole", 89.7, 0, 89.7, 180, 50, 0.06},
-		{"shorter than a step", 45, 7, 45.0001, 7.0001, 30, 0.06},
-		{"coincident ends", 45, 7, 45, 7, 30, 0.06},
-		{"default step over empty set", 46, 8, 46.3, 8.2, 0, 0.06},
+		{"mid-latitude 100 km", 45.05, 7.05, 45.75, 7.85, 30, 1e-5},
+		{"equator eastwards", 0, 10, 0, 10.5, 25, 1e-5},
+		{"southern 300 km", -33, -71, -35, -69, 200, 1e-5},
+		{"80°N east-west", 80, 5, 80, 8, 20, 1e-5},
+		{"across the antimeridian", 10, 179.8, 10.1, -179.9, 30, 1e-5},
+		{"close to the pole", 89.7, 0, 89.7, 180, 50, 1e-5},
+		{"shorter than a step", 45, 7, 45.0001, 7.0001, 30, 1e-5},
+		{"coincident ends", 45, 7, 45, 7, 30, 1e-5},
+		{"default step over empty set", 46, 8, 46.3, 8.2, 0, 1e-5},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -215,10 +215,8 @@ func TestProfileHeights(t *testing.T) {
 			allocs := testing.AllocsPerRun(5, func() {
 				set.Profile(c.lat1, c.lon1, c.lat2, c.lon2, 0, &p)
 			})
-			// TODO(hgt): 0 once the geodesic Line can be built in place
-			// (initLine); newLine allocates the Line itself now.
-			if allocs > 1 {
-				t.Errorf("%v allocations per repeated profile; want none per sample", allocs)
+			if allocs != 0 {
+				t.Errorf("%v allocations per repeated profile; want 0", allocs)
 			}
 		})
 	}

@@ -1,0 +1,383 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+
+	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/propagation"
+	"github.com/spf13/cobra"
+)
+
+func init() { commandConstructors = append(commandConstructors, newLinkCmd) }
+
+// endFlags are the kit flags of one end of a link.
+type endFlags struct {
+	power, gain, height, cable, cableLength, swr, sens string
+	connectors                                         int
+}
+
+type linkOptions struct {
+	from, to, freq                                     string
+	tx, rx                                             endFlags
+	k, model, polarization, ground, sigma, reliability string
+	step, profile, margin                              string
+	points                                             pointResolver
+}
+
+func newLinkCmd(g *globals) *cobra.Command {
+	o := &linkOptions{}
+	cmd := &cobra.Command{
+		Use:   "link --from P --to P --freq F [station and far-end flags]",
+		Short: "Link budget between two points over terrain",
+		Long: `The link budget from a transmitting station (--from) to a receiving one
+(--to): path loss over the terrain between them (ITU-R P.526-16
+delta-Bullington diffraction over the profile along the WGS84 geodesic, or
+free space), feedline and antenna figures at both ends, the received level,
+and the margin over the receiver's sensitivity.
+
+Points are LAT,LON in decimal degrees or waypoint names from --waypoints.
+Elevation data comes from --dem or MASTLINK_DEM; without it the path is a
+smooth earth. --profile takes the terrain from a CSV file instead.`,
+		Example: "  mastlink link --dem examples/terrain --waypoints examples/valley/points.gpx \\\n" +
+			"    --from \"Gorsefold trailhead\" --to \"Corvane Peak\" --freq 147.78 --power 5W --height 1.5m \\\n" +
+			"    --to-gain 6dBi --to-height 20m --rx-sens -122dBm",
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runLink(g, o)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&o.from, "from", "", "transmitting end: LAT,LON or waypoint")
+	f.StringVar(&o.to, "to", "", "receiving end: LAT,LON or waypoint")
+	f.StringVar(&o.freq, "freq", "", "frequency [MHz] (required)")
+	f.StringVar(&o.tx.power, "power", "5W", "transmitter power [W]")
+	f.StringVar(&o.tx.gain, "gain", "0dBi", "transmitting antenna gain [dBi]")
+	f.StringVar(&o.tx.height, "height", "1.5m", "transmitting antenna height above ground [m]")
+	f.StringVar(&o.tx.cable, "cable", "", "transmitting feedline cable (see `mastlink feedline --list`)")
+	f.StringVar(&o.tx.cableLength, "cable-length", "", "transmitting feedline length [m]")
+	f.IntVar(&o.tx.connectors, "connectors", 0, "mated connector pairs in the transmitting feedline")
+	f.StringVar(&o.tx.swr, "swr", "1", "SWR at the transmitting antenna")
+	f.StringVar(&o.rx.gain, "to-gain", "0dBi", "receiving antenna gain [dBi]")
+	f.StringVar(&o.rx.height, "to-height", "1.5m", "receiving antenna height above ground [m]")
+	f.StringVar(&o.rx.cable, "to-cable", "", "receiving feedline cable")
+	f.StringVar(&o.rx.cableLength, "to-cable-length", "", "receiving feedline length [m]")
+	f.IntVar(&o.rx.connectors, "to-connectors", 0, "mated connector pairs in the receiving feedline")
+	f.StringVar(&o.rx.swr, "to-swr", "1", "SWR at the receiving antenna")
+	f.StringVar(&o.rx.sens, "rx-sens", "0.25uV", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
+	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
+	f.StringVar(&o.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington) or free-space")
+	f.StringVar(&o.polarization, "polarization", "vertical", "vertical or horizontal")
+	f.StringVar(&o.ground, "ground", "land", "ground constants: land or sea (ITU-R P.1812)")
+	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] for the probability of working")
+	f.StringVar(&o.reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: gives the margin needed")
+	f.StringVar(&o.margin, "margin", "", "wanted fade margin [dB]")
+	f.StringVar(&o.step, "step", "", "profile sample spacing [m] (default: the elevation data's spacing)")
+	f.StringVar(&o.profile, "profile", "", "terrain profile CSV (distance_m or distance_km, elevation_m, optional clutter_m) instead of elevation data")
+	addWaypointsFlag(cmd, &o.points)
+	_ = cmd.MarkFlagRequired("freq")
+	return cmd
+}
+
+// end builds one end of the link from its flags; prefix names the flags
+// ("" or "to-").
+func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
+	var out plan.End
+	out.Name = name
+	var err error
+	if withPower {
+		if out.Radio.PowerW, err = quantity(prefix+"power", e.power, plan.ParsePowerW); err != nil {
+			return out, err
+		}
+	}
+	if e.sens != "" {
+		if out.Radio.SensitivityDBm, err = quantity("rx-sens", e.sens, plan.ParseSensitivityDBm); err != nil {
+			return out, err
+		}
+	}
+	if out.Antenna.GainDBi, err = quantity(prefix+"gain", e.gain, plan.ParseGainDBi); err != nil {
+		return out, err
+	}
+	if out.Antenna.HeightM, err = quantity(prefix+"height", e.height, plan.ParseLengthM); err != nil {
+		return out, err
+	}
+	if e.cable == "" {
+		if e.cableLength != "" {
+			return out, usagef("--%scable-length needs --%scable", prefix, prefix)
+		}
+		return out, nil
+	}
+	c, err := plan.ResolveCable(e.cable)
+	if err != nil {
+		return out, usagef("--%scable: %v", prefix, err)
+	}
+	if e.cableLength == "" {
+		return out, usagef("--%scable needs --%scable-length", prefix, prefix)
+	}
+	l, err := quantity(prefix+"cable-length", e.cableLength, plan.ParseLengthM)
+	if err != nil {
+		return out, err
+	}
+	out.Feedline = plan.NewFeedline(c, l)
+	out.Feedline.Connectors = e.connectors
+	if e.connectors < 0 {
+		return out, usagef("--%sconnectors: give 0 or more", prefix)
+	}
+	if out.Feedline.SWR, err = quantity(prefix+"swr", e.swr, plan.ParseSWR); err != nil {
+		return out, err
+	}
+	return out, nil
+}
+
+// linkOutput is the JSON of `mastlink link`.
+type linkOutput struct {
+	plan.LinkResult
+	FromLat float64 `json:"from_lat"`
+	FromLon float64 `json:"from_lon"`
+	ToLat   float64 `json:"to_lat"`
+	ToLon   float64 `json:"to_lon"`
+	SigmaDB float64 `json:"sigma_db"`
+	SMeter  string  `json:"s_meter"`
+}
+
+func runLink(g *globals, o *linkOptions) error {
+	freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+	if err != nil {
+		return err
+	}
+	env := plan.Env{Vertical: true}
+	if env.K, err = kFactor(o.k); err != nil {
+		return err
+	}
+	if env.Model, err = propagation.ModelByName(o.model); err != nil {
+		return usagef("--model: %q is not a model (use terrain or free-space)", o.model)
+	}
+	switch o.polarization {
+	case "vertical", "horizontal":
+		env.Vertical = o.polarization == "vertical"
+	default:
+		return usagef("--polarization: %q is not vertical or horizontal", o.polarization)
+	}
+	switch o.ground {
+	case "land", "sea":
+		env.Sea = o.ground == "sea"
+	default:
+		return usagef("--ground: %q is not land or sea", o.ground)
+	}
+	if env.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
+		return err
+	}
+	req := plan.Requirement{SigmaDB: env.SigmaDB}
+	if o.reliability != "" {
+		if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
+			return err
+		}
+		if !(req.Reliability > 0 && req.Reliability < 1) {
+			return usagef("--reliability: give a fraction above 0%% and below 100%%")
+		}
+	}
+	if o.margin != "" {
+		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
+			return err
+		}
+	}
+	if o.step != "" {
+		if env.StepM, err = quantity("step", o.step, plan.ParseLengthM); err != nil {
+			return err
+		}
+		if env.StepM <= 0 {
+			return usagef("--step: give a spacing above 0 m")
+		}
+	}
+	var geo *plan.Geometry
+	out := linkOutput{SigmaDB: env.SigmaDB}
+	fromName, toName := "transmitter", "receiver"
+	if o.profile != "" {
+		pc, err := plan.ReadProfileCSV(o.profile)
+		if err != nil {
+			return fmt.Errorf("--profile: %w", err)
+		}
+		if geo, err = plan.GeometryFromPath(pc.DistM, pc.ElevM, pc.ClutterM); err != nil {
+			return fmt.Errorf("--profile: %w", err)
+		}
+	} else {
+		if o.from == "" || o.to == "" {
+			return usagef("--from and --to are needed (or --profile FILE.csv)")
+		}
+		from, fn, err := o.points.resolve("--from", o.from)
+		if err != nil {
+			return err
+		}
+		to, tn, err := o.points.resolve("--to", o.to)
+		if err != nil {
+			return err
+		}
+		fromName, toName = fn, tn
+		out.FromLat, out.FromLon, out.ToLat, out.ToLon = from.Lat(), from.Lon(), to.Lat(), to.Lon()
+		if env.Terrain, err = g.openTerrain(); err != nil {
+			return err
+		}
+		if env.Terrain == nil {
+			g.noticeSmoothEarth()
+		}
+		geo = &plan.Geometry{}
+		if err := env.Measure(from, to, geo); err != nil {
+			return err
+		}
+		g.warnMissing(env.Terrain)
+	}
+	tx, err := o.tx.end(fromName, "", true)
+	if err != nil {
+		return err
+	}
+	o.rx.power = ""
+	rx, err := o.rx.end(toName, "to-", false)
+	if err != nil {
+		return err
+	}
+	r, err := env.Evaluate(geo, tx, rx, freq, true)
+	if err != nil {
+		return err
+	}
+	if o.margin != "" || o.reliability != "" {
+		need := req.NeededMarginDB()
+		ok := r.MarginDB >= need
+		r.NeededMarginDB, r.MeetsRequirement = &need, &ok
+	}
+	out.LinkResult = r
+	out.SMeter = plan.SMeter(r.RxPowerDBm)
+	switch g.format {
+	case "json":
+		return writeJSON(g.stdout, out)
+	case "csv":
+		return writeCSV(g.stdout, linkCSVHeader, [][]string{linkCSVRow(r)})
+	}
+	renderLinkText(g.stdout, out, tx, rx, g.imperial())
+	return nil
+}
+
+var linkCSVHeader = []string{"from", "to", "direction", "freq_mhz", "distance_m", "azimuth_deg", "model", "free_space_loss_db", "excess_loss_db", "path_loss_db",
+	"tx_feedline_loss_db", "rx_feedline_loss_db", "eirp_dbm", "rx_power_dbm", "rx_sensitivity_dbm", "margin_db", "line_of_sight", "worst_clearance_f1", "probability", "meets_requirement"}
+
+func linkCSVRow(r plan.LinkResult) []string {
+	opt := func(p *float64, f func(float64) string) string {
+		if p == nil {
+			return ""
+		}
+		return f(*p)
+	}
+	meets := ""
+	if r.MeetsRequirement != nil {
+		meets = fmt.Sprint(*r.MeetsRequirement)
+	}
+	return []string{r.From, r.To, r.Direction, f4(r.FreqMHz), f1(r.DistanceM), f2(r.AzimuthDeg), r.Model, f2(r.FreeSpaceLossDB), f2(r.ExcessLossDB), f2(r.PathLossDB),
+		f2(r.TxFeedlineLossDB), f2(r.RxFeedlineLossDB), f2(r.EIRPDBm), f2(r.RxPowerDBm), f2(r.RxSensitivityDBm), f2(r.MarginDB), fmt.Sprint(r.LineOfSight),
+		opt(r.WorstClearanceF1, f2), opt(r.Probability, f4), meets}
+}
+
+var modelNames = map[string]string{
+	"terrain":    "ITU-R P.526-16 diffraction over the terrain (delta-Bullington)",
+	"free-space": "free space (ITU-R P.525), terrain ignored",
+}
+
+// renderLinkText writes one link budget in plain trade words.
+func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
+	r := o.LinkResult
+	fmt.Fprintf(w, "%s → %s at %s\n", r.From, r.To, plan.FormatFreq(r.FreqMHz))
+	fmt.Fprintf(w, "  distance %s, bearing %.1f° true\n", plan.FormatLength(r.DistanceM, im), r.AzimuthDeg)
+	terr := "elevation data"
+	switch r.Terrain {
+	case "smooth earth":
+		terr = "a smooth earth (no elevation data for this path)"
+	case "profile file":
+		terr = "the profile file"
+	}
+	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, plan.FormatHeight(r.TxGroundM, im), plan.FormatHeight(r.RxGroundM, im))
+	fmt.Fprintf(w, "  model: %s\n", modelNames[r.Model])
+	fmt.Fprintf(w, "  path: %s\n\n", pathSummary(r, im))
+	t := newTable(w)
+	t.row("  transmitter power", plan.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
+	t.row("  transmit feedline"+lineName(tx), "", db(-r.TxFeedlineLossDB))
+	t.row("  transmit antenna gain", "", dbi(r.TxGainDBi))
+	t.row("  EIRP", "", dbm(r.EIRPDBm))
+	t.row("  free-space loss", "", db(-r.FreeSpaceLossDB))
+	t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
+	t.row("  receive antenna gain", "", dbi(r.RxGainDBi))
+	t.row("  receive feedline"+lineName(rx), "", db(-r.RxFeedlineLossDB))
+	t.row("  received level", plan.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
+	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", plan.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
+	t.row("  margin", "", db(r.MarginDB))
+	if r.Probability != nil {
+		t.row(fmt.Sprintf("  chance of working here (σ %.1f dB)", o.SigmaDB), "", probability(*r.Probability))
+	}
+	t.flush()
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, verdict(r))
+}
+
+func lineName(e plan.End) string {
+	if e.Feedline.Cable.Name == "" {
+		return " (none given)"
+	}
+	return fmt.Sprintf(" (%s, %.1f m)", e.Feedline.Cable.Name, e.Feedline.LengthM)
+}
+
+func pathSummary(r plan.LinkResult, im bool) string {
+	s := "line of sight"
+	if !r.LineOfSight {
+		s = "blocked: no line of sight"
+	}
+	if r.WorstClearanceF1 != nil && r.Obstacle != nil {
+		c := *r.WorstClearanceF1
+		where := fmt.Sprintf("%s from the transmitter (ground %s)", plan.FormatLength(r.Obstacle.DistanceM, im), plan.FormatHeight(r.Obstacle.ElevationM, im))
+		switch {
+		case c >= 1:
+			s += fmt.Sprintf(", first Fresnel zone clear (worst %.2f of it, %s)", c, where)
+		case c >= 0.6:
+			s += fmt.Sprintf(", Fresnel zone %.0f%% clear at the tightest point, %s", c*100, where)
+		case c >= 0:
+			s += fmt.Sprintf(", Fresnel zone only %.0f%% clear at %s (0.6 is the usual minimum)", c*100, where)
+		default:
+			s += fmt.Sprintf("; the worst obstacle is %s", where)
+		}
+	}
+	return s
+}
+
+func verdict(r plan.LinkResult) string {
+	switch {
+	case r.MeetsRequirement != nil && *r.MeetsRequirement:
+		return fmt.Sprintf("Meets the requirement: %.1f dB of margin, %.1f dB needed.", r.MarginDB, *r.NeededMarginDB)
+	case r.MeetsRequirement != nil:
+		return fmt.Sprintf("Falls short of the requirement: %.1f dB of margin, %.1f dB needed.", r.MarginDB, *r.NeededMarginDB)
+	case r.MarginDB >= 10:
+		return fmt.Sprintf("Should work: %.1f dB above the receiver's sensitivity.", r.MarginDB)
+	case r.MarginDB >= 0:
+		return fmt.Sprintf("Marginal: only %.1f dB above the receiver's sensitivity; expect dropouts as you move.", r.MarginDB)
+	default:
+		return fmt.Sprintf("Not expected to work: %.1f dB below the receiver's sensitivity.", -r.MarginDB)
+	}
+}
+
+func dbm(v float64) string { return signed(v) + " dBm" }
+func db(v float64) string  { return signed(v) + " dB" }
+func dbi(v float64) string { return signed(v) + " dBi" }
+
+// signed formats v with one decimal and a sign, never as "-0.0".
+func signed(v float64) string {
+	if math.Abs(v) < 0.05 {
+		return "0.0"
+	}
+	return fmt.Sprintf("%+.1f", v)
+}
+
+func probability(p float64) string {
+	switch {
+	case p > 0.999:
+		return "over 99.9 %"
+	case p < 0.001:
+		return "under 0.1 %"
+	}
+	return fmt.Sprintf("%.1f %%", 100*p)
+}

@@ -1,0 +1,263 @@
+package plan
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/mastlink/mastlink/propagation"
+	"github.com/mastlink/mastlink/terrain"
+	"github.com/paulmach/orb"
+)
+
+// Env is what every link evaluation shares: the terrain, the propagation
+// model and the radio climate. An Env is safe for concurrent use; each
+// goroutine needs its own Geometry.
+type Env struct {
+	// Terrain supplies ground heights; nil or a set with no tiles means a
+	// smooth earth at sea level.
+	Terrain *terrain.Set
+	// Model computes path loss; nil means propagation.Terrain
+	// (ITU-R P.526-16 delta-Bullington).
+	Model propagation.Model
+	// K is the effective earth-radius factor; 0 means 4/3.
+	K float64
+	// Vertical selects vertical polarization (the usual for VHF/UHF FM).
+	Vertical bool
+	// Sea selects sea ground constants instead of land (ITU-R P.1812-8 §4.3.3).
+	Sea bool
+	// StepM is the profile sample spacing in metres; 0 follows the DEM.
+	StepM float64
+	// SigmaDB is the location variability σ in dB used for the probability
+	// of a working link; 0 leaves the probability out.
+	SigmaDB float64
+}
+
+// noTerrain is an empty tile set: a smooth earth at sea level.
+var noTerrain = func() *terrain.Set {
+	s, err := terrain.Open()
+	if err != nil {
+		panic("plan: empty tile set: " + err.Error())
+	}
+	return s
+}()
+
+// terrainSet returns the Env's tiles, or an empty set for a smooth earth.
+func (e *Env) terrainSet() *terrain.Set {
+	if e.Terrain == nil {
+		return noTerrain
+	}
+	return e.Terrain
+}
+
+func (e *Env) model() propagation.Model {
+	if e.Model == nil {
+		return propagation.Terrain{}
+	}
+	return e.Model
+}
+
+// Geometry is the terrain between two points, extracted once and reused for
+// every evaluation over that path (both directions, several frequencies,
+// several mast heights). Not safe for concurrent use.
+type Geometry struct {
+	From, To orb.Point
+	Profile  terrain.Profile
+	path     propagation.Path
+	// Source says where the heights came from: "terrain", "smooth earth"
+	// (no elevation data covered the path), or "profile file".
+	Source string
+}
+
+// Measure fills g with the terrain profile between a and b along the WGS84
+// geodesic (Karney), at the Env's step.
+func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
+	g.From, g.To = a, b
+	if err := e.terrainSet().Profile(a.Lat(), a.Lon(), b.Lat(), b.Lon(), e.StepM, &g.Profile); err != nil {
+		return err
+	}
+	g.Source = "terrain"
+	if g.Profile.NoData == len(g.Profile.ElevM) {
+		g.Source = "smooth earth"
+	}
+	g.path.DistKM = g.path.DistKM[:0]
+	g.path.HeightM = g.path.HeightM[:0]
+	g.path.ClutterM = nil
+	for i, d := range g.Profile.DistM {
+		g.path.DistKM = append(g.path.DistKM, d/1000)
+		g.path.HeightM = append(g.path.HeightM, g.Profile.ElevM[i])
+	}
+	return nil
+}
+
+// GeometryFromPath makes a Geometry from a profile given directly (a
+// surveyed profile, or one read from a file): distances in metres from the
+// first point, heights in metres above sea level, optional clutter heights
+// added to intermediate points. Positions are unknown (zero).
+func GeometryFromPath(distM, elevM, clutterM []float64) (*Geometry, error) {
+	if len(distM) < 2 || len(distM) != len(elevM) {
+		return nil, fmt.Errorf("a profile needs at least two points with a distance and an elevation each")
+	}
+	g := &Geometry{Source: "profile file"}
+	g.Profile.DistM = append([]float64(nil), distM...)
+	g.Profile.ElevM = append([]float64(nil), elevM...)
+	g.Profile.Lat = make([]float64, len(distM))
+	g.Profile.Lon = make([]float64, len(distM))
+	g.Profile.DistanceM = distM[len(distM)-1]
+	for _, d := range distM {
+		g.path.DistKM = append(g.path.DistKM, d/1000)
+	}
+	g.path.HeightM = append([]float64(nil), elevM...)
+	if clutterM != nil {
+		g.path.ClutterM = append([]float64(nil), clutterM...)
+	}
+	return g, nil
+}
+
+// Obstacle is the profile point where the first-Fresnel-zone clearance is
+// worst.
+type Obstacle struct {
+	DistanceM  float64 `json:"distance_m"`  // from the transmitting end
+	Lat        float64 `json:"lat"`         // degrees
+	Lon        float64 `json:"lon"`         // degrees
+	ElevationM float64 `json:"elevation_m"` // ground, metres above sea level
+}
+
+// LinkResult is one direction of one link: the path, its loss and the
+// budget. Field names carry their units.
+type LinkResult struct {
+	From             string    `json:"from,omitempty"`
+	To               string    `json:"to,omitempty"`
+	Direction        string    `json:"direction,omitempty"` // e.g. "talk-in", "talk-out", "out", "back"
+	FreqMHz          float64   `json:"freq_mhz"`
+	DistanceM        float64   `json:"distance_m"`
+	AzimuthDeg       float64   `json:"azimuth_deg"` // from the transmitting end, clockwise from true north
+	Terrain          string    `json:"terrain"`     // terrain, smooth earth or profile file
+	Model            string    `json:"model"`
+	FreeSpaceLossDB  float64   `json:"free_space_loss_db"`
+	ExcessLossDB     float64   `json:"excess_loss_db"`
+	PathLossDB       float64   `json:"path_loss_db"`
+	TxPowerDBm       float64   `json:"tx_power_dbm"`
+	TxFeedlineLossDB float64   `json:"tx_feedline_loss_db"`
+	TxGainDBi        float64   `json:"tx_gain_dbi"`
+	EIRPDBm          float64   `json:"eirp_dbm"`
+	RxGainDBi        float64   `json:"rx_gain_dbi"`
+	RxFeedlineLossDB float64   `json:"rx_feedline_loss_db"`
+	RxPowerDBm       float64   `json:"rx_power_dbm"`
+	RxSensitivityDBm float64   `json:"rx_sensitivity_dbm"`
+	MarginDB         float64   `json:"margin_db"`
+	LineOfSight      bool      `json:"line_of_sight"`
+	WorstClearanceF1 *float64  `json:"worst_clearance_f1"` // null when the path has no intermediate points
+	Obstacle         *Obstacle `json:"obstacle"`           // null when the path has no intermediate points
+	Probability      *float64  `json:"probability"`        // of a working link at the location, with σ; null without σ
+	NeededMarginDB   *float64  `json:"needed_margin_db,omitempty"`
+	MeetsRequirement *bool     `json:"meets_requirement,omitempty"`
+	Optional         bool      `json:"optional,omitempty"` // a target the requirement does not cover
+	TxGroundM        float64   `json:"tx_ground_m"`        // terrain height at the transmitting end, m
+	RxGroundM        float64   `json:"rx_ground_m"`
+}
+
+// Evaluate computes the budget from tx to rx over g. tx is at g.From when
+// txAtFrom is true, else at g.To; the path loss is computed on g in its own
+// orientation (ITU-R P.526 diffraction is reciprocal), so one Geometry
+// serves both directions.
+func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) (LinkResult, error) {
+	if !(freqMHz > 0) {
+		return LinkResult{}, errors.New("no frequency given")
+	}
+	fromEnd, toEnd := tx, rx
+	if !txAtFrom {
+		fromEnd, toEnd = rx, tx
+	}
+	loss, err := e.PathLoss(g, fromEnd.Antenna.HeightM, toEnd.Antenna.HeightM, freqMHz)
+	if err != nil {
+		return LinkResult{}, err
+	}
+	txFL, err := tx.Feedline.Loss(freqMHz)
+	if err != nil {
+		return LinkResult{}, fmt.Errorf("%s: feedline: %w", tx.Name, err)
+	}
+	rxFL, err := rx.Feedline.Loss(freqMHz)
+	if err != nil {
+		return LinkResult{}, fmt.Errorf("%s: feedline: %w", rx.Name, err)
+	}
+	txLine, rxLine := txFL.TotalLossDB, rxFL.TotalLossDB
+	b := LinkBudget{
+		TxPowerDBm:       DBmFromW(tx.Radio.PowerW),
+		TxFeedlineLossDB: txLine,
+		TxGainDBi:        tx.Antenna.GainDBi,
+		PathLossDB:       loss.PathLossDB,
+		RxGainDBi:        rx.Antenna.GainDBi,
+		RxFeedlineLossDB: rxLine,
+		RxSensitivityDBm: rx.Radio.SensitivityDBm,
+	}
+	lv := b.Levels()
+	n := len(g.Profile.DistM)
+	r := LinkResult{
+		From: tx.Name, To: rx.Name,
+		FreqMHz:          freqMHz,
+		DistanceM:        g.Profile.DistanceM,
+		Terrain:          g.Source,
+		Model:            loss.Model,
+		FreeSpaceLossDB:  loss.FreeSpaceDB,
+		ExcessLossDB:     loss.ExcessDB,
+		PathLossDB:       loss.PathLossDB,
+		TxPowerDBm:       b.TxPowerDBm,
+		TxFeedlineLossDB: txLine,
+		TxGainDBi:        b.TxGainDBi,
+		EIRPDBm:          lv.EIRPDBm,
+		RxGainDBi:        b.RxGainDBi,
+		RxFeedlineLossDB: rxLine,
+		RxPowerDBm:       lv.RxPowerDBm,
+		RxSensitivityDBm: b.RxSensitivityDBm,
+		MarginDB:         lv.MarginDB,
+		LineOfSight:      loss.LineOfSight,
+		TxGroundM:        g.Profile.ElevM[0],
+		RxGroundM:        g.Profile.ElevM[n-1],
+	}
+	if txAtFrom {
+		r.AzimuthDeg = g.Profile.AzimuthDeg
+	} else {
+		r.AzimuthDeg = g.Profile.BackAzimuthDeg
+		r.TxGroundM, r.RxGroundM = r.RxGroundM, r.TxGroundM
+	}
+	if loss.ObstacleIndex >= 0 && !math.IsInf(loss.WorstClearanceF1, 0) {
+		c := loss.WorstClearanceF1
+		r.WorstClearanceF1 = &c
+		i := loss.ObstacleIndex
+		d := g.Profile.DistM[i]
+		if !txAtFrom {
+			d = g.Profile.DistanceM - d
+		}
+		r.Obstacle = &Obstacle{DistanceM: d, Lat: g.Profile.Lat[i], Lon: g.Profile.Lon[i], ElevationM: g.Profile.ElevM[i]}
+	}
+	if e.SigmaDB > 0 {
+		p := propagation.LinkProbability(r.MarginDB, e.SigmaDB)
+		r.Probability = &p
+	}
+	return r, nil
+}
+
+// PathLoss returns the propagation loss over g between antennas hFromM and
+// hToM metres above the ground at g.From and g.To, at freqMHz.
+func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.Result, error) {
+	k := e.K
+	if k == 0 {
+		k = DefaultK
+	}
+	prm := propagation.Params{
+		FreqMHz:       freqMHz,
+		TxHeightM:     hFromM,
+		RxHeightM:     hToM,
+		EarthRadiusKM: propagation.EffectiveEarthRadiusKM(k),
+		Polarization:  propagation.Horizontal,
+		Ground:        propagation.Land,
+	}
+	if e.Vertical {
+		prm.Polarization = propagation.Vertical
+	}
+	if e.Sea {
+		prm.Ground = propagation.Sea
+	}
+	return e.model().Loss(g.path, prm)
+}
