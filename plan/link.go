@@ -42,6 +42,14 @@ var noTerrain = func() *terrain.Set {
 	return s
 }()
 
+// terrainSet returns the Env's tiles, or an empty set for a smooth earth.
+func (e *Env) terrainSet() *terrain.Set {
+	if e.Terrain == nil {
+		return noTerrain
+	}
+	return e.Terrain
+}
+
 func (e *Env) model() propagation.Model {
 	if e.Model == nil {
 		return propagation.Terrain{}
@@ -65,11 +73,7 @@ type Geometry struct {
 // geodesic (Karney), at the Env's step.
 func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 	g.From, g.To = a, b
-	ts := e.Terrain
-	if ts == nil {
-		ts = noTerrain
-	}
-	if err := ts.Profile(a.Lat(), a.Lon(), b.Lat(), b.Lon(), e.StepM, &g.Profile); err != nil {
+	if err := e.terrainSet().Profile(a.Lat(), a.Lon(), b.Lat(), b.Lon(), e.StepM, &g.Profile); err != nil {
 		return err
 	}
 	g.Source = "terrain"
@@ -148,7 +152,8 @@ type LinkResult struct {
 	Probability      *float64  `json:"probability"`        // of a working link at the location, with σ; null without σ
 	NeededMarginDB   *float64  `json:"needed_margin_db,omitempty"`
 	MeetsRequirement *bool     `json:"meets_requirement,omitempty"`
-	TxGroundM        float64   `json:"tx_ground_m"` // terrain height at the transmitting end, m
+	Optional         bool      `json:"optional,omitempty"` // a target the requirement does not cover
+	TxGroundM        float64   `json:"tx_ground_m"`        // terrain height at the transmitting end, m
 	RxGroundM        float64   `json:"rx_ground_m"`
 }
 

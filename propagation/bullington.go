@@ -51,8 +51,8 @@ type BullingtonTerms struct {
 // delta-Bullington method of ITU-R P.526-16 §4.5 (eqs. 49–66), with every
 // intermediate term. Clutter heights in p are part of the real profile
 // (L_ba, eqs. 49–57); the smooth surface (eqs. 58–63) is fitted to the
-// terrain alone, as in ITU-R P.1812-8. It reads the profile twice and does
-// not allocate.
+// terrain alone, as in ITU-R P.1812-8 (its validation results confirm
+// this). It reads the profile two or three times and does not allocate.
 func DeltaBullington(p Path, prm Params) (BullingtonTerms, error) {
 	rp, err := prm.resolve()
 	if err != nil {
@@ -65,8 +65,8 @@ func DeltaBullington(p Path, prm Params) (BullingtonTerms, error) {
 	return deltaBullington(p, rp, &s), nil
 }
 
-// profileScan gathers, in one pass over a profile, everything the
-// delta-Bullington method and the clearance need from the real profile.
+// profileScan gathers everything the delta-Bullington method and the
+// clearance need from the real profile.
 type profileScan struct {
 	n          int
 	d0, dKM    float64 // first distance, path length
@@ -80,7 +80,9 @@ type profileScan struct {
 	aobt, aobr float64 // eqs. 61b, 61c
 }
 
-// scanProfile validates p and makes the single pass over the real profile.
+// scanProfile validates p and reads it: one pass for the checks and the
+// terrain sums, one for the real-profile maxima, and a third only when the
+// terrain rises above the antenna line (eqs. 61b, 61c).
 func scanProfile(p Path, rp params) (profileScan, error) {
 	if err := checkPath(p); err != nil {
 		return profileScan{}, err
@@ -110,49 +112,88 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	s.hrsM = hgt[n-1] + rp.rxM
 	hts, hrs := s.htsM, s.hrsM
 	s.str = (hrs - hts) / d
-	ce := 1 / rp.aeKM
-	kNu := 0.002 * d / rp.wavelengthM
+	slope := s.str                    // the ray rises by (h_rs − h_ts)/d per km
+	bulge := 500 / rp.aeKM            // 500 C_e of eq. 49
+	kNu := 0.002 * d / rp.wavelengthM // eq. 51 factor without 1/(d_i (d−d_i))
+	// Pass over the terrain: checks, the smooth-surface sums of eqs. 58
+	// and 59 over every segment, and the highest obstruction of the
+	// terrain above the antenna line (eqs. 61a, 61d).
+	var v1, v2 float64
+	hobs := math.Inf(-1)
+	dp, hp := 0.0, hgt[0]
 	for i := 1; i < n; i++ {
 		di := dist[i] - s.d0
-		dp := dist[i-1] - s.d0
+		hi := hgt[i]
 		if !(di > dp) {
 			return s, fmt.Errorf("%w: distance %g km at point %d does not increase from %g km at point %d", ErrBadPath, dist[i], i, dist[i-1], i-1)
 		}
-		hi, hp := hgt[i], hgt[i-1]
-		if !finite(hi) {
+		if hi-hi != 0 { // NaN or ±Inf
 			return s, fmt.Errorf("%w: terrain height %g m at point %d is not a number; fill voids before computing loss", ErrBadPath, hi, i)
 		}
-		// Smooth-surface sums over the terrain (eqs. 58, 59).
 		dd := di - dp
-		s.v1 += dd * (hi + hp)
-		s.v2 += dd * (hi*(2*di+dp) + hp*(di+2*dp))
-		if i == n-1 {
-			break
-		}
-		ddi := d - di
-		ray := (hts*ddi + hrs*di) / d
-		// Obstruction of the terrain above the antenna line (eq. 61).
-		hob := hi - ray
-		s.hobs = math.Max(s.hobs, hob)
-		s.aobt = math.Max(s.aobt, hob/di)
-		s.aobr = math.Max(s.aobr, hob/ddi)
-		// Real profile: terrain, clutter and bulge (eqs. 49, 51, 53).
-		g := hi
-		if clut != nil {
-			c := clut[i]
-			if !finite(c) || c < 0 {
-				return s, fmt.Errorf("%w: clutter height %g m at point %d must be zero or more", ErrBadPath, c, i)
-			}
-			g += c
-		}
-		g += 500 * ce * di * ddi
-		s.stim = math.Max(s.stim, (g-hts)/di)
-		s.srim = math.Max(s.srim, (g-hrs)/ddi)
-		nu := (g - ray) * math.Sqrt(kNu/(di*ddi))
-		if nu > s.nuMax {
-			s.nuMax, s.iMax = nu, i
+		v1 += dd * (hi + hp)
+		v2 += dd * (hi*(2*di+dp) + hp*(di+2*dp))
+		dp, hp = di, hi
+		if hob := hi - hts - slope*di; hob > hobs && i < n-1 {
+			hobs = hob
 		}
 	}
+	if clut != nil {
+		for i, c := range clut[1 : n-1] {
+			if !(c >= 0) || c-c != 0 {
+				return s, fmt.Errorf("%w: clutter height %g m at point %d must be zero or more", ErrBadPath, c, i+1)
+			}
+		}
+	}
+	s.v1, s.v2, s.hobs = v1, v2, hobs
+
+	// The obstruction slopes (eqs. 61b, 61c) matter only when the terrain
+	// rises above the antenna line (eq. 62).
+	aobt, aobr := s.aobt, s.aobr
+	if hobs > 0 {
+		for i := 1; i < n-1; i++ {
+			di := dist[i] - s.d0
+			ddi := d - di
+			hob := (hgt[i] - hts - slope*di) / (di * ddi)
+			if a := hob * ddi; a > aobt {
+				aobt = a
+			}
+			if a := hob * di; a > aobr {
+				aobr = a
+			}
+		}
+	}
+
+	// Pass over the real profile of terrain, clutter and bulge: eqs. 49,
+	// 51 and 53. Inputs are finite here, so plain comparisons keep maxima.
+	stim, srim, iMax := s.stim, s.srim, s.iMax
+	qMax := math.Inf(-1)
+	for i := 1; i < n-1; i++ {
+		di := dist[i] - s.d0
+		ddi := d - di
+		r := 1 / (di * ddi) // one division gives both reciprocals
+		g := hgt[i] + bulge*di*ddi
+		if clut != nil {
+			g += clut[i]
+		}
+		if v := (g - hts) * ddi * r; v > stim {
+			stim = v
+		}
+		if v := (g - hrs) * di * r; v > srim {
+			srim = v
+		}
+		// ν = e √(kNu r) with e = g − ray; x ↦ sign(x) x² is increasing,
+		// so the largest e |e| r marks ν_max without a square root per point.
+		if e := g - hts - slope*di; e*math.Abs(e)*r > qMax {
+			qMax, iMax = e*math.Abs(e)*r, i
+		}
+	}
+	nuMax := math.Inf(-1)
+	if iMax >= 0 {
+		nuMax = math.Copysign(math.Sqrt(kNu*math.Abs(qMax)), qMax)
+	}
+	s.stim, s.srim, s.nuMax, s.iMax = stim, srim, nuMax, iMax
+	s.aobt, s.aobr = aobt, aobr
 	return s, nil
 }
 
@@ -217,21 +258,61 @@ func deltaBullington(p Path, rp params, s *profileScan) BullingtonTerms {
 
 	// Bullington on the smooth profile: every h_i = 0 (eq. 64).
 	hts, hrs := t.HtsSmoothM, t.HrsSmoothM
-	stim, srim, nuMax := math.Inf(-1), math.Inf(-1), math.Inf(-1)
-	ce := 1 / rp.aeKM
-	kNu := 0.002 * d / rp.wavelengthM
-	for i := 1; i < n-1; i++ {
-		di := p.DistKM[i] - s.d0
-		ddi := d - di
-		g := 500 * ce * di * ddi
-		stim = math.Max(stim, (g-hts)/di)
-		srim = math.Max(srim, (g-hrs)/ddi)
-		nuMax = math.Max(nuMax, (g-(hts*ddi+hrs*di)/d)*math.Sqrt(kNu/(di*ddi)))
-	}
+	stim, srim, nuMax := smoothProfileMaxima(p.DistKM[:n], s.d0, d, hts, hrs, rp)
 	_, _, _, t.LbsDB = bullingtonLoss(stim, srim, nuMax, 0, hts, hrs, d, rp.wavelengthM)
 
 	// Smooth spherical earth for the same heights (eq. 65), and eq. 66.
 	t.LsphDB = smoothEarthLoss(d, hts, hrs, rp)
 	t.LossDB = t.LbaDB + math.Max(t.LsphDB-t.LbsDB, 0)
 	return t
+}
+
+// smoothProfileMaxima returns S_tim (eq. 49), S_rim (eq. 53) and ν_max
+// (eq. 51) over the intermediate points of a profile whose heights are all
+// zero (eq. 64), for antennas hts, hrs ≥ 0 m above it.
+//
+// On such a profile each quantity is unimodal in d_i, so a binary search
+// over the sorted points finds its maximum in O(log n):
+//   - (500 C_e d_i (d−d_i) − h_ts)/d_i = 500 C_e (d−d_i) − h_ts/d_i is
+//     concave in d_i for h_ts ≥ 0, and likewise (eq. 53) in d − d_i;
+//   - with d_i = d sin²θ, ν = √(0.002 d/λ) [250 C_e d sin 2θ −
+//     (h_ts cot θ + h_rs tan θ)/d] is concave in θ on (0, π/2) (sin 2θ is
+//     concave there, cot θ and tan θ convex), and θ grows with d_i.
+func smoothProfileMaxima(dist []float64, d0, d, hts, hrs float64, rp params) (stim, srim, nuMax float64) {
+	n := len(dist)
+	if n < 3 {
+		inf := math.Inf(-1)
+		return inf, inf, inf
+	}
+	bulge := 500 / rp.aeKM
+	kNu := 0.002 * d / rp.wavelengthM
+	slope := (hrs - hts) / d
+	tim := func(i int) float64 {
+		di := dist[i] - d0
+		return bulge*(d-di) - hts/di
+	}
+	rim := func(i int) float64 {
+		di := dist[i] - d0
+		return bulge*di - hrs/(d-di)
+	}
+	nu := func(i int) float64 {
+		di := dist[i] - d0
+		ddi := d - di
+		return (bulge*di*ddi - hts - slope*di) * math.Sqrt(kNu/(di*ddi))
+	}
+	return maxUnimodal(1, n-2, tim), maxUnimodal(1, n-2, rim), maxUnimodal(1, n-2, nu)
+}
+
+// maxUnimodal returns the largest f(i) for lo ≤ i ≤ hi, for f that rises
+// and then falls (ties only at the peak), by binary search.
+func maxUnimodal(lo, hi int, f func(int) float64) float64 {
+	for lo < hi {
+		mid := lo + (hi-lo)/2
+		if f(mid) < f(mid+1) {
+			lo = mid + 1
+		} else {
+			hi = mid
+		}
+	}
+	return f(lo)
 }

@@ -140,7 +140,7 @@ func TestP1812Validation(t *testing.T) {
 			n := len(sg.Path.DistKM)
 			slant := SlantDistanceKM(sg.Path.DistKM[n-1], b.HtsM-b.HrsM)
 			lbfs := FreeSpaceLossP1812DB(slant, sg.FreqMHz)
-			t.Logf("%s: L_bfs %.8f (exp %.8f), L_ba %.8f (exp %.8f), L_bs %.4f, L_sph %.4f (exp 0, 0), L %.8f, h_st %.5f, h_sr %.5f (eq. 60; exp %.5f, %.5f)",
+			t.Logf("%s: L_bfs %.8f (exp %.8f), L_ba %.8f (exp %.8f), L_bs %.4f, L_sph %.4f (exp 0, 0), L %.8f, h_st %.5f, h_sr %.5f (eq. 60; published %.5f, %.5f; NaN = not published)",
 				c.file, lbfs, c.lbfs, b.LbaDB, c.lba, b.LbsDB, b.LsphDB, b.LossDB, b.HstipM, b.HsripM, c.hst, c.hsr)
 			if math.Abs(lbfs-c.lbfs) > c.tolDB {
 				t.Errorf("L_bfs = %.8f dB, want %.8f", lbfs, c.lbfs)

@@ -10,8 +10,9 @@ import "math"
 // at the clearance h_req and the first-term loss for the modified radius
 // a_em. It uses FreqMHz, EarthRadiusKM, Polarization, Ground and
 // SpeedOfLight from prm (antenna heights come from the arguments). The
-// formulas hold above about 10 MHz. Non-positive distances give 0; negative
-// heights count as 0.
+// formulas hold above about 10 MHz. The result is never negative (where the
+// first term would predict a field above free space, it is 0).
+// Non-positive distances give 0; negative heights count as 0.
 func SmoothEarthLossDB(distKM, h1M, h2M float64, prm Params) (float64, error) {
 	rp, err := prm.resolve()
 	if err != nil {
@@ -28,7 +29,11 @@ func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
 	h1 = math.Max(h1, 0)
 	h2 = math.Max(h2, 0)
 	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
-		return firstTermLoss(dKM, h1, h2, rp.aeKM, rp)
+		// Very short paths between antennas on the surface give X so small
+		// that the first term predicts a field above free space; like
+		// eq. 25's negative A_h, that counts as no loss. In eq. 66 it makes
+		// no difference (max(L_sph − L_bs, 0) with L_bs ≥ 0).
+		return math.Max(firstTermLoss(dKM, h1, h2, rp.aeKM, rp), 0)
 	}
 	// Within the horizon: work in metres.
 	d := dKM * 1000
@@ -38,9 +43,11 @@ func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
 	arg := 1.5 * c * math.Sqrt(3*m/math.Pow(m+1, 3)) // argument of arccos in eq. 22c
 	arg = math.Max(-1, math.Min(1, arg))
 	b := 2 * math.Sqrt((m+1)/(3*m)) * math.Cos(math.Pi/3+math.Acos(arg)/3) // eq. 22c
+	b = math.Max(-1, math.Min(1, b))                                       // |b| ≤ 1; rounding can step past it when an antenna is on the surface
 	d1 := d / 2 * (1 + b)                                                  // eq. 22a
 	d2 := d - d1                                                           // eq. 22b
 	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d                 // eq. 22
+	h = math.Max(h, 0)                                                     // within the horizon the ray clears the surface
 	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d)                      // eq. 23
 	if h > hreq {
 		return 0
@@ -50,6 +57,11 @@ func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
 	ah := firstTermLoss(dKM, h1, h2, aem/1000, rp)
 	if ah < 0 {
 		return 0
+	}
+	if hreq == 0 {
+		// An antenna on the surface: the ray grazes it at that end (h = 0,
+		// d1 or d2 = 0), the limit of eq. 25 is A_h.
+		return ah
 	}
 	return (1 - h/hreq) * ah // eq. 25
 }

@@ -154,3 +154,22 @@ func TestSmoothEarthPolarizationGround(t *testing.T) {
 		t.Errorf("land 446 MHz: L_H %.3f vs L_V %.3f dB, want within 0.1", lh, lv)
 	}
 }
+
+func TestSmoothEarthAntennaOnSurface(t *testing.T) {
+	// One antenna on the surface (h1 = 0) within the other's horizon: the
+	// ray grazes the earth at that end, so eq. 25 tends to A_h, the
+	// first-term loss for a_em (eq. 24) — finite and positive, never NaN.
+	// Found by FuzzTerrainLoss.
+	prm := Params{FreqMHz: 30}
+	for _, d := range []float64{0.01, 0.1, 1, 5} {
+		l, err := SmoothEarthLossDB(d, 0, 13, prm)
+		if err != nil || math.IsNaN(l) || l < 0 {
+			t.Errorf("%g km: loss %v, err %v; want finite, ≥ 0", d, l, err)
+		}
+		// Continuity: raising the antenna by a millimetre changes little.
+		l2, _ := SmoothEarthLossDB(d, 0.001, 13, prm)
+		if math.Abs(l-l2) > 0.5 {
+			t.Errorf("%g km: loss %.3f dB at 0 m but %.3f dB at 1 mm", d, l, l2)
+		}
+	}
+}

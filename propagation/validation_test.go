@@ -229,22 +229,20 @@ func parseSG3(r io.Reader) (sg3Profile, error) {
 	return out, nil
 }
 
-// sg3Seed is an invented file in the SG3 layout for the fuzz corpus.
-const sg3Seed = `invented
-Average annual values dN (N-units/km):,45
-{Begin of Profile}
-Number of Points:,3
-0,100,2,10,4
-0.5,120,4,15,4
-1,90,2,0,4
-{End of Profile}
-{Begin of Measurements}
-150,10,,2,1,,,,,,,,,,50,,,
-{End of Measurements}
-`
+// sg3Seed reads testdata/invented_sg3.csv, an invented file in the SG3
+// layout (seed for the parser test and the fuzz corpus).
+func sg3Seed(t testing.TB) string {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("testdata", "invented_sg3.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
 
 func TestParseSG3Seed(t *testing.T) {
-	p, err := parseSG3(strings.NewReader(sg3Seed))
+	seed := sg3Seed(t)
+	p, err := parseSG3(strings.NewReader(seed))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -254,13 +252,13 @@ func TestParseSG3Seed(t *testing.T) {
 	if p.Path.ClutterM[0] != 0 || p.Path.ClutterM[1] != 15 || p.Path.ClutterM[2] != 0 {
 		t.Errorf("clutter %v, want terminals 0 and the middle 15", p.Path.ClutterM)
 	}
-	if _, err := parseSG3(strings.NewReader(strings.Replace(sg3Seed, "0.5,120", "0.5,x", 1))); !errors.Is(err, errValidationFormat) {
+	if _, err := parseSG3(strings.NewReader(strings.Replace(seed, "0.5,120", "0.5,x", 1))); !errors.Is(err, errValidationFormat) {
 		t.Errorf("bad height: err %v, want errValidationFormat", err)
 	}
 }
 
 func FuzzParseSG3(f *testing.F) {
-	f.Add(sg3Seed)
+	f.Add(sg3Seed(f))
 	f.Add("{Begin of Profile}\nNumber of Points:,1\n0,1,2,3,4\n{End of Profile}\n")
 	f.Fuzz(func(t *testing.T, s string) {
 		p, err := parseSG3(strings.NewReader(s))
@@ -274,7 +272,11 @@ func FuzzParseSG3(f *testing.F) {
 }
 
 func FuzzParseDBull(f *testing.F) {
-	f.Add("Distance (km),DEM Height (m AMSL)\n0,800\n0.05,803\n0.1,798\n")
+	b, err := os.ReadFile(filepath.Join("testdata", "invented_dbull.csv"))
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(string(b))
 	f.Fuzz(func(t *testing.T, s string) {
 		p, err := parseDBull(strings.NewReader(s))
 		if err != nil {

@@ -1,0 +1,336 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"github.com/mastlink/mastlink/plan"
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+	"github.com/spf13/cobra"
+)
+
+func init() { commandConstructors = append(commandConstructors, newPlanCmd) }
+
+func newPlanCmd(g *globals) *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "plan FILE.yaml [-o DIR]",
+		Short: "Evaluate a whole deployment plan: every link both ways, mast sweep, RF exposure",
+		Long: `Reads a plan file (YAML: stations with their kit, targets to reach, the
+requirement, terrain and waypoints; see examples/valley/plan.yaml) and checks
+every station against every target in both directions: talk-in and talk-out
+for repeaters, out and back for simplex targets. It adds each station's
+RF-exposure keep-out and, when the plan has a mast section, the lowest mast
+and lightest cable that meet the requirement.
+
+With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
+into DIR for maps, GPS units and spreadsheets.`,
+		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
+		Args:    cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runPlan(cmd.Context(), g, args[0])
+		},
+	}
+	return cmd
+}
+
+// loadPlan reads a plan file and opens its terrain (with --dem as well).
+func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
+	p, err := plan.ReadPlan(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	ts, err := g.openTerrain(p.Terrain...)
+	if err != nil {
+		return nil, nil, fmt.Errorf("%s:%d: terrain: %w", path, p.TerrainAt, err)
+	}
+	if ts == nil {
+		g.noticeSmoothEarth()
+	}
+	return p, p.NewEnv(ts), nil
+}
+
+func runPlan(ctx context.Context, g *globals, path string) error {
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	p, env, err := loadPlan(g, path)
+	if err != nil {
+		return err
+	}
+	bar := newProgress(g, "links")
+	res, err := plan.EvaluatePlan(ctx, p, env, bar.update)
+	bar.done()
+	if err != nil {
+		return err
+	}
+	if env.Terrain != nil {
+		if m := env.Terrain.Missing(); len(m) > 0 {
+			w := fmt.Sprintf("no elevation data for %s: the ground there is taken as 0 m; obtain these tiles and add them to %s:%d (terrain)", strings.Join(m, ", "), path, p.TerrainAt)
+			res.Warnings = append(res.Warnings, w)
+		}
+	}
+	res.Warnings = append(res.Warnings, planWarnings(res)...)
+	for _, w := range res.Warnings {
+		fmt.Fprintf(g.stderr, "mastlink: warning: %s\n", w)
+	}
+	if g.out != "" {
+		if err := writePlanOutputs(g, p, res); err != nil {
+			return err
+		}
+	}
+	switch g.format {
+	case "json":
+		return writeJSON(g.stdout, res)
+	case "csv":
+		return writeLinksCSV(g.stdout, res.Links)
+	}
+	renderPlanText(g.stdout, p, env, res, g.imperial())
+	return nil
+}
+
+// planWarnings points out what a briefing should not miss.
+func planWarnings(res *plan.PlanResult) []string {
+	var out []string
+	for _, l := range res.Links {
+		if l.Optional || l.MeetsRequirement == nil || *l.MeetsRequirement {
+			continue
+		}
+		if l.MarginDB < 0 {
+			out = append(out, fmt.Sprintf("%s → %s (%s) is not expected to work: %.1f dB below sensitivity", l.From, l.To, l.Direction, -l.MarginDB))
+		}
+	}
+	return out
+}
+
+func writeLinksCSV(w io.Writer, links []plan.LinkResult) error {
+	rows := make([][]string, len(links))
+	for i, l := range links {
+		rows[i] = linkCSVRow(l)
+	}
+	return writeCSV(w, linkCSVHeader, rows)
+}
+
+// renderPlanText writes the plan result as a briefing.
+func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResult, im bool) {
+	title := res.Name
+	if title == "" {
+		title = filepath.Base(p.Path)
+	}
+	fmt.Fprintln(w, title)
+	fmt.Fprintln(w, strings.Repeat("=", len([]rune(title))))
+	req := fmt.Sprintf("%.1f dB of margin on every required link", res.NeededMarginDB)
+	if p.Require.Reliability > 0 {
+		req += fmt.Sprintf(" (asked: %.1f dB, and %.0f%% of locations with σ %.1f dB)", p.Require.MarginDB, 100*p.Require.Reliability, p.Require.SigmaDB)
+	}
+	fmt.Fprintf(w, "Requirement: %s\n", req)
+	terr := "smooth earth (no elevation data)"
+	if env.Terrain != nil {
+		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), strings.Join(relPaths(p.Terrain), ", "))
+	}
+	model := "ITU-R P.526-16 delta-Bullington diffraction"
+	if p.Model == "free-space" {
+		model = "free space (ITU-R P.525), terrain ignored"
+	}
+	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, model)
+
+	for _, s := range res.Stations {
+		cable := "no feedline given"
+		if s.Cable != "" {
+			cable = fmt.Sprintf("%s, %s", s.Cable, plan.FormatLength(s.CableLengthM, im))
+		}
+		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, plan.FormatHeight(s.GroundM, im),
+			plan.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), plan.FormatHeight(s.HeightM, im), cable)
+		fmt.Fprintf(w, "  reaches %d of %d required targets in both directions\n\n", s.Reached, s.Of)
+		t := newTable(w)
+		t.row("  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict")
+		for _, l := range res.Links {
+			if l.From != s.Name && l.To != s.Name {
+				continue
+			}
+			target := l.To
+			bearing := l.AzimuthDeg
+			if l.To == s.Name {
+				target = l.From
+				bearing = math.Mod(l.AzimuthDeg+180, 360) // shown from the station
+			}
+			if l.Optional {
+				target += " (optional)"
+			}
+			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), plan.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
+		}
+		t.flush()
+		fmt.Fprintln(w)
+	}
+	if res.Mast != nil {
+		renderMastText(w, res.Mast, im)
+	}
+	fmt.Fprintln(w, "RF exposure (keep people this far from the mast foot while transmitting)")
+	t := newTable(w)
+	t.row("  station", "MHz", "EIRP", "public", "operators", "limits")
+	for _, e := range res.Exposure {
+		t.row("  "+e.Station, fmt.Sprintf("%.3f", e.FreqMHz), plan.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
+	}
+	t.flush()
+	fmt.Fprintln(w, "\nCautions:")
+	for _, c := range plan.ExposureCautions() {
+		fmt.Fprintf(w, "  - %s\n", c)
+	}
+	if len(res.Warnings) > 0 {
+		fmt.Fprintln(w, "\nWarnings:")
+		for _, x := range res.Warnings {
+			fmt.Fprintf(w, "  - %s\n", x)
+		}
+	}
+	fmt.Fprintln(w)
+	if res.MeetsRequirement {
+		fmt.Fprintln(w, "Verdict: every required link meets the requirement.")
+	} else {
+		fmt.Fprintln(w, "Verdict: some required links fall short; see the table above and the mast sweep.")
+	}
+}
+
+func keepout(m float64, im bool) string {
+	if m <= 0 {
+		return "none needed"
+	}
+	return plan.FormatLength(up(m), im)
+}
+
+func clearance(l plan.LinkResult) string {
+	if l.WorstClearanceF1 == nil {
+		return "-"
+	}
+	c := *l.WorstClearanceF1
+	if !l.LineOfSight {
+		return "blocked"
+	}
+	return fmt.Sprintf("%.2f F1", c)
+}
+
+func linkVerdict(l plan.LinkResult) string {
+	switch {
+	case l.MeetsRequirement != nil && *l.MeetsRequirement:
+		return "ok"
+	case l.MarginDB >= 0:
+		return "short"
+	default:
+		return "no"
+	}
+}
+
+func relPaths(ps []string) []string {
+	out := make([]string, len(ps))
+	wd, _ := os.Getwd()
+	for i, p := range ps {
+		if r, err := filepath.Rel(wd, p); err == nil && !strings.HasPrefix(r, "..") {
+			out[i] = r
+		} else {
+			out[i] = p
+		}
+	}
+	return out
+}
+
+// writePlanOutputs writes links.geojson, keepout.geojson, plan.gpx and
+// links.csv into the directory g.out.
+func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
+	dir := g.out
+	if ext := extension(dir); ext != "" {
+		return usagef("-o: %q: plan writes several files; give a directory", dir)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("-o: %w", err)
+	}
+	inputs := p.InputFiles
+	fc := geojson.NewFeatureCollection()
+	for _, l := range res.Links {
+		a, b := endpoints(p, l)
+		f := geojson.NewFeature(orb.LineString{a, b})
+		f.Properties["from"] = l.From
+		f.Properties["to"] = l.To
+		f.Properties["direction"] = l.Direction
+		f.Properties["freq_mhz"] = l.FreqMHz
+		f.Properties["distance_m"] = round2(l.DistanceM)
+		f.Properties["path_loss_db"] = round2(l.PathLossDB)
+		f.Properties["rx_power_dbm"] = round2(l.RxPowerDBm)
+		f.Properties["margin_db"] = round2(l.MarginDB)
+		f.Properties["line_of_sight"] = l.LineOfSight
+		if l.WorstClearanceF1 != nil {
+			f.Properties["worst_clearance_f1"] = round2(*l.WorstClearanceF1)
+		}
+		if l.MeetsRequirement != nil {
+			f.Properties["meets_requirement"] = *l.MeetsRequirement
+		}
+		f.Properties["optional"] = l.Optional
+		fc.Append(f)
+	}
+	if err := renderTo(filepath.Join(dir, "links.geojson"), inputs, func(w io.Writer) error { return writeJSON(w, fc) }); err != nil {
+		return err
+	}
+	var sites []keepoutSite
+	for _, e := range res.Exposure {
+		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.ExposureReport})
+	}
+	if err := writeKeepout(filepath.Join(dir, "keepout.geojson"), inputs, sites); err != nil {
+		return err
+	}
+	if err := writePlanGPX(filepath.Join(dir, "plan.gpx"), inputs, p, res); err != nil {
+		return err
+	}
+	if err := renderTo(filepath.Join(dir, "links.csv"), inputs, func(w io.Writer) error { return writeLinksCSV(w, res.Links) }); err != nil {
+		return err
+	}
+	fmt.Fprintf(g.stderr, "mastlink: wrote links.geojson, keepout.geojson, plan.gpx and links.csv to %s\n", dir)
+	return nil
+}
+
+// endpoints finds the positions of a link's two ends in the plan.
+func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
+	pos := map[string]orb.Point{}
+	for _, s := range p.Stations {
+		pos[s.Name] = s.Pos
+	}
+	for _, t := range p.Targets {
+		pos[t.Name] = t.Pos
+	}
+	return pos[l.From], pos[l.To]
+}
+
+// writePlanGPX writes the plan's places as waypoints annotated with their
+// worst margins, for a GPS.
+func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResult) error {
+	now := time.Now().UTC().Truncate(time.Second)
+	out := plan.GPXOutput{Name: res.Name}
+	for i, s := range p.Stations {
+		sum := res.Stations[i]
+		out.Waypoints = append(out.Waypoints, plan.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
+			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", plan.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
+	}
+	for _, t := range p.Targets {
+		worst := math.Inf(1)
+		var parts []string
+		for _, l := range res.Links {
+			if l.From == t.Name || l.To == t.Name {
+				if l.MarginDB < worst {
+					worst = l.MarginDB
+				}
+				parts = append(parts, fmt.Sprintf("%s %+.1f dB", l.Direction, l.MarginDB))
+			}
+		}
+		out.Waypoints = append(out.Waypoints, plan.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
+			Description: fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))})
+	}
+	b, err := plan.EncodeGPX(out)
+	if err != nil {
+		return err
+	}
+	return writeFileAtomic(path, b, inputs)
+}

@@ -1,0 +1,234 @@
+package plan
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/mastlink/mastlink/propagation"
+	"github.com/mastlink/mastlink/terrain"
+)
+
+// Link directions. A repeater's talk-in is the station transmitting on the
+// repeater's listen frequency; its talk-out is the repeater transmitting on
+// its transmit frequency. Simplex targets are checked out (station
+// transmitting) and back (target transmitting) on one frequency.
+const (
+	DirTalkIn  = "talk-in"
+	DirTalkOut = "talk-out"
+	DirOut     = "out"
+	DirBack    = "back"
+)
+
+// StationSummary is a station as the plan result lists it.
+type StationSummary struct {
+	Name           string  `json:"name"`
+	Lat            float64 `json:"lat"`
+	Lon            float64 `json:"lon"`
+	GroundM        float64 `json:"ground_m"`
+	PowerW         float64 `json:"power_w"`
+	GainDBi        float64 `json:"gain_dbi"`
+	HeightM        float64 `json:"height_m"`
+	Cable          string  `json:"cable"`
+	CableLengthM   float64 `json:"cable_length_m"`
+	SensitivityDBm float64 `json:"sensitivity_dbm"`
+	Reached        int     `json:"reached"` // required targets reached in every direction
+	Of             int     `json:"of"`      // required targets
+}
+
+// StationExposure is a station's RF-exposure evaluation at the frequency
+// where its keep-out is largest.
+type StationExposure struct {
+	Station string  `json:"station"`
+	Lat     float64 `json:"lat"`
+	Lon     float64 `json:"lon"`
+	ExposureReport
+}
+
+// PlanResult is the outcome of a whole plan.
+type PlanResult struct {
+	Name             string            `json:"name"`
+	NeededMarginDB   float64           `json:"needed_margin_db"`
+	Stations         []StationSummary  `json:"stations"`
+	Links            []LinkResult      `json:"links"`
+	Exposure         []StationExposure `json:"exposure"`
+	Mast             *MastResult       `json:"mast,omitempty"`
+	Warnings         []string          `json:"warnings"`
+	MeetsRequirement bool              `json:"meets_requirement"` // every required link of every station
+}
+
+// Progress is told how far a long evaluation has come: done of total units.
+// It is called from one goroutine at a time.
+type Progress func(done, total int)
+
+// NewEnv returns the link environment a plan asks for over the given
+// terrain (nil for a smooth earth).
+func (p *Plan) NewEnv(ts *terrain.Set) *Env {
+	env := &Env{Terrain: ts, K: p.K, Vertical: p.Vertical, Sea: p.Sea, SigmaDB: p.Require.SigmaDB}
+	if p.Model == "free-space" {
+		env.Model = propagation.FreeSpace{}
+	}
+	return env
+}
+
+// EvaluatePlan evaluates every station against every target in both
+// directions, every station's RF exposure, and the mast sweep when the plan
+// asks for one. Profiles are extracted once per station–target pair.
+func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*PlanResult, error) {
+	res := &PlanResult{Name: p.Name, NeededMarginDB: p.Require.NeededMarginDB(), MeetsRequirement: true, Warnings: []string{}, Links: []LinkResult{}, Exposure: []StationExposure{}}
+	need := res.NeededMarginDB
+	total := len(p.Stations) * len(p.Targets)
+	done := 0
+	geoms := make([][]*Geometry, len(p.Stations))
+	for si, st := range p.Stations {
+		sum := StationSummary{Name: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), PowerW: st.Radio.PowerW, GainDBi: st.Antenna.GainDBi,
+			HeightM: st.Antenna.HeightM, Cable: st.Feedline.Cable.Name, CableLengthM: st.Feedline.LengthM, SensitivityDBm: st.Radio.SensitivityDBm}
+		geoms[si] = make([]*Geometry, len(p.Targets))
+		for ti, tg := range p.Targets {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+			g := &Geometry{}
+			if err := env.Measure(st.Pos, tg.Pos, g); err != nil {
+				return nil, fmt.Errorf("%s → %s: %w", st.Name, tg.Name, err)
+			}
+			geoms[si][ti] = g
+			if ti == 0 {
+				sum.GroundM = g.Profile.ElevM[0]
+			}
+			links, err := env.targetLinks(g, st.End, tg, need)
+			if err != nil {
+				return nil, err
+			}
+			ok := true
+			for _, l := range links {
+				ok = ok && *l.MeetsRequirement
+			}
+			if !tg.Optional {
+				sum.Of++
+				if ok {
+					sum.Reached++
+				} else {
+					res.MeetsRequirement = false
+				}
+			}
+			res.Links = append(res.Links, links...)
+			done++
+			if progress != nil {
+				progress(done, total)
+			}
+		}
+		if len(p.Targets) == 0 {
+			h, _, err := env.terrainSet().Elevation(st.Pos.Lat(), st.Pos.Lon())
+			if err == nil {
+				sum.GroundM = h
+			}
+		}
+		res.Stations = append(res.Stations, sum)
+		ex, err := stationExposure(p, st)
+		if err != nil {
+			return nil, fmt.Errorf("%s: exposure: %w", st.Name, err)
+		}
+		res.Exposure = append(res.Exposure, ex)
+	}
+	if p.Mast != nil && len(p.Stations) > 0 {
+		m, err := env.sweep(p.Stations[0], p.Targets, geoms[0], p.Mast, p.Require)
+		if err != nil {
+			return nil, err
+		}
+		res.Mast = m
+	}
+	return res, nil
+}
+
+// targetLinks evaluates the links between a station and a target over g
+// (station at g.From): talk-in and talk-out for a repeater, out and back
+// for a simplex target, each judged against the needed margin.
+func (e *Env) targetLinks(g *Geometry, st End, tg Target, needDB float64) ([]LinkResult, error) {
+	type leg struct {
+		dir      string
+		freq     float64
+		stationT bool // the station transmits
+	}
+	var legs []leg
+	if tg.Kind == Repeater {
+		legs = []leg{{DirTalkIn, tg.ListenMHz, true}, {DirTalkOut, tg.TransmitMHz, false}}
+	} else {
+		legs = []leg{{DirOut, tg.FreqMHz, true}, {DirBack, tg.FreqMHz, false}}
+	}
+	out := make([]LinkResult, 0, 2)
+	for _, l := range legs {
+		var r LinkResult
+		var err error
+		if l.stationT {
+			r, err = e.Evaluate(g, st, tg.End, l.freq, true)
+		} else {
+			r, err = e.Evaluate(g, tg.End, st, l.freq, false)
+		}
+		if err != nil {
+			return nil, fmt.Errorf("%s → %s: %w", st.Name, tg.Name, err)
+		}
+		r.Direction = l.dir
+		n := needDB
+		ok := r.MarginDB >= n
+		r.NeededMarginDB, r.MeetsRequirement = &n, &ok
+		r.Optional = tg.Optional
+		out = append(out, r)
+	}
+	return out, nil
+}
+
+// stationExposure evaluates a station's RF exposure at each frequency it
+// transmits on and keeps the one with the largest public keep-out.
+func stationExposure(p *Plan, st Station) (StationExposure, error) {
+	freqs := map[float64]bool{}
+	for _, t := range p.Targets {
+		if t.Kind == Repeater {
+			freqs[t.ListenMHz] = true
+		} else {
+			freqs[t.FreqMHz] = true
+		}
+	}
+	if len(freqs) == 0 && p.FreqMHz > 0 {
+		freqs[p.FreqMHz] = true
+	}
+	list := make([]float64, 0, len(freqs))
+	for f := range freqs {
+		list = append(list, f)
+	}
+	sort.Float64s(list)
+	var best ExposureReport
+	found := false
+	for _, f := range list {
+		in := st.Exposure
+		in.PowerW, in.GainDBi, in.FreqMHz, in.AntennaHeightM = st.Radio.PowerW, st.Antenna.GainDBi, f, st.Antenna.HeightM
+		fl, err := st.Feedline.Loss(f)
+		if err != nil {
+			return StationExposure{}, err
+		}
+		in.FeedlineLossDB = fl.TotalLossDB
+		r, err := EvaluateExposure(in)
+		if err != nil {
+			return StationExposure{}, err
+		}
+		if !found || r.DistancePublicM > best.DistancePublicM {
+			best, found = r, true
+		}
+	}
+	if !found {
+		return StationExposure{}, fmt.Errorf("no transmit frequency: give the plan a frequency")
+	}
+	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), ExposureReport: best}, nil
+}
+
+// worstMargin returns the smallest margin over links, +Inf for none.
+func worstMargin(links []LinkResult) float64 {
+	w := math.Inf(1)
+	for _, l := range links {
+		if !l.Optional && l.MarginDB < w {
+			w = l.MarginDB
+		}
+	}
+	return w
+}

@@ -1,0 +1,125 @@
+package plan
+
+import (
+	"fmt"
+	"math"
+)
+
+// MastRow is one mast height and cable of a sweep.
+type MastRow struct {
+	HeightM          float64 `json:"height_m"`
+	Cable            string  `json:"cable"`
+	CableLengthM     float64 `json:"cable_length_m"`
+	CableMassKg      float64 `json:"cable_mass_kg"`
+	FeedlineLossDB   float64 `json:"feedline_loss_db"` // at the first required link's frequency
+	WorstMarginDB    float64 `json:"worst_margin_db"`
+	WorstLink        string  `json:"worst_link"` // "target (direction)"
+	MeetsRequirement bool    `json:"meets_requirement"`
+}
+
+// MastChoice names a mast height and cable.
+type MastChoice struct {
+	HeightM      float64 `json:"height_m"`
+	Cable        string  `json:"cable"`
+	CableLengthM float64 `json:"cable_length_m"`
+	CableMassKg  float64 `json:"cable_mass_kg"`
+}
+
+// MastResult is a mast-and-cable sweep for one station.
+type MastResult struct {
+	Station        string      `json:"station"`
+	NeededMarginDB float64     `json:"needed_margin_db"`
+	RunM           float64     `json:"run_m"`
+	SlackM         float64     `json:"slack_m"`
+	Rows           []MastRow   `json:"rows"`
+	Recommended    *MastChoice `json:"recommended"` // null when nothing meets the requirement
+	Closest        *MastRow    `json:"closest"`     // the best worst margin when nothing meets it
+}
+
+// SweepMast evaluates a station against targets for every mast height and
+// cable of m: the cable runs up the mast and on to the radio (length =
+// antenna height + run + slack). For each combination the worst margin over
+// the required links in both directions is kept. The recommendation is the
+// lowest mast that meets the requirement, then the lightest cable (mass per
+// metre × length) at that height. Terrain profiles are extracted once per
+// target and reused for every height.
+func (e *Env) SweepMast(st Station, targets []Target, m *MastSweep, req Requirement) (*MastResult, error) {
+	geoms := make([]*Geometry, len(targets))
+	for i, t := range targets {
+		geoms[i] = &Geometry{}
+		if err := e.Measure(st.Pos, t.Pos, geoms[i]); err != nil {
+			return nil, fmt.Errorf("%s → %s: %w", st.Name, t.Name, err)
+		}
+	}
+	return e.sweep(st, targets, geoms, m, req)
+}
+
+func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSweep, req Requirement) (*MastResult, error) {
+	need := req.NeededMarginDB()
+	res := &MastResult{Station: st.Name, NeededMarginDB: need, RunM: m.RunM, SlackM: m.SlackM}
+	if len(targets) == 0 {
+		return nil, fmt.Errorf("mast sweep: the plan has no targets to reach")
+	}
+	for _, h := range m.Heights.ValuesM() {
+		for _, c := range m.Cables {
+			s := st
+			s.Antenna.HeightM = h
+			length := h + m.RunM + m.SlackM
+			fl := NewFeedline(c, length)
+			fl.SWR, fl.Connectors = st.Feedline.SWR, st.Feedline.Connectors
+			if st.Feedline.ConnectorLossDB > 0 {
+				fl.ConnectorLossDB = st.Feedline.ConnectorLossDB
+			}
+			s.Feedline = fl
+			row := MastRow{HeightM: h, Cable: c.Name, CableLengthM: length, CableMassKg: c.MassKgPerM * length, WorstMarginDB: math.Inf(1)}
+			required := 0
+			for i, t := range targets {
+				if t.Optional {
+					continue
+				}
+				required++
+				links, err := e.targetLinks(geoms[i], s.End, t, need)
+				if err != nil {
+					return nil, err
+				}
+				for _, l := range links {
+					if l.MarginDB < row.WorstMarginDB {
+						row.WorstMarginDB = l.MarginDB
+						row.WorstLink = fmt.Sprintf("%s (%s)", t.Name, l.Direction)
+					}
+					if row.FeedlineLossDB == 0 {
+						if l.Direction == DirTalkIn || l.Direction == DirOut {
+							row.FeedlineLossDB = l.TxFeedlineLossDB
+						} else {
+							row.FeedlineLossDB = l.RxFeedlineLossDB
+						}
+					}
+				}
+			}
+			if required == 0 {
+				return nil, fmt.Errorf("mast sweep: every target is optional; mark at least one as required")
+			}
+			row.MeetsRequirement = row.WorstMarginDB >= need
+			res.Rows = append(res.Rows, row)
+		}
+	}
+	for i := range res.Rows {
+		r := &res.Rows[i]
+		if !r.MeetsRequirement {
+			continue
+		}
+		if res.Recommended == nil || r.HeightM < res.Recommended.HeightM ||
+			(r.HeightM == res.Recommended.HeightM && r.CableMassKg < res.Recommended.CableMassKg) {
+			res.Recommended = &MastChoice{HeightM: r.HeightM, Cable: r.Cable, CableLengthM: r.CableLengthM, CableMassKg: r.CableMassKg}
+		}
+	}
+	if res.Recommended == nil {
+		for i := range res.Rows {
+			if res.Closest == nil || res.Rows[i].WorstMarginDB > res.Closest.WorstMarginDB {
+				r := res.Rows[i]
+				res.Closest = &r
+			}
+		}
+	}
+	return res, nil
+}

@@ -1,0 +1,150 @@
+package propagation
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+func TestModelByName(t *testing.T) {
+	cases := []struct {
+		name, want string
+		err        error
+	}{
+		{"terrain", "terrain", nil},
+		{" Free-Space ", "free-space", nil},
+		{"itm", "", ErrUnknownModel},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			m, err := ModelByName(c.name)
+			if !errors.Is(err, c.err) {
+				t.Fatalf("err = %v, want %v", err, c.err)
+			}
+			if err == nil && m.Name() != c.want {
+				t.Errorf("Name() = %q, want %q", m.Name(), c.want)
+			}
+		})
+	}
+}
+
+func TestModelsAgreeOnGeometry(t *testing.T) {
+	// Both models report the same free-space loss and clearance; only the
+	// excess differs. 146 MHz over the rolling profile.
+	p := rollingPath(400, 20)
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	fs, err := FreeSpace{}.Loss(p, prm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := Terrain{}.Loss(p, prm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fs.FreeSpaceDB != tr.FreeSpaceDB || fs.WorstClearanceF1 != tr.WorstClearanceF1 ||
+		fs.ObstacleIndex != tr.ObstacleIndex || fs.LineOfSight != tr.LineOfSight {
+		t.Errorf("geometry differs: free-space %+v, terrain %+v", fs, tr)
+	}
+	if fs.ExcessDB != 0 || fs.PathLossDB != fs.FreeSpaceDB {
+		t.Errorf("free-space model: excess %v, path %v, free space %v", fs.ExcessDB, fs.PathLossDB, fs.FreeSpaceDB)
+	}
+	if tr.ExcessDB <= 0 || math.Abs(tr.PathLossDB-(tr.FreeSpaceDB+tr.ExcessDB)) > 1e-12 {
+		t.Errorf("terrain model: excess %v, path %v, free space %v", tr.ExcessDB, tr.PathLossDB, tr.FreeSpaceDB)
+	}
+	// ITU-R P.525 over the path length.
+	if want := FreeSpaceLossDB(20, 146); math.Abs(fs.FreeSpaceDB-want) > 1e-9 {
+		t.Errorf("free space %v dB, want %v", fs.FreeSpaceDB, want)
+	}
+}
+
+func TestTerrainSmoothEarthReduction(t *testing.T) {
+	// Over a profile of zero heights the smooth surface is the sea-level
+	// sphere, L_ba = L_bs, and delta-Bullington reduces to the §3.2
+	// smooth-earth loss (eq. 66) — the no-DEM fallback.
+	p := flatPath(601, 60)
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 10, Polarization: Vertical, Ground: Sea}
+	r, err := Terrain{}.Loss(p, prm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := SmoothEarthLossDB(60, 10, 10, prm)
+	if math.Abs(r.ExcessDB-want) > 1e-9 || math.Abs(r.Bullington.LbaDB-r.Bullington.LbsDB) > 1e-9 {
+		t.Errorf("excess %v dB (L_ba %v, L_bs %v), want smooth-earth %v", r.ExcessDB, r.Bullington.LbaDB, r.Bullington.LbsDB, want)
+	}
+}
+
+func TestTerrainLossDoesNotAllocate(t *testing.T) {
+	p := rollingPath(3300, 33)
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	var m Model = Terrain{}
+	if a := testing.AllocsPerRun(20, func() { _, _ = m.Loss(p, prm) }); a != 0 {
+		t.Errorf("Terrain.Loss allocates %v times per call, want 0", a)
+	}
+}
+
+// rollingPath is a synthetic rolling profile (invented terrain): two ridges
+// systems over a 300 m plain, with 10 m of clutter on a wooded stretch.
+func rollingPath(n int, lengthKM float64) Path {
+	p := Path{DistKM: make([]float64, n), HeightM: make([]float64, n), ClutterM: make([]float64, n)}
+	for i := range p.DistKM {
+		d := lengthKM * float64(i) / float64(n-1)
+		p.DistKM[i] = d
+		p.HeightM[i] = 300 + 80*math.Sin(2*math.Pi*d/7.3) + 25*math.Sin(2*math.Pi*d/1.1+0.4)
+		if d > lengthKM/3 && d < lengthKM/2 {
+			p.ClutterM[i] = 10
+		}
+	}
+	return p
+}
+
+func BenchmarkTerrainLoss3300(b *testing.B) {
+	p := rollingPath(3300, 33)
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	var m Model = Terrain{}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := m.Loss(p, prm); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkFreeSpaceModel3300(b *testing.B) {
+	p := rollingPath(3300, 33)
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	var m Model = FreeSpace{}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := m.Loss(p, prm); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// FuzzTerrainLoss feeds the model profiles built from arbitrary bytes
+// within physical ranges: it must never panic, and must return finite,
+// non-negative losses for valid input.
+func FuzzTerrainLoss(f *testing.F) {
+	f.Add([]byte{10, 200, 30, 40, 250, 3, 7}, 146.0, 10.0, 2.0, 20.0)
+	f.Add([]byte{0, 0, 0}, 30.0, 0.0, 0.0, 0.1)
+	f.Fuzz(func(t *testing.T, hs []byte, freqMHz, txM, rxM, lengthKM float64) {
+		if len(hs) < 2 || !(freqMHz >= 30 && freqMHz <= 20000) || !(txM >= 0 && txM <= 3000) ||
+			!(rxM >= 0 && rxM <= 3000) || !(lengthKM >= 0.01 && lengthKM <= 500) {
+			return
+		}
+		p := Path{DistKM: make([]float64, len(hs)), HeightM: make([]float64, len(hs))}
+		for i, h := range hs {
+			p.DistKM[i] = lengthKM * float64(i) / float64(len(hs)-1)
+			p.HeightM[i] = 20 * float64(h) // 0–5100 m
+		}
+		r, err := Terrain{}.Loss(p, Params{FreqMHz: freqMHz, TxHeightM: txM, RxHeightM: rxM})
+		if err != nil {
+			t.Fatalf("valid input rejected: %v", err)
+		}
+		for _, v := range []float64{r.FreeSpaceDB, r.ExcessDB, r.PathLossDB, r.Bullington.LbaDB, r.Bullington.LbsDB, r.Bullington.LsphDB} {
+			if math.IsNaN(v) || math.IsInf(v, 0) || (v < 0 && v != r.FreeSpaceDB && v != r.PathLossDB) {
+				t.Fatalf("loss term %v in %+v", v, r)
+			}
+		}
+	})
+}
