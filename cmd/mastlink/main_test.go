@@ -156,3 +156,22 @@ func jsonDiff(at string, a, b any) string {
 	}
 	return ""
 }
+
+func TestNegativePoints(t *testing.T) {
+	cases := []struct{ in, want []string }{
+		{[]string{"elevation", "-48.5,-123.9"}, []string{"elevation", "--", "-48.5,-123.9"}},
+		{[]string{"elevation", "-48.5,-123.9", "-48.4,-123.8", "--format", "json"}, []string{"elevation", "--format", "json", "--", "-48.5,-123.9", "-48.4,-123.8"}},
+		{[]string{"link", "--from", "-48.5,-123.9", "--to", "1,2"}, []string{"link", "--from", "-48.5,-123.9", "--to", "1,2"}},
+		{[]string{"elevation", "--", "-48.5,-123.9"}, []string{"elevation", "--", "-48.5,-123.9"}},
+		{[]string{"horizon", "--height", "-5m"}, []string{"horizon", "--height", "-5m"}},
+	}
+	for _, c := range cases {
+		if got := negativePoints(c.in); strings.Join(got, " ") != strings.Join(c.want, " ") {
+			t.Errorf("negativePoints(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+	out, stderr, code := runCmd(t, "--dem", "../../examples/terrain", "elevation", "-48.5,-123.95", "-48.4466667,-123.9491667", "--format", "csv")
+	if code != 0 || strings.Count(out, "\n") != 3 {
+		t.Errorf("code %d, %q %q", code, out, stderr)
+	}
+}
