@@ -363,7 +363,6 @@ func TestElevationProfileErrors(t *testing.T) {
 		{"elevation: no points", cat(dem, []string{"elevation"}), "requires at least 1 arg"},
 		{"elevation: latitude out of range", cat(dem, []string{"elevation", "91,10"}), "latitude 91 is outside -90 to 90"},
 		{"elevation: not a point", cat(dem, []string{"elevation", "48.5;123"}), "is not LAT,LON"},
-		{"elevation: negative latitude before --", cat(dem, []string{"elevation", "-48.5,-123.95"}), "put -- before points with a negative latitude"},
 		{"elevation: unknown waypoint", cat(dem, wpt, []string{"elevation", "Corvane Peek"}), `closest: "Corvane Peak"`},
 		{"elevation: -o", cat(dem, []string{"-o", filepath.Join(dir, "e.csv"), "elevation", "10,10"}), "--out: elevation writes its table to stdout"},
 		{"profile: no --to", cat(dem, []string{"profile", "--from", "10,10"}), `"to" not set`},
