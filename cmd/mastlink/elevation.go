@@ -39,11 +39,11 @@ func newElevationCmd(g *globals) *cobra.Command {
 interpolated bilinearly between the four surrounding samples of the
 elevation data, and the file it came from.
 
-Points are LAT,LON in decimal degrees or waypoint names from --waypoints;
-put -- before the points when one has a negative latitude. Elevation data
+Points are LAT,LON in decimal degrees (a negative latitude is fine) or
+waypoint names from --waypoints. Elevation data
 comes from --dem or MASTLINK_DEM. A point no file covers is reported at 0 m
 with source "none", and the missing tiles are named on stderr.`,
-		Example: "  mastlink elevation --dem examples/terrain -- -48.5,-123.95 48.2,16.37\n" +
+		Example: "  mastlink elevation --dem examples/terrain -48.5,-123.95 -48.45,-123.95\n" +
 			"  mastlink elevation --dem examples/terrain --waypoints examples/valley/points.gpx \"Corvane Peak\" \"Wethermoss Saddle\"",
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
