@@ -30,7 +30,7 @@ func TestPlanDemo(t *testing.T) {
 	if code != 0 {
 		t.Fatal(code)
 	}
-	golden(t, "plan-demo.json", js)
+	goldenJSON(t, "plan-demo.json", js)
 	m := decodeJSON(t, js)
 	for _, k := range []string{"stations", "links", "exposure", "mast", "warnings"} {
 		if _, ok := m[k]; !ok {
