@@ -59,7 +59,7 @@ func grow(s []float64, n int) []float64 {
 // poles every sample is exact. The ends are exactly the given points.
 //
 // dst's slices are reused: no allocation happens when they are large
-// enough. Where no file covers a sample its height is 0 m and it counts in
+// enough. Profile is safe for concurrent use with one dst per goroutine. Where no file covers a sample its height is 0 m and it counts in
 // NoData (uncovered HGT tiles are added to Missing). An error means invalid
 // coordinates or step, too many samples, or an elevation file that cannot
 // be read.
@@ -124,7 +124,7 @@ func profilePositions(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Pro
 			dst.Lon[i] -= 360
 		}
 	}
-	dst.DistM[n-1] = step * float64(n-1)
+	dst.DistM[n-1] = dst.DistanceM
 	dst.Lat[0], dst.Lon[0] = lat1, normLon(lon1)
 	dst.Lat[n-1], dst.Lon[n-1] = lat2, normLon(lon2)
 }

@@ -374,23 +374,18 @@ func (s *Set) Missing() []string {
 	return names
 }
 
-// WGS84 ellipsoid (NIMA TR8350.2, 3rd ed., 2000, table 3.1).
-const (
-	wgs84A = 6378137.0
-	wgs84F = 1 / 298.257223563
-)
-
 // metresPerDegree returns the length in metres of one degree of latitude
-// and of longitude at latitude lat (degrees) on the WGS84 ellipsoid, from
+// and of longitude at latitude lat (degrees) on the WGS84 ellipsoid
+// (WGS84A, WGS84F), from
 // the meridional and prime-vertical radii of curvature M and N·cos φ
 // (Snyder, Map Projections – A Working Manual, USGS PP 1395, 1987, eqs.
 // 4-18 and 4-20; from memory).
 func metresPerDegree(lat float64) (latM, lonM float64) {
-	e2 := wgs84F * (2 - wgs84F)
+	e2 := WGS84F * (2 - WGS84F)
 	sin, cos := math.Sincos(lat * math.Pi / 180)
 	w := math.Sqrt(1 - e2*sin*sin)
-	m := wgs84A * (1 - e2) / (w * w * w)
-	n := wgs84A / w
+	m := WGS84A * (1 - e2) / (w * w * w)
+	n := WGS84A / w
 	return m * math.Pi / 180, n * math.Abs(cos) * math.Pi / 180
 }
 
