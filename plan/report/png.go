@@ -1,0 +1,392 @@
+package report
+
+import (
+	"fmt"
+	"image"
+	"image/color"
+	"image/draw"
+	"image/png"
+	"io"
+	"math"
+	"strings"
+	"sync"
+
+	"golang.org/x/image/font"
+	"golang.org/x/image/font/gofont/gobold"
+	"golang.org/x/image/font/gofont/goregular"
+	"golang.org/x/image/font/opentype"
+	"golang.org/x/image/math/fixed"
+	"golang.org/x/image/vector"
+)
+
+// ProfilePNG writes the chart that ProfileSVG draws as a PNG image of the
+// chart's size in pixels (DefaultWidthPx × DefaultHeightPx unless WithSize
+// says otherwise), for printing or pasting into a document: the same layout,
+// axes, ticks, options and thinning, rasterised with anti-aliasing (x/image
+// vector) and labelled in the Go fonts (x/image gofont). The image is
+// opaque 8-bit sRGB; a chart of W × H pixels takes about 4·W·H bytes of
+// memory while it is drawn.
+//
+// The data and options are checked as by ProfileSVG: on bad data the error
+// wraps ErrChartData and nothing is written. Write errors from w are
+// returned as they are.
+func ProfilePNG(w io.Writer, distM, elevM []float64, opts ...ProfileOption) error {
+	c, err := newProfileChart(distM, elevM, opts)
+	if err != nil {
+		return err
+	}
+	img, err := rasterProfile(c.layout(distM, elevM), distM)
+	if err != nil {
+		return err
+	}
+	return png.Encode(w, img)
+}
+
+// chartFonts are the faces a raster chart is labelled with. A face is not
+// safe for concurrent use, so each chart opens its own.
+type chartFonts struct {
+	text, title, legend font.Face
+}
+
+// goFonts parses the embedded Go fonts once; a parsed font is safe for
+// concurrent use.
+var goFonts = sync.OnceValues(func() ([2]*opentype.Font, error) {
+	regular, err := opentype.Parse(goregular.TTF)
+	if err != nil {
+		return [2]*opentype.Font{}, err
+	}
+	bold, err := opentype.Parse(gobold.TTF)
+	return [2]*opentype.Font{regular, bold}, err
+})
+
+// openFonts opens the faces of a chart: sizes in pixels (points at 72 dpi),
+// hinted to the pixel grid so small labels stay sharp.
+func openFonts() (*chartFonts, error) {
+	fonts, err := goFonts()
+	if err != nil {
+		return nil, fmt.Errorf("report: reading the built-in Go fonts: %w", err)
+	}
+	face := func(f *opentype.Font, sizePx float64) (font.Face, error) {
+		return opentype.NewFace(f, &opentype.FaceOptions{Size: sizePx, DPI: 72, Hinting: font.HintingFull})
+	}
+	var fs chartFonts
+	if fs.text, err = face(fonts[0], fontSizePx); err != nil {
+		return nil, err
+	}
+	if fs.title, err = face(fonts[1], titleFontSizePx); err != nil {
+		return nil, err
+	}
+	if fs.legend, err = face(fonts[0], legendFontSizePx); err != nil {
+		return nil, err
+	}
+	return &fs, nil
+}
+
+func (fs *chartFonts) close() {
+	fs.text.Close()
+	fs.title.Close()
+	fs.legend.Close()
+}
+
+// canvas is an RGBA image with a rasteriser for anti-aliased shapes.
+type canvas struct {
+	img *image.RGBA
+	r   *vector.Rasterizer
+}
+
+func newCanvas(widthPx, heightPx int) *canvas {
+	return &canvas{img: image.NewRGBA(image.Rect(0, 0, widthPx, heightPx)), r: vector.NewRasterizer(widthPx, heightPx)}
+}
+
+// paint fills the shape that add puts into the rasteriser with col.
+func (cv *canvas) paint(col color.Color, add func(r *vector.Rasterizer)) {
+	b := cv.img.Bounds()
+	cv.r.Reset(b.Dx(), b.Dy())
+	add(cv.r)
+	cv.r.Draw(cv.img, b, image.NewUniform(col), image.Point{})
+}
+
+// polygon adds a closed polygon through pts (x, y pixels).
+func polygon(r *vector.Rasterizer, pts [][2]float64) {
+	r.MoveTo(float32(pts[0][0]), float32(pts[0][1]))
+	for _, p := range pts[1:] {
+		r.LineTo(float32(p[0]), float32(p[1]))
+	}
+	r.ClosePath()
+}
+
+// stroke adds a polyline through pts, widthPx wide, with butt ends and
+// mitre-free joins. Every piece is wound the same way, so where pieces
+// overlap the rasteriser's coverage saturates instead of darkening or
+// cancelling.
+func stroke(r *vector.Rasterizer, pts [][2]float64, widthPx float64) {
+	h := widthPx / 2
+	for i := 1; i < len(pts); i++ {
+		p, q := pts[i-1], pts[i]
+		dx, dy := q[0]-p[0], q[1]-p[1]
+		l := math.Hypot(dx, dy)
+		if l == 0 {
+			continue
+		}
+		nx, ny := -dy/l*h, dx/l*h
+		polygon(r, [][2]float64{{p[0] + nx, p[1] + ny}, {q[0] + nx, q[1] + ny}, {q[0] - nx, q[1] - ny}, {p[0] - nx, p[1] - ny}})
+		if i > 1 {
+			joint(r, p, h)
+		}
+	}
+}
+
+// joint adds a small octagon of radius h around p, wound as stroke's
+// quadrilaterals (clockwise on the screen), to round a join.
+func joint(r *vector.Rasterizer, p [2]float64, h float64) {
+	var pts [][2]float64
+	for k := 0; k < 8; k++ {
+		a := -float64(k) * math.Pi / 4
+		pts = append(pts, [2]float64{p[0] + h*math.Cos(a), p[1] + h*math.Sin(a)})
+	}
+	polygon(r, pts)
+}
+
+// dashes splits a polyline into the pieces that are on in a dash pattern of
+// on and off pixels, measured along the line from its start (which is on).
+func dashes(pts [][2]float64, on, off float64) [][][2]float64 {
+	var out [][][2]float64
+	cur := [][2]float64{pts[0]}
+	isOn, left := true, on // the current state and the length left in it
+	for i := 1; i < len(pts); i++ {
+		p, q := pts[i-1], pts[i]
+		l := math.Hypot(q[0]-p[0], q[1]-p[1])
+		done := 0.0
+		for l-done > left {
+			done += left
+			t := done / l
+			at := [2]float64{p[0] + t*(q[0]-p[0]), p[1] + t*(q[1]-p[1])}
+			if isOn {
+				out = append(out, append(cur, at))
+				cur, left = nil, off
+			} else {
+				cur, left = [][2]float64{at}, on
+			}
+			isOn = !isOn
+		}
+		left -= l - done
+		if isOn {
+			cur = append(cur, q)
+		}
+	}
+	if isOn && len(cur) > 1 {
+		out = append(out, cur)
+	}
+	return out
+}
+
+// crisp moves the centre of an axis-parallel line widthPx wide onto the
+// pixel grid, so a 1 px line covers one row of pixels instead of blurring
+// over two.
+func crisp(v, widthPx float64) float64 {
+	if int(math.Round(widthPx))%2 == 1 {
+		return math.Floor(v) + 0.5
+	}
+	return math.Round(v)
+}
+
+// anchor says where a text is placed relative to its x.
+type anchor int
+
+const (
+	anchorStart anchor = iota
+	anchorMiddle
+	anchorEnd
+)
+
+// text draws s with its baseline at y, placed at x as a says.
+func (cv *canvas) text(face font.Face, col color.Color, x, y float64, a anchor, s string) {
+	s = printable(s)
+	adv := font.MeasureString(face, s)
+	switch a {
+	case anchorMiddle:
+		x -= float64(adv) / 64 / 2
+	case anchorEnd:
+		x -= float64(adv) / 64
+	}
+	d := font.Drawer{Dst: cv.img, Src: image.NewUniform(col), Face: face,
+		Dot: fixed.P(int(math.Round(x)), int(math.Round(y)))}
+	d.DrawString(s)
+}
+
+// textUp draws s reading upwards (turned 90° anticlockwise), centred on y,
+// with its baseline at x.
+func (cv *canvas) textUp(face font.Face, col color.Color, x, y float64, s string) {
+	s = printable(s)
+	m := face.Metrics()
+	asc, desc := m.Ascent.Ceil(), m.Descent.Ceil()
+	adv := font.MeasureString(face, s).Ceil()
+	if adv <= 0 {
+		return
+	}
+	// Draw level into a mask, then copy it turned.
+	level := image.NewAlpha(image.Rect(0, 0, adv, asc+desc))
+	d := font.Drawer{Dst: level, Src: image.Opaque, Face: face, Dot: fixed.P(0, asc)}
+	d.DrawString(s)
+	up := image.NewAlpha(image.Rect(0, 0, asc+desc, adv))
+	for v := 0; v < asc+desc; v++ {
+		for u := 0; u < adv; u++ {
+			up.SetAlpha(v, adv-1-u, level.AlphaAt(u, v))
+		}
+	}
+	x0 := int(math.Round(x)) - asc
+	y0 := int(math.Round(y)) - adv + adv/2
+	draw.DrawMask(cv.img, up.Bounds().Add(image.Pt(x0, y0)), image.NewUniform(col), image.Point{}, up, image.Point{}, draw.Over)
+}
+
+// printable drops control characters, which have no glyphs.
+func printable(s string) string {
+	return strings.Map(func(r rune) rune {
+		if r < 0x20 || r == 0x7f {
+			return -1
+		}
+		return r
+	}, s)
+}
+
+// rgb converts a #rrggbb colour constant.
+func rgb(hex string) color.NRGBA {
+	var c color.NRGBA
+	if _, err := fmt.Sscanf(hex, "#%02x%02x%02x", &c.R, &c.G, &c.B); err != nil {
+		panic("report: bad colour constant " + hex)
+	}
+	c.A = 0xff
+	return c
+}
+
+// rasterProfile draws the chart laid out in l, in the order and with the
+// strokes of renderSVG.
+func rasterProfile(l *profileLayout, distM []float64) (*image.RGBA, error) {
+	fs, err := openFonts()
+	if err != nil {
+		return nil, err
+	}
+	defer fs.close()
+	n := len(distM)
+	cv := newCanvas(int(l.widthPx), int(l.heightPx))
+	draw.Draw(cv.img, cv.img.Bounds(), image.NewUniform(rgb(colourBackground)), image.Point{}, draw.Src)
+	textCol := rgb(colourText)
+	cv.text(fs.title, textCol, l.widthPx/2, titleBaselinePx, anchorMiddle, l.title)
+
+	// Grid.
+	cv.paint(rgb(colourGrid), func(r *vector.Rasterizer) {
+		for _, v := range l.xTicks.values {
+			x := crisp(l.pxTick(v), strokeGridPx)
+			stroke(r, [][2]float64{{x, l.top}, {x, l.bottom}}, strokeGridPx)
+		}
+		for _, v := range l.yTicks.values {
+			y := crisp(l.py(v), strokeGridPx)
+			stroke(r, [][2]float64{{l.left, y}, {l.right, y}}, strokeGridPx)
+		}
+	})
+
+	// Ground: from the (curved) sea-level floor of the chart up to the
+	// terrain and back, filled, then its outline.
+	outline := make([][2]float64, 0, 2*len(l.idx)+1)
+	for _, i := range l.idx {
+		outline = append(outline, [2]float64{l.px(distM[i]), l.py(l.ground[i])})
+	}
+	floor := make([][2]float64, 0, len(l.idx))
+	for j := len(l.idx) - 1; j >= 0; j-- {
+		i := l.idx[j]
+		floor = append(floor, [2]float64{l.px(distM[i]), l.py(l.yLo + l.bulge[i])})
+	}
+	outline = append(outline, floor...)
+	cv.paint(rgb(colourGround), func(r *vector.Rasterizer) { polygon(r, outline) })
+	cv.paint(rgb(colourGroundEdge), func(r *vector.Rasterizer) {
+		stroke(r, append(outline, outline[0]), strokeGroundPx)
+	})
+
+	if l.curve {
+		curve := make([][2]float64, len(floor))
+		for j := range floor {
+			curve[j] = floor[len(floor)-1-j]
+		}
+		cv.paint(rgb(colourCurve), func(r *vector.Rasterizer) {
+			for _, d := range dashes(curve, dashCurvePx[0], dashCurvePx[1]) {
+				stroke(r, d, strokeCurvePx)
+			}
+		})
+	}
+
+	if l.antennas {
+		x0, x1 := l.px(distM[0]), l.px(distM[n-1])
+		cv.paint(rgb(colourMast), func(r *vector.Rasterizer) {
+			stroke(r, [][2]float64{{crisp(x0, strokeMastPx), l.py(l.ground[0])}, {crisp(x0, strokeMastPx), l.py(l.rayFrom)}}, strokeMastPx)
+			stroke(r, [][2]float64{{crisp(x1, strokeMastPx), l.py(l.ground[n-1])}, {crisp(x1, strokeMastPx), l.py(l.rayTo)}}, strokeMastPx)
+		})
+		cv.paint(rgb(colourRay), func(r *vector.Rasterizer) {
+			stroke(r, [][2]float64{{x0, l.py(l.rayFrom)}, {x1, l.py(l.rayTo)}}, strokeRayPx)
+		})
+	}
+
+	// Axes, ticks and labels.
+	cv.paint(rgb(colourAxis), func(r *vector.Rasterizer) {
+		yb, xl := crisp(l.bottom, strokeAxisPx), crisp(l.left, strokeAxisPx)
+		h := strokeAxisPx / 2
+		stroke(r, [][2]float64{{xl - h, yb}, {l.right, yb}}, strokeAxisPx)
+		stroke(r, [][2]float64{{xl, l.top}, {xl, yb + h}}, strokeAxisPx)
+		for _, v := range l.xTicks.values {
+			x := crisp(l.pxTick(v), strokeAxisPx)
+			stroke(r, [][2]float64{{x, yb}, {x, yb + tickLengthPx}}, strokeAxisPx)
+		}
+		for _, v := range l.yTicks.values {
+			y := crisp(l.py(v), strokeAxisPx)
+			stroke(r, [][2]float64{{xl - tickLengthPx, y}, {xl, y}}, strokeAxisPx)
+		}
+	})
+	for _, v := range l.xTicks.values {
+		cv.text(fs.text, textCol, l.pxTick(v), l.bottom+xTickBaselinePx, anchorMiddle, l.xTicks.label(v))
+	}
+	for _, v := range l.yTicks.values {
+		cv.text(fs.text, textCol, l.left-yTickGapPx, l.py(v)+yTickBaselinePx, anchorEnd, l.yTicks.label(v))
+	}
+	cv.text(fs.text, textCol, l.left+l.plotW/2, l.heightPx-xLabelBaselinePx, anchorMiddle, "distance ("+l.nameD+")")
+	cv.textUp(fs.text, textCol, yLabelBaselinePx, l.top+l.plotH/2, "elevation ("+l.nameH+")")
+
+	rasterLegend(cv, l, fs.legend, textCol)
+	return cv.img, nil
+}
+
+// rasterLegend draws the key in the top right corner of the plot area.
+func rasterLegend(cv *canvas, l *profileLayout, face font.Face, textCol color.Color) {
+	bx, by := l.legendX-legendPadPx, l.legendY-legendPadPx
+	box := [][2]float64{{bx, by}, {bx + l.legendBoxW, by}, {bx + l.legendBoxW, by + l.legendBoxH}, {bx, by + l.legendBoxH}}
+	back := rgb(colourBackground)
+	back.A = 0xd9 // 85 % opaque, as the SVG's fill-opacity
+	cv.paint(back, func(r *vector.Rasterizer) { polygon(r, box) })
+	cv.paint(rgb(colourGrid), func(r *vector.Rasterizer) {
+		x0, y0 := crisp(bx, strokeGridPx), crisp(by, strokeGridPx)
+		x1, y1 := crisp(bx+l.legendBoxW, strokeGridPx), crisp(by+l.legendBoxH, strokeGridPx)
+		stroke(r, [][2]float64{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}, {x0, y0}}, strokeGridPx)
+	})
+	for i, e := range l.legend {
+		x, y := l.legendX, l.legendY+legendRowPx*float64(i)
+		ly := crisp(y+legendLineY, 1) // centred on a pixel row
+		line := [][2]float64{{x, ly}, {x + legendSwatchPx, ly}}
+		switch e.kind {
+		case legendGround:
+			sw := [][2]float64{{x, y}, {x + legendSwatchPx, y}, {x + legendSwatchPx, y + legendSwatchH}, {x, y + legendSwatchH}}
+			cv.paint(rgb(colourGround), func(r *vector.Rasterizer) { polygon(r, sw) })
+			edge := make([][2]float64, 0, len(sw)+1)
+			for _, p := range append(sw, sw[0]) {
+				edge = append(edge, [2]float64{crisp(p[0], strokeGroundPx), crisp(p[1], strokeGroundPx)})
+			}
+			cv.paint(rgb(colourGroundEdge), func(r *vector.Rasterizer) { stroke(r, edge, strokeGroundPx) })
+		case legendRay:
+			cv.paint(rgb(colourRay), func(r *vector.Rasterizer) { stroke(r, line, strokeRayPx) })
+		case legendCurve:
+			cv.paint(rgb(colourCurve), func(r *vector.Rasterizer) {
+				for _, d := range dashes(line, dashCurveLegendPx[0], dashCurveLegendPx[1]) {
+					stroke(r, d, strokeCurvePx)
+				}
+			})
+		}
+		cv.text(face, textCol, x+legendTextPx, y+legendBaseline, anchorStart, e.text)
+	}
+}
