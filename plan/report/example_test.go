@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/xml"
 	"fmt"
+	"image/png"
 	"io"
 
 	"github.com/mastlink/mastlink/plan/report"
@@ -47,4 +48,29 @@ func ExampleProfileSVG() {
 	// title: Gorsefold trailhead to Corvane Peak
 	// x-axis-label: distance (km)
 	// y-axis-label: elevation (m)
+}
+
+// ExampleProfilePNG draws the same invented profile as a 1200 × 540 pixel
+// PNG for a printed briefing and reads the size back from the file.
+func ExampleProfilePNG() {
+	distM := []float64{0, 1000, 2000, 3000, 4000, 5000, 6000}
+	elevM := []float64{420, 455, 610, 780, 690, 530, 505}
+	var buf bytes.Buffer
+	err := report.ProfilePNG(&buf, distM, elevM,
+		report.WithTitle("Gorsefold trailhead to Corvane Peak"),
+		report.WithAntennas(2, 15),
+		report.WithEarthBulge(4.0/3),
+		report.WithSize(1200, 540))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	cfg, err := png.DecodeConfig(&buf)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%d × %d px\n", cfg.Width, cfg.Height)
+	// Output:
+	// 1200 × 540 px
 }

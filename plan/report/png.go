@@ -95,31 +95,43 @@ type canvas struct {
 }
 
 func newCanvas(widthPx, heightPx int) *canvas {
-	return &canvas{img: image.NewRGBA(image.Rect(0, 0, widthPx, heightPx)), r: vector.NewRasterizer(widthPx, heightPx)}
+	return &canvas{img: image.NewRGBA(image.Rect(0, 0, widthPx, heightPx)), r: vector.NewRasterizer(1, 1)}
 }
 
-// paint fills the shape that add puts into the rasteriser with col.
-func (cv *canvas) paint(col color.Color, add func(r *vector.Rasterizer)) {
-	b := cv.img.Bounds()
-	cv.r.Reset(b.Dx(), b.Dy())
-	add(cv.r)
-	cv.r.Draw(cv.img, b, image.NewUniform(col), image.Point{})
-}
+// shape is a set of closed polygons (x, y pixels) filled together with the
+// non-zero rule: where polygons wound the same way overlap, the coverage
+// saturates instead of doubling.
+type shape [][][2]float64
 
-// polygon adds a closed polygon through pts (x, y pixels).
-func polygon(r *vector.Rasterizer, pts [][2]float64) {
-	r.MoveTo(float32(pts[0][0]), float32(pts[0][1]))
-	for _, p := range pts[1:] {
-		r.LineTo(float32(p[0]), float32(p[1]))
+// paint fills s with col, anti-aliased, rasterising only its bounding box.
+func (cv *canvas) paint(col color.Color, s shape) {
+	box := image.Rectangle{}
+	for _, poly := range s {
+		for _, p := range poly {
+			box = box.Union(image.Rect(int(math.Floor(p[0])), int(math.Floor(p[1])), int(math.Ceil(p[0]))+1, int(math.Ceil(p[1]))+1))
+		}
 	}
-	r.ClosePath()
+	box = box.Intersect(cv.img.Bounds())
+	if box.Empty() {
+		return
+	}
+	cv.r.Reset(box.Dx(), box.Dy())
+	ox, oy := float64(box.Min.X), float64(box.Min.Y)
+	for _, poly := range s {
+		cv.r.MoveTo(float32(poly[0][0]-ox), float32(poly[0][1]-oy))
+		for _, p := range poly[1:] {
+			cv.r.LineTo(float32(p[0]-ox), float32(p[1]-oy))
+		}
+		cv.r.ClosePath()
+	}
+	cv.r.Draw(cv.img, box, image.NewUniform(col), image.Point{})
 }
 
-// stroke adds a polyline through pts, widthPx wide, with butt ends and
-// mitre-free joins. Every piece is wound the same way, so where pieces
-// overlap the rasteriser's coverage saturates instead of darkening or
-// cancelling.
-func stroke(r *vector.Rasterizer, pts [][2]float64, widthPx float64) {
+// stroke returns a polyline through pts, widthPx wide, with butt ends and
+// rounded joins, as quadrilaterals and octagons all wound clockwise on the
+// screen.
+func stroke(pts [][2]float64, widthPx float64) shape {
+	var s shape
 	h := widthPx / 2
 	for i := 1; i < len(pts); i++ {
 		p, q := pts[i-1], pts[i]
@@ -129,22 +141,32 @@ func stroke(r *vector.Rasterizer, pts [][2]float64, widthPx float64) {
 			continue
 		}
 		nx, ny := -dy/l*h, dx/l*h
-		polygon(r, [][2]float64{{p[0] + nx, p[1] + ny}, {q[0] + nx, q[1] + ny}, {q[0] - nx, q[1] - ny}, {p[0] - nx, p[1] - ny}})
+		s = append(s, [][2]float64{{p[0] + nx, p[1] + ny}, {q[0] + nx, q[1] + ny}, {q[0] - nx, q[1] - ny}, {p[0] - nx, p[1] - ny}})
 		if i > 1 {
-			joint(r, p, h)
+			s = append(s, joint(p, h))
 		}
 	}
+	return s
 }
 
-// joint adds a small octagon of radius h around p, wound as stroke's
-// quadrilaterals (clockwise on the screen), to round a join.
-func joint(r *vector.Rasterizer, p [2]float64, h float64) {
-	var pts [][2]float64
-	for k := 0; k < 8; k++ {
-		a := -float64(k) * math.Pi / 4
-		pts = append(pts, [2]float64{p[0] + h*math.Cos(a), p[1] + h*math.Sin(a)})
+// strokes joins the strokes of several polylines into one shape.
+func strokes(lines [][][2]float64, widthPx float64) shape {
+	var s shape
+	for _, l := range lines {
+		s = append(s, stroke(l, widthPx)...)
 	}
-	polygon(r, pts)
+	return s
+}
+
+// joint is a small octagon of radius h around p, wound as stroke's
+// quadrilaterals, to round a join.
+func joint(p [2]float64, h float64) [][2]float64 {
+	pts := make([][2]float64, 8)
+	for k := range pts {
+		a := -float64(k) * math.Pi / 4
+		pts[k] = [2]float64{p[0] + h*math.Cos(a), p[1] + h*math.Sin(a)}
+	}
+	return pts
 }
 
 // dashes splits a polyline into the pieces that are on in a dash pattern of
@@ -274,16 +296,16 @@ func rasterProfile(l *profileLayout, distM []float64) (*image.RGBA, error) {
 	cv.text(fs.title, textCol, l.widthPx/2, titleBaselinePx, anchorMiddle, l.title)
 
 	// Grid.
-	cv.paint(rgb(colourGrid), func(r *vector.Rasterizer) {
-		for _, v := range l.xTicks.values {
-			x := crisp(l.pxTick(v), strokeGridPx)
-			stroke(r, [][2]float64{{x, l.top}, {x, l.bottom}}, strokeGridPx)
-		}
-		for _, v := range l.yTicks.values {
-			y := crisp(l.py(v), strokeGridPx)
-			stroke(r, [][2]float64{{l.left, y}, {l.right, y}}, strokeGridPx)
-		}
-	})
+	var grid [][][2]float64
+	for _, v := range l.xTicks.values {
+		x := crisp(l.pxTick(v), strokeGridPx)
+		grid = append(grid, [][2]float64{{x, l.top}, {x, l.bottom}})
+	}
+	for _, v := range l.yTicks.values {
+		y := crisp(l.py(v), strokeGridPx)
+		grid = append(grid, [][2]float64{{l.left, y}, {l.right, y}})
+	}
+	cv.paint(rgb(colourGrid), strokes(grid, strokeGridPx))
 
 	// Ground: from the (curved) sea-level floor of the chart up to the
 	// terrain and back, filled, then its outline.
@@ -297,49 +319,40 @@ func rasterProfile(l *profileLayout, distM []float64) (*image.RGBA, error) {
 		floor = append(floor, [2]float64{l.px(distM[i]), l.py(l.yLo + l.bulge[i])})
 	}
 	outline = append(outline, floor...)
-	cv.paint(rgb(colourGround), func(r *vector.Rasterizer) { polygon(r, outline) })
-	cv.paint(rgb(colourGroundEdge), func(r *vector.Rasterizer) {
-		stroke(r, append(outline, outline[0]), strokeGroundPx)
-	})
+	cv.paint(rgb(colourGround), shape{outline})
+	cv.paint(rgb(colourGroundEdge), stroke(append(outline, outline[0]), strokeGroundPx))
 
 	if l.curve {
 		curve := make([][2]float64, len(floor))
 		for j := range floor {
 			curve[j] = floor[len(floor)-1-j]
 		}
-		cv.paint(rgb(colourCurve), func(r *vector.Rasterizer) {
-			for _, d := range dashes(curve, dashCurvePx[0], dashCurvePx[1]) {
-				stroke(r, d, strokeCurvePx)
-			}
-		})
+		cv.paint(rgb(colourCurve), strokes(dashes(curve, dashCurvePx[0], dashCurvePx[1]), strokeCurvePx))
 	}
 
 	if l.antennas {
 		x0, x1 := l.px(distM[0]), l.px(distM[n-1])
-		cv.paint(rgb(colourMast), func(r *vector.Rasterizer) {
-			stroke(r, [][2]float64{{crisp(x0, strokeMastPx), l.py(l.ground[0])}, {crisp(x0, strokeMastPx), l.py(l.rayFrom)}}, strokeMastPx)
-			stroke(r, [][2]float64{{crisp(x1, strokeMastPx), l.py(l.ground[n-1])}, {crisp(x1, strokeMastPx), l.py(l.rayTo)}}, strokeMastPx)
-		})
-		cv.paint(rgb(colourRay), func(r *vector.Rasterizer) {
-			stroke(r, [][2]float64{{x0, l.py(l.rayFrom)}, {x1, l.py(l.rayTo)}}, strokeRayPx)
-		})
+		mx0, mx1 := crisp(x0, strokeMastPx), crisp(x1, strokeMastPx)
+		cv.paint(rgb(colourMast), strokes([][][2]float64{
+			{{mx0, l.py(l.ground[0])}, {mx0, l.py(l.rayFrom)}},
+			{{mx1, l.py(l.ground[n-1])}, {mx1, l.py(l.rayTo)}},
+		}, strokeMastPx))
+		cv.paint(rgb(colourRay), stroke([][2]float64{{x0, l.py(l.rayFrom)}, {x1, l.py(l.rayTo)}}, strokeRayPx))
 	}
 
 	// Axes, ticks and labels.
-	cv.paint(rgb(colourAxis), func(r *vector.Rasterizer) {
-		yb, xl := crisp(l.bottom, strokeAxisPx), crisp(l.left, strokeAxisPx)
-		h := strokeAxisPx / 2
-		stroke(r, [][2]float64{{xl - h, yb}, {l.right, yb}}, strokeAxisPx)
-		stroke(r, [][2]float64{{xl, l.top}, {xl, yb + h}}, strokeAxisPx)
-		for _, v := range l.xTicks.values {
-			x := crisp(l.pxTick(v), strokeAxisPx)
-			stroke(r, [][2]float64{{x, yb}, {x, yb + tickLengthPx}}, strokeAxisPx)
-		}
-		for _, v := range l.yTicks.values {
-			y := crisp(l.py(v), strokeAxisPx)
-			stroke(r, [][2]float64{{xl - tickLengthPx, y}, {xl, y}}, strokeAxisPx)
-		}
-	})
+	yb, xl := crisp(l.bottom, strokeAxisPx), crisp(l.left, strokeAxisPx)
+	h := strokeAxisPx / 2
+	axes := [][][2]float64{{{xl - h, yb}, {l.right, yb}}, {{xl, l.top}, {xl, yb + h}}}
+	for _, v := range l.xTicks.values {
+		x := crisp(l.pxTick(v), strokeAxisPx)
+		axes = append(axes, [][2]float64{{x, yb}, {x, yb + tickLengthPx}})
+	}
+	for _, v := range l.yTicks.values {
+		y := crisp(l.py(v), strokeAxisPx)
+		axes = append(axes, [][2]float64{{xl - tickLengthPx, y}, {xl, y}})
+	}
+	cv.paint(rgb(colourAxis), strokes(axes, strokeAxisPx))
 	for _, v := range l.xTicks.values {
 		cv.text(fs.text, textCol, l.pxTick(v), l.bottom+xTickBaselinePx, anchorMiddle, l.xTicks.label(v))
 	}
@@ -359,12 +372,10 @@ func rasterLegend(cv *canvas, l *profileLayout, face font.Face, textCol color.Co
 	box := [][2]float64{{bx, by}, {bx + l.legendBoxW, by}, {bx + l.legendBoxW, by + l.legendBoxH}, {bx, by + l.legendBoxH}}
 	back := rgb(colourBackground)
 	back.A = 0xd9 // 85 % opaque, as the SVG's fill-opacity
-	cv.paint(back, func(r *vector.Rasterizer) { polygon(r, box) })
-	cv.paint(rgb(colourGrid), func(r *vector.Rasterizer) {
-		x0, y0 := crisp(bx, strokeGridPx), crisp(by, strokeGridPx)
-		x1, y1 := crisp(bx+l.legendBoxW, strokeGridPx), crisp(by+l.legendBoxH, strokeGridPx)
-		stroke(r, [][2]float64{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}, {x0, y0}}, strokeGridPx)
-	})
+	cv.paint(back, shape{box})
+	x0, y0 := crisp(bx, strokeGridPx), crisp(by, strokeGridPx)
+	x1, y1 := crisp(bx+l.legendBoxW, strokeGridPx), crisp(by+l.legendBoxH, strokeGridPx)
+	cv.paint(rgb(colourGrid), stroke([][2]float64{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}, {x0, y0}}, strokeGridPx))
 	for i, e := range l.legend {
 		x, y := l.legendX, l.legendY+legendRowPx*float64(i)
 		ly := crisp(y+legendLineY, 1) // centred on a pixel row
@@ -372,20 +383,16 @@ func rasterLegend(cv *canvas, l *profileLayout, face font.Face, textCol color.Co
 		switch e.kind {
 		case legendGround:
 			sw := [][2]float64{{x, y}, {x + legendSwatchPx, y}, {x + legendSwatchPx, y + legendSwatchH}, {x, y + legendSwatchH}}
-			cv.paint(rgb(colourGround), func(r *vector.Rasterizer) { polygon(r, sw) })
+			cv.paint(rgb(colourGround), shape{sw})
 			edge := make([][2]float64, 0, len(sw)+1)
 			for _, p := range append(sw, sw[0]) {
 				edge = append(edge, [2]float64{crisp(p[0], strokeGroundPx), crisp(p[1], strokeGroundPx)})
 			}
-			cv.paint(rgb(colourGroundEdge), func(r *vector.Rasterizer) { stroke(r, edge, strokeGroundPx) })
+			cv.paint(rgb(colourGroundEdge), stroke(edge, strokeGroundPx))
 		case legendRay:
-			cv.paint(rgb(colourRay), func(r *vector.Rasterizer) { stroke(r, line, strokeRayPx) })
+			cv.paint(rgb(colourRay), stroke(line, strokeRayPx))
 		case legendCurve:
-			cv.paint(rgb(colourCurve), func(r *vector.Rasterizer) {
-				for _, d := range dashes(line, dashCurveLegendPx[0], dashCurveLegendPx[1]) {
-					stroke(r, d, strokeCurvePx)
-				}
-			})
+			cv.paint(rgb(colourCurve), strokes(dashes(line, dashCurveLegendPx[0], dashCurveLegendPx[1]), strokeCurvePx))
 		}
 		cv.text(face, textCol, x+legendTextPx, y+legendBaseline, anchorStart, e.text)
 	}

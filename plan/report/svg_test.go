@@ -299,7 +299,9 @@ func TestProfileSVGThinning(t *testing.T) {
 	}
 }
 
-func TestProfileSVGErrors(t *testing.T) {
+// TestProfileErrors: both renderers refuse the same bad data and options
+// and write nothing.
+func TestProfileErrors(t *testing.T) {
 	d, h := flat(10, 1000, 10)
 	dec := append([]float64(nil), d...)
 	dec[5] = dec[3]
@@ -320,20 +322,26 @@ func TestProfileSVGErrors(t *testing.T) {
 		{"negative mast", d, h, []ProfileOption{WithAntennas(-1, 3)}, "antenna heights"},
 		{"bad k", d, h, []ProfileOption{WithEarthBulge(-1)}, "k-factor"},
 	}
-	for _, c := range cases {
-		t.Run(c.name, func(t *testing.T) {
-			var buf bytes.Buffer
-			err := ProfileSVG(&buf, c.d, c.h, c.opts...)
-			if !errors.Is(err, ErrChartData) {
-				t.Fatalf("error %v does not wrap ErrChartData", err)
-			}
-			if !strings.Contains(err.Error(), c.msg) {
-				t.Errorf("error %q lacks %q", err, c.msg)
-			}
-			if buf.Len() != 0 {
-				t.Errorf("wrote %d bytes despite the error", buf.Len())
-			}
-		})
+	renderers := []struct {
+		name   string
+		render func(io.Writer, []float64, []float64, ...ProfileOption) error
+	}{{"svg", ProfileSVG}, {"png", ProfilePNG}}
+	for _, r := range renderers {
+		for _, c := range cases {
+			t.Run(r.name+"/"+c.name, func(t *testing.T) {
+				var buf bytes.Buffer
+				err := r.render(&buf, c.d, c.h, c.opts...)
+				if !errors.Is(err, ErrChartData) {
+					t.Fatalf("error %v does not wrap ErrChartData", err)
+				}
+				if !strings.Contains(err.Error(), c.msg) {
+					t.Errorf("error %q lacks %q", err, c.msg)
+				}
+				if buf.Len() != 0 {
+					t.Errorf("wrote %d bytes despite the error", buf.Len())
+				}
+			})
+		}
 	}
 }
 
