@@ -347,6 +347,10 @@ func TestElevationProfileErrors(t *testing.T) {
 	if err := os.WriteFile(gpxAsCSV, data, 0o644); err != nil {
 		t.Fatal(err)
 	}
+	gpxAsPNG := filepath.Join(dir, "points.png")
+	if err := os.WriteFile(gpxAsPNG, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
 	dem, wpt := []string{"--dem", exampleTerrain}, []string{"--waypoints", examplePoints}
 	cat := func(parts ...[]string) []string {
 		var out []string
@@ -369,9 +373,10 @@ func TestElevationProfileErrors(t *testing.T) {
 		{"profile: bad --from", cat(dem, []string{"profile", "--from", "1,2,3", "--to", "10,10"}), "--from:"},
 		{"profile: unknown waypoint", cat(dem, wpt, []string{"profile", "--from", "Corvane Peak", "--to", "Wethermos Sadle"}), `--to: unknown waypoint "Wethermos Sadle"`},
 		{"profile: waypoint without --waypoints", cat(dem, []string{"profile", "--from", "Corvane Peak", "--to", "10,10"}), "give its GPX file with --waypoints"},
-		{"profile: bad -o extension", cat(dem, []string{"-o", filepath.Join(dir, "p.png"), "profile", "--from", "10,10", "--to", "10,11"}), "--out: " + filepath.Join(dir, "p.png") + ": cannot tell the format"},
+		{"profile: bad -o extension", cat(dem, []string{"-o", filepath.Join(dir, "p.jpg"), "profile", "--from", "10,10", "--to", "10,11"}), "--out: " + filepath.Join(dir, "p.jpg") + ": cannot tell the format"},
 		{"profile: -o is the --waypoints file", cat(dem, []string{"-o", examplePoints}, wpt, []string{"profile", "--from", "Corvane Peak", "--to", "Wethermoss Saddle"}), "is an input of this run"},
 		{"profile: -o is the --waypoints file, csv name", cat(dem, []string{"-o", gpxAsCSV, "--waypoints", gpxAsCSV, "profile", "--from", "Corvane Peak", "--to", "Wethermoss Saddle"}), "is an input of this run"},
+		{"profile: -o is the --waypoints file, png name", cat(dem, []string{"-o", gpxAsPNG, "--waypoints", gpxAsPNG, "profile", "--from", "Corvane Peak", "--to", "Wethermoss Saddle"}), "is an input of this run"},
 		{"profile: zero step", cat(dem, []string{"profile", "--from", "10,10", "--to", "10,11", "--step", "0"}), "--step: give a spacing above 0 m"},
 		{"profile: step without unit sense", cat(dem, []string{"profile", "--from", "10,10", "--to", "10,11", "--step", "5 parsecs"}), "--step:"},
 		{"profile: same point", cat(dem, []string{"profile", "--from", "10,10", "--to", "10,10"}), "same point"},
@@ -394,12 +399,13 @@ func TestElevationProfileErrors(t *testing.T) {
 			}
 		})
 	}
-	after, err := os.ReadFile(gpxAsCSV)
-	if err != nil || !bytes.Equal(after, data) {
-		t.Errorf("the --waypoints file was changed (err %v)", err)
+	for _, f := range []string{gpxAsCSV, gpxAsPNG} {
+		after, err := os.ReadFile(f)
+		if err != nil || !bytes.Equal(after, data) {
+			t.Errorf("the --waypoints file %s was changed (err %v)", f, err)
+		}
 	}
-	after, err = os.ReadFile(examplePoints)
-	if err != nil || !bytes.Equal(after, data) {
+	if after, err := os.ReadFile(examplePoints); err != nil || !bytes.Equal(after, data) {
 		t.Errorf("examples/valley/points.gpx was changed (err %v)", err)
 	}
 }

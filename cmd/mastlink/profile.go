@@ -57,7 +57,7 @@ const profileTableRows = 25
 func newProfileCmd(g *globals) *cobra.Command {
 	o := &profileOptions{}
 	cmd := &cobra.Command{
-		Use:   "profile --from P --to P [--step L] [-o F.csv|F.svg]",
+		Use:   "profile --from P --to P [--step L] [-o F.csv|F.svg|F.png]",
 		Short: "Terrain along the path between two points",
 		Long: `The ground along the WGS84 geodesic (shortest path on the ellipsoid, Karney's
 algorithm) from --from to --to: its length, the bearings at both ends, and
@@ -67,9 +67,10 @@ spacing), interpolated bilinearly between the data's samples.
 Text output is a summary with every Nth sample; --format csv or json gives
 every sample on stdout. -o FILE.csv writes the samples as CSV (distance_m,
 lat, lon, elevation_m; read back by mastlink link --profile), -o FILE.svg a
-chart. With --height or --to-height the chart also shows the masts, the
-straight line of sight between their tops, and the terrain raised by the
-earth bulge for --k.
+chart (vector, for the web or further editing), -o FILE.png the same chart
+as a picture to print or put in a briefing. With --height or --to-height the
+chart also shows the masts, the straight line of sight between their tops,
+and the terrain raised by the earth bulge for --k.
 
 Points are LAT,LON in decimal degrees or waypoint names from --waypoints.
 Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
@@ -77,7 +78,7 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 		Example: "  mastlink profile --dem examples/terrain --waypoints examples/valley/points.gpx \\\n" +
 			"    --from \"Wethermoss Saddle\" --to \"Corvane Peak\"\n" +
 			"  mastlink profile --dem examples/terrain --from -48.535,-123.963 --to -48.4467,-123.9492 \\\n" +
-			"    --height 9m --to-height 20m -o saddle-peak.svg",
+			"    --height 9m --to-height 20m -o saddle-peak.png",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runProfile(g, o)
@@ -87,9 +88,9 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 	f.StringVar(&o.from, "from", "", "start of the path: LAT,LON or waypoint (required)")
 	f.StringVar(&o.to, "to", "", "end of the path: LAT,LON or waypoint (required)")
 	f.StringVar(&o.step, "step", "", "sample spacing [m] (default: the elevation data's spacing, about 90 m for 3″ SRTM)")
-	f.StringVar(&o.height, "height", "", "antenna height above ground at --from, drawn on an SVG chart [m]")
-	f.StringVar(&o.toHeight, "to-height", "", "antenna height above ground at --to, drawn on an SVG chart [m]")
-	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor for the earth bulge on an SVG chart with antennas")
+	f.StringVar(&o.height, "height", "", "antenna height above ground at --from, drawn on a chart (-o F.svg or F.png) [m]")
+	f.StringVar(&o.toHeight, "to-height", "", "antenna height above ground at --to, drawn on a chart (-o F.svg or F.png) [m]")
+	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor for the earth bulge on a chart with antennas")
 	addWaypointsFlag(cmd, &o.points)
 	_ = cmd.MarkFlagRequired("from")
 	_ = cmd.MarkFlagRequired("to")
@@ -103,9 +104,9 @@ func runProfile(g *globals, o *profileOptions) error {
 			return err
 		}
 		switch extension(g.out) {
-		case "csv", "svg":
+		case "csv", "svg", "png":
 		default:
-			return usagef("--out: %s: cannot tell the format from the extension; use .csv for the samples or .svg for a chart", g.out)
+			return usagef("--out: %s: cannot tell the format from the extension; use .csv for the samples, .svg or .png for a chart", g.out)
 		}
 	}
 	var stepM float64
@@ -174,12 +175,16 @@ func runProfile(g *globals, o *profileOptions) error {
 
 	if g.out != "" {
 		err := renderTo(g.out, inputs, func(w io.Writer) error {
-			if extension(g.out) == "csv" {
+			ext := extension(g.out)
+			if ext == "csv" {
 				return plan.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM)
 			}
 			opts := append([]report.ProfileOption{report.WithTitle(fmt.Sprintf("Terrain from %s to %s", fromName, toName))}, chartOpts...)
 			if g.imperial() {
 				opts = append(opts, report.WithImperial())
+			}
+			if ext == "png" {
+				return report.ProfilePNG(w, p.DistM, p.ElevM, opts...)
 			}
 			return report.ProfileSVG(w, p.DistM, p.ElevM, opts...)
 		})

@@ -5,6 +5,8 @@ import (
 	"encoding/json"
 	"encoding/xml"
 	"fmt"
+	"image"
+	"image/png"
 	"io"
 	"math"
 	"os"
@@ -322,6 +324,87 @@ func TestProfileSVG(t *testing.T) {
 			}
 		})
 	}
+}
+
+// TestProfilePNG: -o F.png writes a PNG of the chart's size, leaves no
+// temporary file, and draws this path's ground: along the path, where one
+// sample is clearly higher than another its ground reaches higher in the
+// picture.
+func TestProfilePNG(t *testing.T) {
+	args := []string{"--waypoints", examplePoints, "--from", "Wethermoss Saddle", "--to", "Corvane Peak"}
+	p := runProfileJSON(t, append([]string{"--dem", exampleTerrain}, args...)...)
+	cases := []struct {
+		name  string
+		extra []string
+	}{
+		{"metric", nil},
+		{"imperial with masts", []string{"--units", "imperial", "profile", "--height", "9m", "--to-height", "20m"}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			dir := t.TempDir()
+			file := filepath.Join(dir, "chart.png")
+			cmdArgs := []string{"--dem", exampleTerrain, "-o", file}
+			if c.extra != nil {
+				cmdArgs = append(cmdArgs, c.extra...)
+			} else {
+				cmdArgs = append(cmdArgs, "profile")
+			}
+			_, stderr, code := runCmd(t, append(cmdArgs, args...)...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, stderr)
+			}
+			f, err := os.Open(file)
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer f.Close()
+			img, err := png.Decode(f)
+			if err != nil {
+				t.Fatalf("not a PNG: %v", err)
+			}
+			if b := img.Bounds(); b.Dx() != 800 || b.Dy() != 360 { // report.DefaultWidthPx × DefaultHeightPx
+				t.Errorf("image %v, want 800 × 360 px", b)
+			}
+			if entries, _ := os.ReadDir(dir); len(entries) != 1 {
+				t.Errorf("%d files in the output directory, want only the chart", len(entries))
+			}
+			// Plot area 76–776 px across and from 48 px down (the chart's
+			// margins); columns left of the legend box only.
+			n := len(p.Samples)
+			type col struct {
+				elevM float64
+				topPx int
+			}
+			var cols []col
+			for _, frac := range []float64{0.05, 0.2, 0.35, 0.5, 0.6, 0.7} {
+				s := p.Samples[int(frac*float64(n-1))]
+				x := 76 + int(s.DistanceM/p.DistanceM*700)
+				cols = append(cols, col{s.ElevationM, groundTopPx(img, x, 49, 306)})
+			}
+			for i := range cols {
+				for j := range cols {
+					if cols[i].elevM > cols[j].elevM+100 && cols[i].topPx >= cols[j].topPx {
+						t.Errorf("ground of %.0f m drawn from row %d, not above ground of %.0f m from row %d",
+							cols[i].elevM, cols[i].topPx, cols[j].elevM, cols[j].topPx)
+					}
+				}
+			}
+		})
+	}
+}
+
+// groundTopPx is the first row from y0 to y1 in column x with the chart's
+// earth-coloured ground (red well above blue, unlike the greys, the text
+// and the blue line of sight), or y1.
+func groundTopPx(img image.Image, x, y0, y1 int) int {
+	for y := y0; y < y1; y++ {
+		r, _, b, _ := img.At(x, y).RGBA()
+		if int(r>>8)-int(b>>8) > 20 {
+			return y
+		}
+	}
+	return y1
 }
 
 // TestProfileJSONFields: the field names scripts rely on (DESIGN.md).
