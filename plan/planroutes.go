@@ -126,18 +126,3 @@ func EvaluatePlanSites(ctx context.Context, p *Plan, env *Env, progress Progress
 	}
 	return r, nil
 }
-
-// AddRoutesAndSites evaluates the plan's routes and candidate sites (see
-// EvaluatePlanRoutes and EvaluatePlanSites) into res.
-func AddRoutesAndSites(ctx context.Context, p *Plan, env *Env, res *PlanResult, progress Progress) error {
-	routes, err := EvaluatePlanRoutes(ctx, p, env, progress)
-	if err != nil {
-		return err
-	}
-	sites, err := EvaluatePlanSites(ctx, p, env, progress)
-	if err != nil {
-		return err
-	}
-	res.Routes, res.Sites = routes, sites
-	return nil
-}

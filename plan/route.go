@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 	"time"
 
 	"github.com/mastlink/mastlink/propagation"
@@ -394,4 +395,24 @@ func (r *RouteResult) summarise(legs []targetLegs, window float64) {
 			}
 		}
 	}
+}
+
+// Piece returns the track between fromM and toM metres along it: the
+// positions at both distances and the track's own points between them, so
+// a map shows the walked line rather than the checked points. Distances
+// are clamped to the track; fromM > toM gives an empty line.
+func (r *RouteResult) Piece(fromM, toM float64) orb.LineString {
+	if r.line == nil || fromM > toM {
+		return nil
+	}
+	t := r.line
+	lat, lon, _ := t.at(fromM)
+	out := orb.LineString{{lon, lat}}
+	for i := sort.SearchFloat64s(t.cumM, fromM); i < len(t.cumM) && t.cumM[i] < toM; i++ {
+		if t.cumM[i] > fromM {
+			out = append(out, t.points[i].Pos)
+		}
+	}
+	lat, lon, _ = t.at(toM)
+	return append(out, orb.Point{lon, lat})
 }

@@ -70,6 +70,9 @@ func runPlan(ctx context.Context, g *globals, path string) error {
 	if err != nil {
 		return err
 	}
+	if err := addPlanRoutesAndSites(ctx, g, p, env, res); err != nil {
+		return err
+	}
 	if env.Terrain != nil {
 		if m := env.Terrain.Missing(); len(m) > 0 {
 			w := fmt.Sprintf("no elevation data for %s: the ground there is taken as 0 m; obtain these tiles and add them to %s:%d (terrain)", strings.Join(m, ", "), path, p.TerrainAt)
@@ -172,6 +175,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	if res.Mast != nil {
 		renderMastText(w, res.Mast, im)
 	}
+	renderPlanRoutesAndSites(w, res, im)
 	fmt.Fprintln(w, "RF exposure (keep people this far from the mast foot while transmitting)")
 	t := newTable(w)
 	t.row("  station", "MHz", "EIRP", "public", "operators", "limits")
