@@ -182,6 +182,9 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	}
 	n := sampleCount(length, spacing)
 	nt := len(legs)
+	if n*nt > MaxRoutePoints {
+		return nil, fmt.Errorf("a %.0f m track at a %g m spacing with %d targets needs %d paths (limit %d): use a longer spacing", length, spacing, nt, n*nt, MaxRoutePoints)
+	}
 	res := &RouteResult{
 		Name: req.Track.Name, Walker: req.Walker.Name, SpacingM: spacing, NeededMarginDB: req.NeededMarginDB,
 		LengthM: length, Points: make([]RoutePoint, n), Paths: n * nt, line: line,
@@ -192,45 +195,44 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 		lat, lon, _ := line.at(d)
 		res.Points[k] = RoutePoint{DistanceM: d, Lat: lat, Lon: lon, MarginsDB: margins[k*nt : (k+1)*nt : (k+1)*nt]}
 	}
-	var smooth, measured int64
-	counts := make([]int32, n) // samples without elevation data, per point (summed after)
-	need := req.NeededMarginDB
-	err = runParallel(ctx, n, progress, func(g *Geometry, i int) error {
+	// One job per point and target, target by target: consecutive jobs
+	// then follow nearly the same path, so the tile rows they read stay in
+	// the processor's cache.
+	smooth := make([]bool, n*nt)
+	err = runParallel(ctx, n*nt, progress, func(g *Geometry, job int) error {
+		t, i := job/n, job%n
 		p := &res.Points[i]
-		pos := orb.Point{p.Lon, p.Lat}
-		worst := math.Inf(1)
 		var buf [2]float64
-		for t := range legs {
-			tl := &legs[t]
-			m, err := e.nearMargins(g, pos, tl, req.Walker.Antenna.HeightM, buf[:])
-			if err != nil {
-				return fmt.Errorf("route point at %.0f m: %w", p.DistanceM, err)
-			}
-			if t == 0 {
-				p.ElevationM = g.Profile.ElevM[0]
-			}
-			if g.Source == "smooth earth" {
-				counts[i]++
-			}
-			p.MarginsDB[t] = m
-			if !tl.target.Optional {
-				worst = math.Min(worst, m)
-			}
+		m, err := e.nearMargins(g, orb.Point{p.Lon, p.Lat}, &legs[t], req.Walker.Antenna.HeightM, buf[:])
+		if err != nil {
+			return fmt.Errorf("route point at %.0f m: %w", p.DistanceM, err)
 		}
-		p.WorstMarginDB = worst
-		p.Covered = worst >= need
+		if t == 0 {
+			p.ElevationM = g.Profile.ElevM[0]
+		}
+		smooth[job] = g.Source == "smooth earth"
+		p.MarginsDB[t] = m
 		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
-	for _, c := range counts {
-		smooth += int64(c)
+	res.Terrain = "smooth earth"
+	for _, s := range smooth {
+		if !s {
+			res.Terrain = "terrain"
+			break
+		}
 	}
-	measured = int64(n * nt)
-	res.Terrain = "terrain"
-	if smooth == measured {
-		res.Terrain = "smooth earth"
+	for i := range res.Points {
+		p := &res.Points[i]
+		p.WorstMarginDB = math.Inf(1)
+		for t, m := range p.MarginsDB {
+			if !legs[t].target.Optional {
+				p.WorstMarginDB = math.Min(p.WorstMarginDB, m)
+			}
+		}
+		p.Covered = p.WorstMarginDB >= req.NeededMarginDB
 	}
 	res.summarise(legs, window)
 	return res, nil
