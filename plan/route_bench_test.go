@@ -107,3 +107,25 @@ func BenchmarkRoute1s(b *testing.B) {
 	b.ReportMetric(float64(paths), "paths/op")
 	b.ReportMetric(float64(paths)*float64(b.N)/b.Elapsed().Seconds(), "paths/s")
 }
+
+// BenchmarkRankSitesDemo ranks the example's five candidate sites against
+// its six targets and stations, with the plan's 10 heights × 4 cables.
+func BenchmarkRankSitesDemo(b *testing.B) {
+	p, env := demoPlan(b)
+	demoSites(b, p, env, p.Mast) // load the tiles outside the timing
+	b.ReportAllocs()
+	for b.Loop() {
+		demoSites(b, p, env, p.Mast)
+	}
+}
+
+// BenchmarkRouteDemo checks the example hike (282 points, six targets)
+// over the example's 3″ terrain.
+func BenchmarkRouteDemo(b *testing.B) {
+	p, env := demoPlan(b)
+	demoRoute(b, p, env)
+	b.ReportAllocs()
+	for b.Loop() {
+		demoRoute(b, p, env)
+	}
+}
