@@ -171,7 +171,7 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 		fmt.Fprintln(w, "  Dead stretches (some required target out of reach):")
 		for _, gp := range r.Gaps {
 			fmt.Fprintf(w, "    %s to %s (%s): %s\n", plan.FormatLength(gp.StartM, im), plan.FormatLength(gp.EndM, im),
-				plan.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, ", "))
+				plan.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, "; "))
 		}
 	}
 	if len(r.BestSpots) > 0 {
@@ -287,7 +287,7 @@ func writeRouteGPX(path string, inputs []string, track plan.Track, r *plan.Route
 			d    float64
 			desc string
 		}{
-			{fmt.Sprintf("Gap %d start", i+1), gp.StartM, fmt.Sprintf("coverage lost for %.1f km: %s out of reach (worst margin %+.1f dB)", gp.LengthM/1000, strings.Join(gp.Missing, ", "), gp.WorstMarginDB)},
+			{fmt.Sprintf("Gap %d start", i+1), gp.StartM, fmt.Sprintf("coverage lost for %.1f km: %s out of reach (worst margin %+.1f dB)", gp.LengthM/1000, strings.Join(gp.Missing, "; "), gp.WorstMarginDB)},
 			{fmt.Sprintf("Gap %d end", i+1), gp.EndM, fmt.Sprintf("coverage back after %.1f km", gp.LengthM/1000)},
 		} {
 			lat, lon, tm := r.PositionAt(end.d)
