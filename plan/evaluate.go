@@ -3,7 +3,6 @@ package plan
 import (
 	"context"
 	"fmt"
-	"math"
 	"sort"
 
 	"github.com/mastlink/mastlink/propagation"
@@ -222,15 +221,4 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 		return StationExposure{}, fmt.Errorf("no transmit frequency: give the plan a frequency")
 	}
 	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), ExposureReport: best}, nil
-}
-
-// worstMargin returns the smallest margin over links, +Inf for none.
-func worstMargin(links []LinkResult) float64 {
-	w := math.Inf(1)
-	for _, l := range links {
-		if !l.Optional && l.MarginDB < w {
-			w = l.MarginDB
-		}
-	}
-	return w
 }

@@ -41,7 +41,7 @@ func TestReadExamplePlan(t *testing.T) {
 	if got := p.Require.NeededMarginDB(); got != 10 {
 		t.Errorf("needed margin %v", got)
 	}
-	if p.Mast == nil || len(p.Mast.Cables) != 4 || p.Mast.Heights.Len() != 10 || p.Mast.RunM != 10 {
+	if p.Mast == nil || len(p.Mast.Cables) != 4 || p.Mast.Heights.Len() != 11 || p.Mast.RunM != 10 {
 		t.Errorf("mast = %+v", p.Mast)
 	}
 }

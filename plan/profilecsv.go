@@ -142,3 +142,45 @@ func csvErr(name string, err error) error {
 	}
 	return fmt.Errorf("%w: %s: %v", ErrProfileCSV, name, err)
 }
+
+// ProfileCSVHeader is the header row WriteProfileCSV writes.
+var ProfileCSVHeader = []string{"distance_m", "lat", "lon", "elevation_m"}
+
+// WriteProfileCSV writes a terrain profile as CSV (RFC 4180) with the header
+// distance_m,lat,lon,elevation_m and one row per sample: distance along the
+// path and ground height in metres with 2 decimals, latitude and longitude
+// in decimal degrees (WGS84) with 7 decimals (about 1 cm). ReadProfileCSV
+// reads it back (`mastlink link --profile`). The four slices must have the
+// same length, at least 2, and finite values; otherwise nothing is written
+// and the error wraps ErrProfileCSV.
+func WriteProfileCSV(w io.Writer, distM, lat, lon, elevM []float64) error {
+	n := len(distM)
+	if len(lat) != n || len(lon) != n || len(elevM) != n {
+		return fmt.Errorf("%w: %d distances, %d latitudes, %d longitudes and %d heights: give one of each per sample", ErrProfileCSV, n, len(lat), len(lon), len(elevM))
+	}
+	if n < 2 {
+		return fmt.Errorf("%w: a profile needs at least two samples (the two ends), got %d", ErrProfileCSV, n)
+	}
+	rows := make([][]string, n)
+	for i := range distM {
+		for _, v := range []float64{distM[i], lat[i], lon[i], elevM[i]} {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return fmt.Errorf("%w: sample %d has a value that is not a finite number", ErrProfileCSV, i)
+			}
+		}
+		rows[i] = []string{
+			strconv.FormatFloat(distM[i], 'f', 2, 64),
+			strconv.FormatFloat(lat[i], 'f', 7, 64),
+			strconv.FormatFloat(lon[i], 'f', 7, 64),
+			strconv.FormatFloat(elevM[i], 'f', 2, 64),
+		}
+	}
+	cw := csv.NewWriter(w)
+	if err := cw.Write(ProfileCSVHeader); err != nil {
+		return err
+	}
+	if err := cw.WriteAll(rows); err != nil {
+		return err
+	}
+	return cw.Error()
+}

@@ -65,3 +65,58 @@ func FuzzDecodeProfileCSV(f *testing.F) {
 		}
 	})
 }
+
+// TestWriteProfileCSVRoundTrip writes a profile and reads it back with
+// DecodeProfileCSV: distances and heights survive to the 1 cm written.
+func TestWriteProfileCSVRoundTrip(t *testing.T) {
+	cases := []struct {
+		name  string
+		distM []float64
+		elevM []float64
+		tolM  float64 // 2 decimals written: half a centimetre
+	}{
+		{"two samples", []float64{0, 1234.5678}, []float64{12.345, -3.2}, 0.005},
+		{"valley", []float64{0, 92.61, 185.22, 277.83, 370.44}, []float64{1729.04, 1650.5, 1201.26, 880, 1011.01}, 0.005},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			lat := make([]float64, len(c.distM))
+			lon := make([]float64, len(c.distM))
+			for i := range lat {
+				lat[i], lon[i] = -48.5+float64(i)*1e-3, -123.95
+			}
+			var buf strings.Builder
+			if err := WriteProfileCSV(&buf, c.distM, lat, lon, c.elevM); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.HasPrefix(buf.String(), "distance_m,lat,lon,elevation_m\n") {
+				t.Errorf("header: %q", strings.SplitN(buf.String(), "\n", 2)[0])
+			}
+			p, err := DecodeProfileCSV(strings.NewReader(buf.String()), "out.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(p.DistM) != len(c.distM) {
+				t.Fatalf("%d rows read back, want %d", len(p.DistM), len(c.distM))
+			}
+			for i := range c.distM {
+				if d := p.DistM[i] - c.distM[i]; d > c.tolM || d < -c.tolM {
+					t.Errorf("row %d: distance %v m, want %v m", i, p.DistM[i], c.distM[i])
+				}
+				if d := p.ElevM[i] - c.elevM[i]; d > c.tolM || d < -c.tolM {
+					t.Errorf("row %d: elevation %v m, want %v m", i, p.ElevM[i], c.elevM[i])
+				}
+			}
+		})
+	}
+	var buf strings.Builder
+	if err := WriteProfileCSV(&buf, []float64{0, 1}, []float64{0}, []float64{0, 0}, []float64{0, 0}); !errors.Is(err, ErrProfileCSV) {
+		t.Errorf("mismatched lengths: error %v, want ErrProfileCSV", err)
+	}
+	if err := WriteProfileCSV(&buf, []float64{0}, []float64{0}, []float64{0}, []float64{0}); !errors.Is(err, ErrProfileCSV) {
+		t.Errorf("one sample: error %v, want ErrProfileCSV", err)
+	}
+	if buf.Len() != 0 {
+		t.Errorf("wrote %q despite errors", buf.String())
+	}
+}

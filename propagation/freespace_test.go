@@ -29,7 +29,7 @@ func TestFreeSpaceLossP1812Slant(t *testing.T) {
 	// ITU-R WP 3K P.1812 validation, b2iseac_rural_land_1km: terminals
 	// 754.4 + 60 m and 610.3 + 7 m amsl, 1 km apart, 95.3 MHz: L_bfs
 	// 72.14737981 dB with the slant distance (REFERENCES §3). The profile
-	// numbers are transcribed here so the test runs without the data.
+	// numbers are restated here so the test runs without the data.
 	slant := SlantDistanceKM(1, (754.4+60)-(610.3+7))
 	if got := FreeSpaceLossP1812DB(slant, 95.3); math.Abs(got-72.14737981) > 1e-7 {
 		t.Errorf("L_bfs = %.8f dB, want 72.14737981", got)

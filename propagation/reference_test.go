@@ -6,7 +6,7 @@ import (
 	"testing"
 )
 
-// refDeltaBullington is a plain transcription of ITU-R P.526-16 §4.5
+// refDeltaBullington is a plain restatement of ITU-R P.526-16 §4.5
 // (eqs. 49–66, as REFERENCES §3 lists the steps), with a loop per maximum
 // and a square root per point, kept deliberately naive so that the
 // optimised DeltaBullington (single pass, no per-point square root, binary
@@ -75,7 +75,7 @@ func refDeltaBullington(dist, h, clutter []float64, hts, hrs, ae, lambda float64
 	return lba, lbs, lsph, lba + math.Max(lsph-lbs, 0) // eq. 66
 }
 
-func TestDeltaBullingtonMatchesPlainTranscription(t *testing.T) {
+func TestDeltaBullingtonMatchesPlainRestatement(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2)) // seeded: reproducible
 	var los, beyond, lbsZero, lbsPos, sphPos int
 	for k := 0; k < 300; k++ {

@@ -34,47 +34,32 @@ func (t *Tile) Covers(lat, lon float64) bool {
 // grid are clamped to its edge. A NaN sample among the four makes the
 // result the mean of the valid ones; all four void gives NaN.
 func (t *Tile) At(lat, lon float64) float64 {
-	y := (t.Lat0 - lat) / t.DLat
-	x := (lon - t.Lon0) / t.DLon
-	maxY, maxX := float64(t.Rows-1), float64(t.Cols-1)
-	if y < 0 {
-		y = 0
-	} else if y > maxY {
-		y = maxY
-	}
-	if x < 0 {
-		x = 0
-	} else if x > maxX {
-		x = maxX
-	}
-	r, c := int(y), int(x)
-	if r >= t.Rows-1 {
-		r = t.Rows - 2
-	}
-	if c >= t.Cols-1 {
-		c = t.Cols - 2
-	}
-	if r < 0 {
-		r = 0
-	}
-	if c < 0 {
-		c = 0
-	}
-	fy, fx := y-float64(r), x-float64(c)
-	i := r*t.Cols + c
-	if t.Rows == 1 || t.Cols == 1 {
+	if t.Rows < 2 || t.Cols < 2 {
+		if len(t.H) == 0 {
+			return math.NaN()
+		}
 		return float64(t.H[0])
 	}
-	h00, h01 := float64(t.H[i]), float64(t.H[i+1])
-	h10, h11 := float64(t.H[i+t.Cols]), float64(t.H[i+t.Cols+1])
-	v := h00*(1-fx)*(1-fy) + h01*fx*(1-fy) + h10*(1-fx)*fy + h11*fx*fy
-	if !math.IsNaN(v) {
+	// Fractional row and column, clamped to the grid (min/max compile to
+	// branch-free instructions); a NaN position ends up at row/column 0.
+	y := min(max((t.Lat0-lat)/t.DLat, 0), float64(t.Rows-1))
+	x := min(max((lon-t.Lon0)/t.DLon, 0), float64(t.Cols-1))
+	r := max(min(int(y), t.Rows-2), 0)
+	c := max(min(int(x), t.Cols-2), 0)
+	fy, fx := y-float64(r), x-float64(c)
+	i := r*t.Cols + c
+	h := t.H[i : i+t.Cols+2 : i+t.Cols+2] // one bounds check for the four samples
+	h00, h01 := float64(h[0]), float64(h[1])
+	h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
+	top := h00 + fx*(h01-h00)
+	bottom := h10 + fx*(h11-h10)
+	if v := top + fy*(bottom-top); v == v {
 		return v
 	}
 	sum, n := 0.0, 0
-	for _, h := range [4]float64{h00, h01, h10, h11} {
-		if !math.IsNaN(h) {
-			sum += h
+	for _, v := range [4]float64{h00, h01, h10, h11} {
+		if v == v {
+			sum += v
 			n++
 		}
 	}

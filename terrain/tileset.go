@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
@@ -40,15 +41,15 @@ type source struct {
 	elem *list.Element // position in Set.lru while cached
 }
 
-// Set is a collection of elevation files (SRTM HGT tiles, and GeoTIFF DEMs
-// once joined) answering heights and profiles anywhere they cover. Files are
+// Set is a collection of elevation files (SRTM HGT tiles and GeoTIFF DEMs)
+// answering heights and profiles anywhere they cover. Files are
 // read lazily on first use and kept in a least-recently-used cache bounded
 // in bytes. A Set is safe for concurrent use; each file is read once even
 // when many goroutines ask for it together. A Set with no files is valid:
 // every point is then "none" at 0 m (smooth earth).
 type Set struct {
 	hgt    map[[2]int]*source // HGT tiles by south-west corner (lat, lon)
-	others []*source          // other files, searched in order
+	others []*source          // GeoTIFF files, searched in order
 	all    []*source          // every source in use
 
 	mu      sync.Mutex
@@ -56,14 +57,19 @@ type Set struct {
 	used    int64     // bytes of cached tiles
 	limit   int64     // cache budget in bytes
 	missing map[[2]int]bool
+
+	skipped []error // files in directories that could not be used
 }
 
 // Open builds a Set from directories (searched recursively) and files.
-// Recognised files: *.hgt, *.hgt.zip, *.hgt.gz in either case, named after
-// their tile (ParseHGTName). Other files in directories are ignored; a file
-// named explicitly must be one of these (the error wraps
-// ErrUnsupportedFile). When two HGT files cover the same tile, the finer
-// one (1″ over 3″) is used, then the first in path order. Nothing is read
+// Recognised files, in either case: SRTM tiles *.hgt, *.hgt.zip, *.hgt.gz
+// named after their tile (ParseHGTName), and single-band geographic
+// GeoTIFF DEMs *.tif, *.tiff (ReadGeoTIFF). Other files in directories are
+// ignored, and unusable GeoTIFFs there are listed by Skipped; a file named
+// explicitly must be usable (else the error wraps ErrUnsupportedFile or
+// the GeoTIFF reader's error). When two HGT files cover the same tile, the
+// finer one (1″ over 3″) is used, then the first in path order; where a
+// GeoTIFF and a tile overlap, the finer grid wins. Nothing is read
 // beyond directory listings and file headers until heights are asked for.
 // The cache budget starts at DefaultCacheBytes.
 func Open(paths ...string) (*Set, error) {
@@ -74,8 +80,12 @@ func Open(paths ...string) (*Set, error) {
 			return nil, fmt.Errorf("elevation data: %w; check the path given", err)
 		}
 		if !fi.IsDir() {
+			n := len(s.skipped)
 			if !s.add(p) {
-				return nil, fmt.Errorf("%s: %w: want SRTM tiles named like N45E007.hgt, .hgt.zip or .hgt.gz", p, ErrUnsupportedFile)
+				if len(s.skipped) > n {
+					return nil, s.skipped[n]
+				}
+				return nil, fmt.Errorf("%s: %w: want SRTM tiles named like N45E007.hgt (.hgt.zip, .hgt.gz) or GeoTIFF DEMs (.tif)", p, ErrUnsupportedFile)
 			}
 			continue
 		}
@@ -111,6 +121,7 @@ func (s *Set) add(path string) bool {
 	if hasHGTSuffix(lower) {
 		lat, lon, ok := ParseHGTName(base)
 		if !ok {
+			s.skipped = append(s.skipped, fmt.Errorf("%s: %w: name does not give the tile position; rename it like N45E007.hgt", path, ErrHGT))
 			return false
 		}
 		src := &source{
@@ -128,19 +139,43 @@ func (s *Set) add(path string) bool {
 		s.hgt[key] = src
 		return true
 	}
-	// TODO(integration): once terrain/geotiff.go is on main, add here:
-	//	if strings.HasSuffix(lower, ".tif") || strings.HasSuffix(lower, ".tiff") {
-	//		w, so, e, n, err := GeoTIFFBounds(path)
-	//		if err != nil { return false } // or report it
-	//		s.addOther(&source{name: base, path: path, west: w, south: so, east: e, north: n, load: ReadGeoTIFF})
-	//		return true
-	//	}
+	if strings.HasSuffix(lower, ".tif") || strings.HasSuffix(lower, ".tiff") {
+		src, err := geoTIFFSource(path)
+		if err != nil {
+			s.skipped = append(s.skipped, err)
+			return false
+		}
+		s.others = append(s.others, src)
+		return true
+	}
 	return false
 }
 
-// addOther registers a non-HGT source with known bounds and loader.
-func (s *Set) addOther(src *source) {
-	s.others = append(s.others, src)
+// geoTIFFSource reads the header of a GeoTIFF DEM (see ReadGeoTIFF) for
+// its extent and spacing. Its nodata samples are not filled: in a GeoTIFF
+// they usually mark the outside of the surveyed area, not SRTM-style holes.
+func geoTIFFSource(path string) (*source, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	fi, err := f.Stat()
+	if err != nil {
+		return nil, err
+	}
+	g, err := readGeoTIFFHeader(f, fi.Size(), path)
+	if err != nil {
+		return nil, err
+	}
+	return &source{
+		name: filepath.Base(path), path: path,
+		west: g.lon0, north: g.lat0,
+		east:    g.lon0 + float64(g.width-1)*g.dlon,
+		south:   g.lat0 - float64(g.height-1)*g.dlat,
+		dLatDeg: g.dlat, dLonDeg: g.dlon,
+		load: ReadGeoTIFF,
+	}, nil
 }
 
 // finer reports whether a has a known spacing finer than b's.
@@ -150,6 +185,12 @@ func finer(a, b *source) bool {
 	}
 	return b.dLatDeg == 0 || a.dLatDeg < b.dLatDeg
 }
+
+// Skipped returns the errors of files found in directories that look like
+// elevation data but cannot be used (a GeoTIFF in a projected coordinate
+// system, say), so that a caller can warn about them. Files named
+// explicitly in Open make Open fail instead.
+func (s *Set) Skipped() []error { return slices.Clone(s.skipped) }
 
 // Len reports how many elevation files the set holds.
 func (s *Set) Len() int { return len(s.hgt) + len(s.others) }
@@ -333,23 +374,18 @@ func (s *Set) Missing() []string {
 	return names
 }
 
-// WGS84 ellipsoid (NIMA TR8350.2, 3rd ed., 2000, table 3.1).
-const (
-	wgs84A = 6378137.0
-	wgs84F = 1 / 298.257223563
-)
-
 // metresPerDegree returns the length in metres of one degree of latitude
-// and of longitude at latitude lat (degrees) on the WGS84 ellipsoid, from
+// and of longitude at latitude lat (degrees) on the WGS84 ellipsoid
+// (WGS84A, WGS84F), from
 // the meridional and prime-vertical radii of curvature M and N·cos φ
 // (Snyder, Map Projections – A Working Manual, USGS PP 1395, 1987, eqs.
 // 4-18 and 4-20; from memory).
 func metresPerDegree(lat float64) (latM, lonM float64) {
-	e2 := wgs84F * (2 - wgs84F)
+	e2 := WGS84F * (2 - WGS84F)
 	sin, cos := math.Sincos(lat * math.Pi / 180)
 	w := math.Sqrt(1 - e2*sin*sin)
-	m := wgs84A * (1 - e2) / (w * w * w)
-	n := wgs84A / w
+	m := WGS84A * (1 - e2) / (w * w * w)
+	n := WGS84A / w
 	return m * math.Pi / 180, n * math.Abs(cos) * math.Pi / 180
 }
 

@@ -97,60 +97,79 @@ func TestSetSeams(t *testing.T) {
 }
 
 // htCompareSet checks set.Elevation at k random points of the box
-// [lat0, lat1]×[lon0, lon1] (3″ tiles) against the bilinear interpolation of
-// the four samples around each, read by gdallocationinfo from the tile
-// holding the cell. Cells touching a void are skipped.
+// [lat0, lat1]×[lon0, lon1] against htGDALBilinear.
 func htCompareSet(t *testing.T, set *Set, dir string, lat0, lon0, lat1, lon1 float64, k int, seed uint64) {
 	t.Helper()
 	rng := rand.New(rand.NewPCG(seed, 4))
-	const d = 1.0 / 1200
-	type query struct {
-		lat, lon, nlat, wlon float64
-		file                 string
+	lats, lons := make([]float64, k), make([]float64, k)
+	for i := range lats {
+		lats[i] = lat0 + rng.Float64()*(lat1-lat0)
+		lons[i] = lon0 + rng.Float64()*(lon1-lon0)
 	}
-	byFile := map[string][]int{}
-	var qs []query
-	for i := 0; i < k; i++ {
-		lat := lat0 + rng.Float64()*(lat1-lat0)
-		lon := lon0 + rng.Float64()*(lon1-lon0)
-		row := math.Floor((47 - lat) / d) // global row from 47°N
-		col := math.Floor((lon - 7) / d)
-		nlat, wlon := 47-row*d, 7+col*d
-		file := HGTName(int(math.Floor(nlat-d/2)), int(math.Floor(wlon+d/2)))
-		byFile[file] = append(byFile[file], len(qs))
-		qs = append(qs, query{lat, lon, nlat, wlon, file})
-	}
+	want := htGDALBilinear(t, dir, lats, lons)
 	checked := 0
-	for file, idx := range byFile {
-		var lats, lons []float64
-		for _, i := range idx {
-			q := qs[i]
-			lats = append(lats, q.nlat, q.nlat, q.nlat-d, q.nlat-d)
-			lons = append(lons, q.wlon, q.wlon+d, q.wlon, q.wlon+d)
+	for i, w := range want {
+		if math.IsNaN(w) {
+			continue
 		}
-		ref := htGDALValues(t, filepath.Join(dir, file), lats, lons)
-		for m, i := range idx {
-			q := qs[i]
-			v := ref[4*m : 4*m+4]
-			if slices.Contains(v, HGTVoid) || slices.ContainsFunc(v, math.IsNaN) {
-				continue
-			}
-			fy, fx := (q.nlat-q.lat)/d, (q.lon-q.wlon)/d
-			// Bilinear interpolation (common practice) of GDAL's samples.
-			want := v[0]*(1-fx)*(1-fy) + v[1]*fx*(1-fy) + v[2]*(1-fx)*fy + v[3]*fx*fy
-			got, src, err := set.Elevation(q.lat, q.lon)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if math.Abs(got-want) > 1e-6 {
-				t.Errorf("%.7f,%.7f: %.6f m from %s; bilinear of gdallocationinfo on %s %.6f m", q.lat, q.lon, got, src, file, want)
-			}
-			checked++
+		got, src, err := set.Elevation(lats[i], lons[i])
+		if err != nil {
+			t.Fatal(err)
 		}
+		if math.Abs(got-w) > 1e-6 {
+			t.Errorf("%.7f,%.7f: %.6f m from %s; bilinear of gdallocationinfo samples %.6f m", lats[i], lons[i], got, src, w)
+		}
+		checked++
 	}
 	if checked < k*9/10 {
 		t.Errorf("only %d of %d points checked", checked, k)
 	}
+}
+
+// htGDALBilinear returns, for points in 3″ tiles of dir, the bilinear
+// interpolation (common practice) of the four samples around each as
+// gdallocationinfo reads them from the tile holding the cell; NaN where a
+// sample is void or no tile is there.
+func htGDALBilinear(t *testing.T, dir string, lats, lons []float64) []float64 {
+	t.Helper()
+	const d = 1.0 / 1200
+	type cell struct{ nlat, wlon float64 }
+	cells := make([]cell, len(lats))
+	byFile := map[string][]int{}
+	for i := range lats {
+		row := math.Floor((90 - lats[i]) / d) // global row from 90°N
+		col := math.Floor((lons[i] + 180) / d)
+		nlat, wlon := 90-row*d, -180+col*d
+		cells[i] = cell{nlat, wlon}
+		file := HGTName(int(math.Floor(nlat-d/2)), int(math.Floor(wlon+d/2)))
+		byFile[file] = append(byFile[file], i)
+	}
+	out := make([]float64, len(lats))
+	for i := range out {
+		out[i] = math.NaN()
+	}
+	for file, idx := range byFile {
+		path := filepath.Join(dir, file)
+		if _, err := os.Stat(path); err != nil {
+			continue
+		}
+		var ql, qo []float64
+		for _, i := range idx {
+			c := cells[i]
+			ql = append(ql, c.nlat, c.nlat, c.nlat-d, c.nlat-d)
+			qo = append(qo, c.wlon, c.wlon+d, c.wlon, c.wlon+d)
+		}
+		ref := htGDALValues(t, path, ql, qo)
+		for m, i := range idx {
+			v := ref[4*m : 4*m+4]
+			if slices.Contains(v, HGTVoid) || slices.ContainsFunc(v, math.IsNaN) {
+				continue
+			}
+			fy, fx := (cells[i].nlat-lats[i])/d, (lons[i]-cells[i].wlon)/d
+			out[i] = v[0]*(1-fx)*(1-fy) + v[1]*fx*(1-fy) + v[2]*(1-fx)*fy + v[3]*fx*fy
+		}
+	}
+	return out
 }
 
 // htWriteTiles writes constant-ramp 3″ tiles for the given corners into dir:
@@ -435,4 +454,38 @@ func TestSetCache(t *testing.T) {
 			t.Errorf("cache reached %d bytes; budget %d", m, limit)
 		}
 	})
+}
+
+// TestSetSpacingBeforeLoading: the grid size of plain, zipped and gzipped
+// tiles is known from file headers (zip member size, gzip ISIZE trailer,
+// RFC 1952 §2.3.1) without reading the tiles.
+func TestSetSpacingBeforeLoading(t *testing.T) {
+	latM, lonM := metresPerDegree(45)
+	cases := []struct {
+		name, file, member string
+		n                  int
+	}{
+		{"plain 3″", "N45E007.hgt", "", HGTSamples3},
+		{"zip 1″", "N45E007.SRTMGL1.hgt.zip", "N45E007.hgt", HGTSamples1},
+		{"gzip 3″", "n45e007.hgt.gz", "", HGTSamples3},
+		{"gzip 1″", "N45E007.hgt.gz", "", HGTSamples1},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			dir := t.TempDir()
+			htWriteContainer(t, filepath.Join(dir, c.file), c.member, make([]byte, 2*c.n*c.n))
+			set, err := Open(dir)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// One sample step: 1/(n−1) degree of longitude at 45°N.
+			want := math.Min(latM, lonM) / float64(c.n-1)
+			if got := set.SpacingM(45); math.Abs(got-want) > 1e-9 {
+				t.Errorf("SpacingM %v m; want %v m", got, want)
+			}
+			if b := set.CacheBytes(); b != 0 {
+				t.Errorf("%d bytes cached before any height was asked for", b)
+			}
+		})
+	}
 }

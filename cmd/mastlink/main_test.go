@@ -5,6 +5,8 @@ import (
 	"context"
 	"encoding/json"
 	"flag"
+	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -87,5 +89,89 @@ func TestVersion(t *testing.T) {
 	out, _, code := runCmd(t, "version")
 	if code != 0 || !strings.HasPrefix(out, "mastlink ") {
 		t.Fatalf("version: %q, code %d", out, code)
+	}
+}
+
+// goldenJSON compares JSON output with testdata/NAME structurally, numbers
+// within a relative 1e-6 (last-digit floating-point differences between
+// builds are not regressions), or rewrites it with -update.
+func goldenJSON(t *testing.T, name, got string) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if *update {
+		golden(t, name, got)
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test ./cmd/mastlink -update to create it)", err)
+	}
+	var a, b any
+	if err := json.Unmarshal([]byte(got), &a); err != nil {
+		t.Fatalf("output is not JSON: %v", err)
+	}
+	if err := json.Unmarshal(want, &b); err != nil {
+		t.Fatalf("%s is not JSON: %v", path, err)
+	}
+	if diff := jsonDiff("$", a, b); diff != "" {
+		t.Errorf("output differs from %s at %s (rerun with -update if the change is intended)", path, diff)
+	}
+}
+
+func jsonDiff(at string, a, b any) string {
+	switch x := a.(type) {
+	case map[string]any:
+		y, ok := b.(map[string]any)
+		if !ok || len(x) != len(y) {
+			return at + " (fields differ)"
+		}
+		for k, v := range x {
+			w, ok := y[k]
+			if !ok {
+				return at + "." + k + " (not in the golden file)"
+			}
+			if d := jsonDiff(at+"."+k, v, w); d != "" {
+				return d
+			}
+		}
+	case []any:
+		y, ok := b.([]any)
+		if !ok || len(x) != len(y) {
+			return at + " (lengths differ)"
+		}
+		for i := range x {
+			if d := jsonDiff(fmt.Sprintf("%s[%d]", at, i), x[i], y[i]); d != "" {
+				return d
+			}
+		}
+	case float64:
+		y, ok := b.(float64)
+		if !ok || math.Abs(x-y) > 1e-6*math.Max(1, math.Abs(y)) {
+			return fmt.Sprintf("%s (%v, golden %v)", at, a, b)
+		}
+	default:
+		if a != b {
+			return fmt.Sprintf("%s (%v, golden %v)", at, a, b)
+		}
+	}
+	return ""
+}
+
+func TestNegativePoints(t *testing.T) {
+	cases := []struct{ in, want []string }{
+		{[]string{"elevation", "-48.5,-123.9"}, []string{"elevation", "--", "-48.5,-123.9"}},
+		{[]string{"elevation", "-48.5,-123.9", "-48.4,-123.8", "--format", "json"}, []string{"elevation", "--format", "json", "--", "-48.5,-123.9", "-48.4,-123.8"}},
+		{[]string{"link", "--from", "-48.5,-123.9", "--to", "1,2"}, []string{"link", "--from", "-48.5,-123.9", "--to", "1,2"}},
+		{[]string{"elevation", "--", "-48.5,-123.9"}, []string{"elevation", "--", "-48.5,-123.9"}},
+		{[]string{"horizon", "--height", "-5m"}, []string{"horizon", "--height", "-5m"}},
+	}
+	for _, c := range cases {
+		if got := negativePoints(c.in); strings.Join(got, " ") != strings.Join(c.want, " ") {
+			t.Errorf("negativePoints(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+	out, stderr, code := runCmd(t, "--dem", "../../examples/terrain", "elevation", "-48.5,-123.95", "-48.4466667,-123.9491667", "--format", "csv")
+	if code != 0 || strings.Count(out, "\n") != 3 {
+		t.Errorf("code %d, %q %q", code, out, stderr)
 	}
 }

@@ -1,12 +1,14 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"sort"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/spf13/cobra"
 )
 
 // renderMastText writes a sweep as a grid: mast heights down, cables across,
@@ -58,4 +60,227 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	fmt.Fprintln(w, strings.TrimSpace(`Raise masts only where a falling mast cannot reach a power line; guy them against wind
 and do not raise them in storms.`))
 	fmt.Fprintln(w)
+}
+
+func init() { commandConstructors = append(commandConstructors, newMastCmd) }
+
+type mastOptions struct {
+	planFile, station                string
+	heights, cables, run, slack      string
+	link                             linkOptions
+	toPower, toSens                  string
+	margin, reliability, sigma, freq string
+}
+
+func newMastCmd(g *globals) *cobra.Command {
+	o := &mastOptions{}
+	cmd := &cobra.Command{
+		Use:   "mast [--plan FILE | station flags] --heights A..B step C --cables LIST --run L",
+		Short: "Mast-and-cable sweep: the lowest mast and lightest cable that meet the margin",
+		Long: `Tries every mast height and cable: the cable runs up the mast and on to the
+radio (length = antenna height + --run + --slack). For each combination it
+finds the worst margin over every required link in both directions, and
+recommends the lowest mast that meets the requirement, then the lightest
+cable at that height (cable mass per metre from the catalog).
+
+With --plan the station, targets and requirement come from a plan file
+(its mast section gives defaults for the flags). Without it, one station
+(--from, with link's station flags) and one simplex target (--to, with the
+--to- flags) are checked both ways on --freq.`,
+		Example: "  mastlink mast --plan examples/valley/plan.yaml\n" +
+			"  mastlink mast --plan examples/valley/plan.yaml --heights 2m..8m step 0.5m --cables RG-58,RG-8X\n" +
+			"  mastlink mast --dem examples/terrain --waypoints examples/valley/points.gpx --from \"Marrowind Bend\" \\\n" +
+			"    --to \"Team Alder, Quillet Glen\" --freq 146.55 --power 25W --gain 2.15dBi --heights 2m..12m step 1m \\\n" +
+			"    --cables RG-58,RG-8X,RG-213 --run 10m --margin 10dB",
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runMast(cmd.Context(), g, o)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&o.planFile, "plan", "", "plan file: station, targets and requirement")
+	f.StringVar(&o.station, "station", "", "with --plan: the station to sweep (default: the first)")
+	f.StringVar(&o.heights, "heights", "", "mast heights to try, e.g. 2m..12m step 1m")
+	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (see `mastlink feedline --list`)")
+	f.StringVar(&o.run, "run", "", "cable from the mast foot to the radio [m]")
+	f.StringVar(&o.slack, "slack", "", "extra cable for loops and the mast head [m] (default 1m)")
+	f.StringVar(&o.margin, "margin", "", "required fade margin [dB]")
+	f.StringVar(&o.reliability, "reliability", "", "required fraction of locations, e.g. 90%")
+	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
+	l := &o.link
+	f.StringVar(&l.from, "from", "", "station position: LAT,LON or waypoint")
+	f.StringVar(&l.to, "to", "", "target position: LAT,LON or waypoint")
+	f.StringVar(&o.freq, "freq", "", "frequency [MHz]")
+	f.StringVar(&l.tx.power, "power", "5W", "station transmitter power [W]")
+	f.StringVar(&l.tx.gain, "gain", "0dBi", "station antenna gain [dBi]")
+	f.StringVar(&l.tx.sens, "sens", "0.25uV", "station receiver sensitivity [dBm]")
+	f.StringVar(&l.tx.swr, "swr", "1", "SWR at the station antenna")
+	f.IntVar(&l.tx.connectors, "connectors", 0, "mated connector pairs in the station feedline")
+	f.StringVar(&o.toPower, "to-power", "5W", "target transmitter power [W]")
+	f.StringVar(&l.rx.gain, "to-gain", "0dBi", "target antenna gain [dBi]")
+	f.StringVar(&l.rx.height, "to-height", "1.5m", "target antenna height [m]")
+	f.StringVar(&o.toSens, "to-sens", "0.25uV", "target receiver sensitivity [dBm]")
+	f.StringVar(&l.k, "k", "4/3", "effective earth-radius factor")
+	addWaypointsFlag(cmd, &l.points)
+	return cmd
+}
+
+func runMast(ctx context.Context, g *globals, o *mastOptions) error {
+	var (
+		env     *plan.Env
+		st      plan.Station
+		targets []plan.Target
+		sweep   plan.MastSweep
+		req     plan.Requirement
+		inputs  []string
+	)
+	sweep.SlackM = 1
+	if o.planFile != "" {
+		p, e, err := loadPlan(g, o.planFile)
+		if err != nil {
+			return err
+		}
+		env, targets, req, inputs = e, p.Targets, p.Require, p.InputFiles
+		found := false
+		for _, s := range p.Stations {
+			if o.station == "" || strings.EqualFold(s.Name, o.station) {
+				st, found = s, true
+				break
+			}
+		}
+		if !found {
+			return usagef("--station: %q is not a station of %s", o.station, o.planFile)
+		}
+		if p.Mast != nil {
+			sweep = *p.Mast
+		}
+	} else {
+		var err error
+		env = &plan.Env{Vertical: true}
+		if o.link.from == "" || o.link.to == "" || o.freq == "" {
+			return usagef("give --plan FILE, or --from, --to and --freq")
+		}
+		if env.K, err = kFactor(o.link.k); err != nil {
+			return err
+		}
+		freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+		if err != nil {
+			return err
+		}
+		from, fn, err := o.link.points.resolve("--from", o.link.from)
+		if err != nil {
+			return err
+		}
+		to, tn, err := o.link.points.resolve("--to", o.link.to)
+		if err != nil {
+			return err
+		}
+		o.link.tx.height = "0"
+		end, err := o.link.tx.end(fn, "", true)
+		if err != nil {
+			return err
+		}
+		end.Pos = from
+		st = plan.Station{End: end}
+		o.link.rx.sens = o.toSens
+		o.link.rx.power = o.toPower
+		tend, err := o.link.rx.end(tn, "to-", false)
+		if err != nil {
+			return err
+		}
+		if tend.Radio.PowerW, err = quantity("to-power", o.toPower, plan.ParsePowerW); err != nil {
+			return err
+		}
+		tend.Pos = to
+		targets = []plan.Target{{End: tend, Kind: plan.Simplex, FreqMHz: freq}}
+		if env.Terrain, err = g.openTerrain(); err != nil {
+			return err
+		}
+		if env.Terrain == nil {
+			g.noticeSmoothEarth()
+		}
+		inputs = []string{o.link.points.file}
+	}
+	var err error
+	if o.heights != "" {
+		if sweep.Heights, err = plan.ParseLengthRange(o.heights); err != nil {
+			return usagef("--heights: %v", err)
+		}
+	}
+	if o.cables != "" {
+		sweep.Cables = nil
+		for _, name := range strings.Split(o.cables, ",") {
+			c, err := plan.ResolveCable(strings.TrimSpace(name))
+			if err != nil {
+				return usagef("--cables: %v", err)
+			}
+			sweep.Cables = append(sweep.Cables, c)
+		}
+	}
+	if o.run != "" {
+		if sweep.RunM, err = quantity("run", o.run, plan.ParseLengthM); err != nil {
+			return err
+		}
+	}
+	if o.slack != "" {
+		if sweep.SlackM, err = quantity("slack", o.slack, plan.ParseLengthM); err != nil {
+			return err
+		}
+	}
+	if sweep.Heights.Len() == 0 || sweep.Heights.ToM == 0 {
+		return usagef("--heights: give the mast heights to try (e.g. 2m..12m step 1m)")
+	}
+	if len(sweep.Cables) == 0 {
+		return usagef("--cables: give the cables to try (e.g. RG-58,RG-8X,RG-213)")
+	}
+	if o.margin != "" {
+		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
+			return err
+		}
+	}
+	if o.reliability != "" {
+		if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
+			return err
+		}
+		if req.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
+			return err
+		}
+	}
+	if ctx != nil && ctx.Err() != nil {
+		return ctx.Err()
+	}
+	res, err := env.SweepMast(st, targets, &sweep, req)
+	if err != nil {
+		return err
+	}
+	g.warnMissing(env.Terrain)
+	if g.out != "" {
+		if extension(g.out) != "csv" && extension(g.out) != "json" {
+			return usagef("-o: %q: write the sweep to a .csv or .json file", g.out)
+		}
+		if err := renderTo(g.out, inputs, func(w io.Writer) error {
+			if extension(g.out) == "json" {
+				return writeJSON(w, res)
+			}
+			return writeMastCSV(w, res)
+		}); err != nil {
+			return err
+		}
+	}
+	switch g.format {
+	case "json":
+		return writeJSON(g.stdout, res)
+	case "csv":
+		return writeMastCSV(g.stdout, res)
+	}
+	renderMastText(g.stdout, res, g.imperial())
+	return nil
+}
+
+func writeMastCSV(w io.Writer, m *plan.MastResult) error {
+	rows := make([][]string, len(m.Rows))
+	for i, r := range m.Rows {
+		rows[i] = []string{f2(r.HeightM), r.Cable, f2(r.CableLengthM), f2(r.CableMassKg), f2(r.FeedlineLossDB), f2(r.WorstMarginDB), r.WorstLink, fmt.Sprint(r.MeetsRequirement)}
+	}
+	return writeCSV(w, []string{"height_m", "cable", "cable_length_m", "cable_mass_kg", "feedline_loss_db", "worst_margin_db", "worst_link", "meets_requirement"}, rows)
 }

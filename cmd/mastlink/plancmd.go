@@ -224,7 +224,7 @@ func linkVerdict(l plan.LinkResult) string {
 	case l.MeetsRequirement != nil && *l.MeetsRequirement:
 		return "ok"
 	case l.MarginDB >= 0:
-		return "weak"
+		return "short"
 	default:
 		return "no"
 	}

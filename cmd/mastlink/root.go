@@ -39,7 +39,7 @@ func usagef(format string, a ...any) error { return usageError{fmt.Errorf(format
 func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	g := &globals{stdin: stdin, stdout: stdout, stderr: stderr}
 	root := newRootCmd(g)
-	root.SetArgs(args)
+	root.SetArgs(negativePoints(args))
 	root.SetIn(stdin)
 	root.SetOut(stdout)
 	root.SetErr(stderr)
@@ -53,6 +53,54 @@ func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.
 		return 2
 	}
 	return 1
+}
+
+// negativePoints lets positional points with a negative latitude, such as
+// `mastlink elevation -48.5,-123.9`, through the flag parser: a bare token
+// that starts with '-' and a digit and holds a comma is never a flag, so it
+// is moved after a "--" (keeping the points in order). A token that follows
+// a flag awaiting its value is left where it is.
+func negativePoints(args []string) []string {
+	var keep, points []string
+	prevPoint := false
+	for i, a := range args {
+		if a == "--" {
+			keep = append(keep, args[i:]...)
+			break
+		}
+		isPoint := len(a) > 2 && a[0] == '-' && (a[1] >= '0' && a[1] <= '9' || a[1] == '.') && strings.Contains(a, ",")
+		prevFlag := i > 0 && !prevPoint && strings.HasPrefix(args[i-1], "-") && !strings.Contains(args[i-1], "=") && !isBoolFlag(args[i-1])
+		prevPoint = isPoint && !prevFlag
+		if prevPoint {
+			points = append(points, a)
+			continue
+		}
+		keep = append(keep, a)
+	}
+	if len(points) == 0 {
+		return args
+	}
+	out := keep
+	hasDash := false
+	for _, a := range keep {
+		if a == "--" {
+			hasDash = true
+		}
+	}
+	if !hasDash {
+		out = append(out, "--")
+	}
+	return append(out, points...)
+}
+
+// isBoolFlag reports whether a token is one of the boolean flags, which take
+// no value.
+func isBoolFlag(tok string) bool {
+	switch tok {
+	case "--list", "-h", "--help", "--version":
+		return true
+	}
+	return false
 }
 
 func firstLine(s string) string {

@@ -28,6 +28,9 @@ func (g *globals) openTerrain(extra ...string) (*terrain.Set, error) {
 	if s.Len() == 0 {
 		return nil, fmt.Errorf("--dem: no elevation files (.hgt, .hgt.zip, .hgt.gz, .tif) in %s", strings.Join(paths, ", "))
 	}
+	for _, err := range s.Skipped() {
+		fmt.Fprintf(g.stderr, "mastlink: warning: skipped %v\n", err)
+	}
 	s.SetCacheLimit(int64(g.cacheMB) << 20)
 	return s, nil
 }
