@@ -73,7 +73,7 @@ func TestRankSitesAgreesWithPlan(t *testing.T) {
 			if *links[0].MeetsRequirement && *links[1].MeetsRequirement {
 				reached++
 			}
-			worst = math.Min(worst, worstMargin(links))
+			worst = math.Min(worst, math.Min(links[0].MarginDB, links[1].MarginDB))
 		}
 		// Same arithmetic on the same profiles: agreement to rounding.
 		if math.Abs(worst-s.WorstMarginDB) > 1e-9 || reached != s.Reachable || of != s.Of {

@@ -41,7 +41,11 @@ func TestRouteGolden(t *testing.T) {
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
-			golden(t, c.golden, out)
+			if strings.HasSuffix(c.golden, ".json") {
+				goldenJSON(t, c.golden, out)
+			} else {
+				golden(t, c.golden, out)
+			}
 		})
 	}
 }
