@@ -16,6 +16,7 @@ type reachOptions struct {
 	kit                                  endFlags
 	k, model, polarization, ground, step string
 	margin, reliability, sigma           string
+	only                                 []string // --target: reach only these
 	kitFlags                             []string // names of the flags a plan replaces
 	kitName                              string   // the kit's name without a plan
 }
@@ -26,6 +27,7 @@ func addReachFlags(cmd *cobra.Command, o *reachOptions, kitName string) {
 	f.StringVar(&o.planFile, "plan", "", "plan file (YAML) giving the kit, targets, requirement and terrain")
 	f.StringVar(&o.station, "station", "", "with --plan: the station whose kit is used (default: see the help above)")
 	f.StringVar(&o.targets, "targets", "", "GPX file whose waypoints are the targets (simplex on --freq, with the same kit)")
+	f.StringArrayVar(&o.only, "target", nil, "reach only this target (a name from the plan or --targets); repeat for several")
 	f.StringVar(&o.freq, "freq", "", "frequency of targets from --targets [MHz] (default: the plan's)")
 	f.StringVar(&o.kit.power, "power", "5W", "transmitter power [W]")
 	f.StringVar(&o.kit.gain, "gain", "0dBi", "antenna gain [dBi]")
@@ -135,7 +137,38 @@ func (o *reachOptions) resolve(cmd *cobra.Command, g *globals, forSites bool) (*
 		r.targets = ts
 		r.inputs = append(r.inputs, o.targets)
 	}
+	if len(o.only) > 0 {
+		ts, err := onlyTargets(r.targets, o.only)
+		if err != nil {
+			return nil, err
+		}
+		r.targets = ts
+	}
 	return r, nil
+}
+
+// onlyTargets keeps the targets named in names (ignoring case), in the
+// order given, each as a required target.
+func onlyTargets(all []plan.Target, names []string) ([]plan.Target, error) {
+	var out []plan.Target
+	for _, n := range names {
+		found := false
+		for _, t := range all {
+			if strings.EqualFold(strings.TrimSpace(t.Name), strings.TrimSpace(n)) {
+				t.Optional = false
+				out, found = append(out, t), true
+				break
+			}
+		}
+		if !found {
+			known := make([]string, len(all))
+			for i, t := range all {
+				known[i] = fmt.Sprintf("%q", t.Name)
+			}
+			return nil, usagef("--target: no target %q (targets: %s)", n, strings.Join(known, ", "))
+		}
+	}
+	return out, nil
 }
 
 // env builds the link environment from the flags.
