@@ -123,9 +123,20 @@ func BenchmarkRankSitesDemo(b *testing.B) {
 // over the example's 3″ terrain.
 func BenchmarkRouteDemo(b *testing.B) {
 	p, env := demoPlan(b)
-	demoRoute(b, p, env)
+	g, err := ReadGPX(filepath.Join("..", "examples", "valley", "hike.gpx"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	w, _ := p.Walker("")
+	req := RouteRequest{Track: g.Tracks[0], Walker: w, Targets: p.ReachTargets(w.Name), NeededMarginDB: p.Require.NeededMarginDB()}
+	var paths int
 	b.ReportAllocs()
 	for b.Loop() {
-		demoRoute(b, p, env)
+		r, err := env.Route(context.Background(), req, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		paths = r.Paths
 	}
+	b.ReportMetric(float64(paths)*float64(b.N)/b.Elapsed().Seconds(), "paths/s")
 }

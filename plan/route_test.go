@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"os"
 	"path/filepath"
 	"runtime"
 	"strings"
@@ -402,4 +403,54 @@ func ExampleEnv_Route() {
 	// Output:
 	// 1971 m in 41 points, 100 % covered, 0 gaps
 	// margin at the start 47.0 dB, at the end 46.7 dB
+}
+
+// FuzzRouteTrack feeds Route tracks decoded from arbitrary GPX documents
+// (seeded with the example hike): it must never panic; a track it accepts
+// gives points in order along it, fractions in 0…1, and gaps inside it.
+func FuzzRouteTrack(f *testing.F) {
+	if b, err := os.ReadFile(filepath.Join("..", "examples", "valley", "hike.gpx")); err == nil {
+		f.Add(b)
+	}
+	f.Add([]byte(`<gpx><trk><trkseg><trkpt lat="0" lon="179.9"/><trkpt lat="0.01" lon="-179.9"/></trkseg></trk></gpx>`))
+	f.Add([]byte(`<gpx><rte><rtept lat="89.99" lon="0"/><rtept lat="89.99" lon="180"/><rtept lat="89.99" lon="180"/></rte></gpx>`))
+	hand := End{Name: "walker", Radio: Radio{PowerW: 5, SensitivityDBm: -119}, Antenna: Antenna{HeightM: 1.5}}
+	tg := Target{End: hand, Kind: Simplex, FreqMHz: 146.55}
+	tg.Name = "t"
+	env := &Env{Model: propagation.FreeSpace{}, StepM: 500}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		g, err := DecodeGPX(data, "fuzz.gpx")
+		if err != nil || len(g.Tracks) == 0 || len(g.Tracks[0].Points) > 2000 {
+			return
+		}
+		tr := g.Tracks[0]
+		total := 0.0 // keep the run short: tracks up to 100 km
+		for i := 1; i < len(tr.Points); i++ {
+			d, _, _ := terrain.Inverse(tr.Points[i-1].Pos.Lat(), tr.Points[i-1].Pos.Lon(), tr.Points[i].Pos.Lat(), tr.Points[i].Pos.Lon())
+			total += d
+		}
+		if !(total < 100e3) {
+			return
+		}
+		if len(tr.Points) > 0 {
+			tg.Pos = tr.Points[0].Pos
+		}
+		r, err := env.Route(context.Background(), RouteRequest{Track: tr, Walker: hand, Targets: []Target{tg}, NeededMarginDB: 10, SpacingM: 1000}, nil)
+		if err != nil {
+			return
+		}
+		if !(r.OverallFraction >= 0 && r.OverallFraction <= 1) || len(r.Points) < 2 {
+			t.Fatalf("fraction %v, %d points", r.OverallFraction, len(r.Points))
+		}
+		for k := 1; k < len(r.Points); k++ {
+			if !(r.Points[k].DistanceM > r.Points[k-1].DistanceM) {
+				t.Fatalf("points out of order at %d", k)
+			}
+		}
+		for _, gp := range r.Gaps {
+			if gp.StartM < 0 || gp.EndM > r.LengthM || gp.LengthM <= 0 {
+				t.Fatalf("gap %+v outside a %v m track", gp, r.LengthM)
+			}
+		}
+	})
 }
