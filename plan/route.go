@@ -152,7 +152,7 @@ func (r *RouteResult) PositionAt(distM float64) (lat, lon float64, t time.Time) 
 // The points are evaluated in parallel on all cores (see runParallel); the
 // result does not depend on their number. Memory grows with the number of
 // points (a small summary each), never with the profiles. progress counts
-// points.
+// paths (points × targets).
 func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*RouteResult, error) {
 	spacing := req.SpacingM
 	if spacing == 0 {

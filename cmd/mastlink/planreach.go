@@ -11,7 +11,7 @@ import (
 // res, with a progress bar each.
 func addPlanRoutesAndSites(ctx context.Context, g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanResult) error {
 	if len(p.Routes) > 0 {
-		bar := newProgress(g, "route points")
+		bar := newProgress(g, "route paths")
 		routes, err := plan.EvaluatePlanRoutes(ctx, p, env, bar.update)
 		bar.done()
 		if err != nil {

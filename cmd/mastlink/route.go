@@ -60,6 +60,9 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 	if ctx == nil {
 		ctx = context.Background()
 	}
+	if o.freq != "" && o.targets == "" {
+		return usagef("--freq is the frequency of the targets of --targets; give that file too")
+	}
 	spacing, err := quantity("spacing", o.spacing, plan.ParseLengthM)
 	if err != nil {
 		return err
@@ -91,7 +94,7 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 			return err
 		}
 	}
-	bar := newProgress(g, "points")
+	bar := newProgress(g, "paths")
 	res, err := r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, bar.update)
 	bar.done()
 	if err != nil {

@@ -232,6 +232,7 @@ func TestRouteUsageErrors(t *testing.T) {
 		{"bad output", []string{"route", demoHike, "--plan", demoPlanFile, "-o", filepath.Join(dir, "x.kml")}, 2, ".geojson"},
 		{"output over input", []string{"route", demoHike, "--plan", demoPlanFile, "-o", demoHike}, 2, "input"},
 		{"bad spacing", []string{"route", demoHike, "--plan", demoPlanFile, "--spacing", "0m"}, 2, "--spacing"},
+		{"freq without targets", []string{"route", demoHike, "--plan", demoPlanFile, "--freq", "146.55"}, 2, "--freq"},
 		{"bad target", []string{"route", demoHike, "--plan", demoPlanFile, "--target", "Nowhere"}, 2, `no target "Nowhere"`},
 		{"bad track", []string{"route", demoHike, "--plan", demoPlanFile, "--track", "other"}, 2, "--track"},
 		{"no track", []string{"route", demoCandidates, "--plan", demoPlanFile}, 1, "no track"},

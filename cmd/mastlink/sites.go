@@ -49,6 +49,9 @@ func runSites(cmd *cobra.Command, g *globals, o *reachOptions, candFile string) 
 	if ctx == nil {
 		ctx = context.Background()
 	}
+	if o.freq != "" && o.targets == "" {
+		return usagef("--freq is the frequency of the targets of --targets; give that file too")
+	}
 	var outKind string
 	var err error
 	if g.out != "" {
