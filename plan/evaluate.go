@@ -53,6 +53,8 @@ type PlanResult struct {
 	Links            []LinkResult      `json:"links"`
 	Exposure         []StationExposure `json:"exposure"`
 	Mast             *MastResult       `json:"mast,omitempty"`
+	Routes           []RouteResult     `json:"routes,omitempty"` // see EvaluatePlanRoutes
+	Sites            *SitesResult      `json:"sites,omitempty"`  // see EvaluatePlanSites
 	Warnings         []string          `json:"warnings"`
 	MeetsRequirement bool              `json:"meets_requirement"` // every required link of every station
 }

@@ -64,13 +64,8 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 		for _, c := range m.Cables {
 			s := st
 			s.Antenna.HeightM = h
-			length := h + m.RunM + m.SlackM
-			fl := NewFeedline(c, length)
-			fl.SWR, fl.Connectors = st.Feedline.SWR, st.Feedline.Connectors
-			if st.Feedline.ConnectorLossDB > 0 {
-				fl.ConnectorLossDB = st.Feedline.ConnectorLossDB
-			}
-			s.Feedline = fl
+			s.Feedline = mastFeedline(st.Feedline, c, h, m)
+			length := s.Feedline.LengthM
 			row := MastRow{HeightM: h, Cable: c.Name, CableLengthM: length, CableMassKg: c.MassKgPerM * length, WorstMarginDB: math.Inf(1)}
 			required := 0
 			for i, t := range targets {

@@ -128,6 +128,11 @@ type Plan struct {
 	Routes     []string // GPX files with tracks, resolved
 	Sites      []string // GPX files with candidate waypoints, resolved
 	InputFiles []string // every file the plan reads, for output guards
+
+	// Defaults is the kit under `defaults:` (a handheld: 0 dBi at 1.5 m
+	// unless the plan says otherwise; no radio unless it gives one), the
+	// kit carried along routes. Its Name and Pos are empty.
+	Defaults End
 }
 
 // Defaults used where a plan file does not say.
@@ -387,6 +392,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 			return nil, err
 		}
 	}
+	pl.Defaults = End{Radio: def.radio, Antenna: def.antenna, Feedline: def.feedline}
 	n := f["stations"]
 	if n == nil || n.Kind != yaml.SequenceNode || len(n.Content) == 0 {
 		return nil, p.errf(orNode(n, root), "stations", "the plan needs at least one station (a list of name, at, radio, antenna, feedline)")

@@ -19,7 +19,7 @@ type exposureOptions struct {
 	standard, height, headHeight, reflection       string
 	cable, cableLength, swr                        string
 	connectors                                     int
-	at                                             string
+	at, distance                                   string
 	points                                         pointResolver
 }
 
@@ -67,6 +67,7 @@ rules decide.`,
 	f.StringVar(&o.cableLength, "cable-length", "", "feedline length [m]")
 	f.StringVar(&o.swr, "swr", "1", "SWR at the antenna")
 	f.IntVar(&o.connectors, "connectors", 0, "mated connector pairs in the feedline")
+	f.StringVar(&o.distance, "distance", "", "distance of the nearest person from the antenna [m]: says whether the station is exempt from routine evaluation there (US § 1.1307(b)(3)(i)(C))")
 	f.StringVar(&o.at, "at", "", "antenna position LAT,LON or waypoint, for -o keepout.geojson/.gpx")
 	addWaypointsFlag(cmd, &o.points)
 	_ = cmd.MarkFlagRequired("power")
@@ -166,6 +167,17 @@ func runExposure(g *globals, o *exposureOptions) error {
 	if err != nil {
 		return usagef("%v", err)
 	}
+	out := exposureOutput{ExposureReport: rep}
+	if o.distance != "" {
+		d, err := quantity("distance", o.distance, plan.ParseLengthM)
+		if err != nil {
+			return err
+		}
+		// The exemption threshold grows as R², so the station is exempt at
+		// every distance from exempt_beyond_m on.
+		ex := d >= rep.ExemptBeyondM
+		out.DistanceM, out.ExemptAtDistance = &d, &ex
+	}
 	if g.out != "" {
 		if o.at == "" {
 			return usagef("-o: the keep-out circles need the antenna position: give --at LAT,LON or a waypoint")
@@ -181,7 +193,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 	}
 	switch g.format {
 	case "json":
-		return writeJSON(g.stdout, rep)
+		return writeJSON(g.stdout, out)
 	case "csv":
 		return writeCSV(g.stdout, []string{"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
 			"limit_public_w_m2", "limit_occupational_w_m2", "distance_public_m", "distance_occupational_m", "keepout_public_m", "keepout_occupational_m"},
@@ -189,7 +201,21 @@ func runExposure(g *globals, o *exposureOptions) error {
 				f4(rep.LimitPublicWM2), f4(rep.LimitOccupationalWM2), f2(rep.DistancePublicM), f2(rep.DistanceOccupationalM), f2(rep.KeepoutPublicM), f2(rep.KeepoutOccupationalM)}})
 	}
 	renderExposureText(g.stdout, rep, o.height != "", g.imperial())
+	if out.DistanceM != nil {
+		verdict := "is exempt from routine evaluation"
+		if !*out.ExemptAtDistance {
+			verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
+		}
+		fmt.Fprintf(g.stdout, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", plan.FormatLength(*out.DistanceM, g.imperial()), verdict)
+	}
 	return nil
+}
+
+// exposureOutput is the JSON of `mastlink exposure`.
+type exposureOutput struct {
+	plan.ExposureReport
+	DistanceM        *float64 `json:"distance_m,omitempty"`         // --distance
+	ExemptAtDistance *bool    `json:"exempt_at_distance,omitempty"` // exempt from routine evaluation at DistanceM
 }
 
 var standardNames = map[plan.ExposureStandard]string{

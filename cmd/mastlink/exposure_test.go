@@ -60,6 +60,25 @@ func TestExposureCycle(t *testing.T) {
 	}
 }
 
+// TestExposureExemptAt: 146 MHz is exempt at 5 m up to 95.8 W ERP and at
+// 2 m up to 15.3 W (47 CFR § 1.1307(b)(3)(i)(C), 3.83 R²; REFERENCES §8).
+// 20 W into a dipole (2.15 dBi: ERP 20 W) continuously is therefore exempt
+// for people 5 m away and not for people 2 m away.
+func TestExposureExemptAt(t *testing.T) {
+	for _, c := range []struct {
+		dist string
+		want bool
+	}{{"5m", true}, {"2m", false}} {
+		out, stderr, code := runCmd(t, "exposure", "--power", "20W", "--gain", "2.15dBi", "--freq", "146", "--distance", c.dist, "--format", "json")
+		if code != 0 {
+			t.Fatal(stderr)
+		}
+		if got := decodeJSON(t, out)["exempt_at_distance"]; got != c.want {
+			t.Errorf("at %s: exempt %v, want %v", c.dist, got, c.want)
+		}
+	}
+}
+
 func TestExposureText(t *testing.T) {
 	out, _, code := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146.52", "--mode", "fm", "--height", "3m")
 	if code != 0 {

@@ -30,7 +30,8 @@ RF-exposure keep-out and, when the plan has a mast section, the lowest mast
 and lightest cable that meet the requirement.
 
 With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
-into DIR for maps, GPS units and spreadsheets.`,
+into DIR for maps, GPS units and spreadsheets, and route-N.geojson and
+sites.geojson when the plan has routes and sites.`,
 		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -68,6 +69,9 @@ func runPlan(ctx context.Context, g *globals, path string) error {
 	res, err := plan.EvaluatePlan(ctx, p, env, bar.update)
 	bar.done()
 	if err != nil {
+		return err
+	}
+	if err := addPlanRoutesAndSites(ctx, g, p, env, res); err != nil {
 		return err
 	}
 	if env.Terrain != nil {
@@ -172,6 +176,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	if res.Mast != nil {
 		renderMastText(w, res.Mast, im)
 	}
+	renderPlanRoutesAndSites(w, res, im)
 	fmt.Fprintln(w, "RF exposure (keep people this far from the mast foot while transmitting)")
 	t := newTable(w)
 	t.row("  station", "MHz", "EIRP", "public", "operators", "limits")
@@ -288,7 +293,22 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 	if err := renderTo(filepath.Join(dir, "links.csv"), inputs, func(w io.Writer) error { return writeLinksCSV(w, res.Links) }); err != nil {
 		return err
 	}
-	fmt.Fprintf(g.stderr, "mastlink: wrote links.geojson, keepout.geojson, plan.gpx and links.csv to %s\n", dir)
+	written := []string{"links.geojson", "keepout.geojson", "plan.gpx", "links.csv"}
+	for i := range res.Routes {
+		r := &res.Routes[i]
+		name := fmt.Sprintf("route-%d.geojson", i+1)
+		if err := renderTo(filepath.Join(dir, name), inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(r)) }); err != nil {
+			return err
+		}
+		written = append(written, name)
+	}
+	if res.Sites != nil {
+		if err := renderTo(filepath.Join(dir, "sites.geojson"), inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res.Sites)) }); err != nil {
+			return err
+		}
+		written = append(written, "sites.geojson")
+	}
+	fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(written, ", "), dir)
 	return nil
 }
 

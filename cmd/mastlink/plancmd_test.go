@@ -96,7 +96,7 @@ func TestPlanOutputs(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("code %d: %s", code, stderr)
 	}
-	for _, name := range []string{"links.geojson", "keepout.geojson"} {
+	for _, name := range []string{"links.geojson", "keepout.geojson", "route-1.geojson", "sites.geojson"} {
 		b, err := os.ReadFile(filepath.Join(dir, name))
 		if err != nil {
 			t.Fatal(err)

@@ -1,0 +1,312 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/mastlink/mastlink/plan"
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+	"github.com/spf13/cobra"
+)
+
+func init() { commandConstructors = append(commandConstructors, newRouteCmd) }
+
+type routeOptions struct {
+	reachOptions
+	spacing, track string
+}
+
+func newRouteCmd(g *globals) *cobra.Command {
+	o := &routeOptions{}
+	cmd := &cobra.Command{
+		Use:   "route TRACK.gpx [--plan FILE] [--targets FILE.gpx] [--spacing L]",
+		Short: "Coverage along a track: where the targets can be reached, the dead stretches, the best spots to call from",
+		Long: `Walks a GPX track (or route) with a radio and checks, every --spacing metres
+along it, every target in both directions over the terrain: talk-in and
+talk-out for repeaters, out and back for simplex targets. It reports the
+share of the distance where each target (and every required one at once)
+meets the margin, the dead stretches, and the best spots to call from just
+before and after each.
+
+With --plan the kit carried is the plan's defaults (a handheld), or the
+station named by --station; the targets are the plan's targets and its
+stations (simplex on the plan's frequency). Without a plan the kit comes from
+--power, --gain, --height, --rx-sens … and the targets from --targets, each a
+waypoint with the same kit.
+
+-o writes F.geojson (the track in covered and uncovered pieces), F.gpx (the
+track with waypoints at the ends of dead stretches and at the best spots) or
+F.csv (every checked point).`,
+		Example: "  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml\n" +
+			"  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml -o hike-coverage.gpx\n" +
+			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runRoute(cmd, g, o, args[0])
+		},
+	}
+	addReachFlags(cmd, &o.reachOptions, plan.HandheldName)
+	cmd.Flags().StringVar(&o.spacing, "spacing", "50m", "distance between checked points along the track [m]")
+	cmd.Flags().StringVar(&o.track, "track", "", "name of the track or route in the file (default: the first)")
+	return cmd
+}
+
+func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string) error {
+	ctx := cmd.Context()
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	if o.freq != "" && o.targets == "" {
+		return usagef("--freq is the frequency of the targets of --targets; give that file too")
+	}
+	spacing, err := quantity("spacing", o.spacing, plan.ParseLengthM)
+	if err != nil {
+		return err
+	}
+	if !(spacing > 0) {
+		return usagef("--spacing: give a distance above 0 m")
+	}
+	var outKind string
+	if g.out != "" {
+		if outKind, err = outputKind(g.out, "geojson", "gpx", "csv"); err != nil {
+			return err
+		}
+	}
+	gf, err := plan.ReadGPX(trackFile)
+	if err != nil {
+		return err
+	}
+	track, err := pickTrack(g, gf, o.track)
+	if err != nil {
+		return err
+	}
+	r, err := o.resolve(cmd, g, false)
+	if err != nil {
+		return err
+	}
+	inputs := append([]string{trackFile}, r.inputs...)
+	if g.out != "" {
+		if err := checkNotInput("--out", g.out, inputs); err != nil {
+			return err
+		}
+	}
+	bar := newProgress(g, "paths")
+	res, err := r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, bar.update)
+	bar.done()
+	if err != nil {
+		return err
+	}
+	g.warnMissing(r.env.Terrain)
+	switch outKind {
+	case "geojson":
+		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
+	case "gpx":
+		err = writeRouteGPX(g.out, inputs, track, res)
+	case "csv":
+		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
+	}
+	if err != nil {
+		return err
+	}
+	if g.out != "" {
+		fmt.Fprintf(g.stderr, "mastlink: wrote %s\n", g.out)
+	}
+	switch g.format {
+	case "json":
+		return writeJSON(g.stdout, res)
+	case "csv":
+		return writeRouteCSV(g.stdout, res)
+	}
+	renderRouteText(g.stdout, res, g.imperial())
+	return nil
+}
+
+// pickTrack returns the track or route called name, or the first.
+func pickTrack(g *globals, gf *plan.GPXFile, name string) (plan.Track, error) {
+	if len(gf.Tracks) == 0 {
+		return plan.Track{}, fmt.Errorf("%s has no track or route: record the walk as a GPX track", gf.Path)
+	}
+	if name == "" {
+		if len(gf.Tracks) > 1 {
+			fmt.Fprintf(g.stderr, "mastlink: %s holds %d tracks and routes; checking the first, %q (choose with --track)\n", gf.Path, len(gf.Tracks), gf.Tracks[0].Name)
+		}
+		return gf.Tracks[0], nil
+	}
+	var names []string
+	for _, t := range gf.Tracks {
+		if strings.EqualFold(strings.TrimSpace(t.Name), strings.TrimSpace(name)) {
+			return t, nil
+		}
+		names = append(names, fmt.Sprintf("%q", t.Name))
+	}
+	return plan.Track{}, usagef("--track: %s has no track or route %q (it has %s)", gf.Path, name, strings.Join(names, ", "))
+}
+
+// renderRouteText writes a route's coverage as a short briefing.
+func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
+	fmt.Fprintf(w, "Route: %s\n", r.Name)
+	fmt.Fprintf(w, "  %s checked every %s (%d points) carrying the %s kit; %.1f dB of margin needed both ways\n",
+		plan.FormatLength(r.LengthM, im), plan.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB)
+	if r.Terrain == "smooth earth" {
+		fmt.Fprintln(w, "  (no elevation data along the way: a smooth earth)")
+	}
+	fmt.Fprintln(w)
+	t := newTable(w)
+	t.row("  target", "ways", "covered", "best margin")
+	for _, x := range r.Targets {
+		name := x.Name
+		if x.Optional {
+			name += " (optional)"
+		}
+		t.row("  "+name, strings.Join(x.Directions, "/"), percent(x.Fraction),
+			fmt.Sprintf("%s at %s", db(x.BestMarginDB), plan.FormatLength(x.BestDistanceM, im)))
+	}
+	t.row("  every required target", "", percent(r.OverallFraction), "")
+	t.flush()
+	fmt.Fprintln(w)
+	if len(r.Gaps) == 0 {
+		fmt.Fprintln(w, "  No dead stretches: every required target is in reach all the way.")
+	} else {
+		fmt.Fprintln(w, "  Dead stretches (some required target out of reach):")
+		for _, gp := range r.Gaps {
+			fmt.Fprintf(w, "    %s to %s (%s): %s\n", plan.FormatLength(gp.StartM, im), plan.FormatLength(gp.EndM, im),
+				plan.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, "; "))
+		}
+	}
+	if len(r.BestSpots) > 0 {
+		fmt.Fprintln(w, "\n  Best spots to call from, before and after each target's dead stretches:")
+		t := newTable(w)
+		t.row("    target", "dead stretch", "call at", "position", "margin")
+		for _, s := range r.BestSpots {
+			t.row("    "+s.Target, fmt.Sprintf("%s–%s", plan.FormatLength(s.GapStartM, im), plan.FormatLength(s.GapEndM, im)),
+				fmt.Sprintf("%s (%s)", plan.FormatLength(s.DistanceM, im), s.Side), fmt.Sprintf("%.5f,%.5f", s.Lat, s.Lon), db(s.MarginDB))
+		}
+		t.flush()
+	}
+	for _, x := range r.Targets {
+		if !x.Optional && x.Fraction == 0 {
+			fmt.Fprintf(w, "\n  %s is out of reach all along the route (best %s at %s).\n", x.Name, db(x.BestMarginDB), plan.FormatLength(x.BestDistanceM, im))
+		}
+	}
+	fmt.Fprintln(w)
+}
+
+func percent(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
+
+// writeRouteCSV writes one row per checked point.
+func writeRouteCSV(w io.Writer, r *plan.RouteResult) error {
+	header := []string{"distance_m", "lat", "lon", "elevation_m", "worst_margin_db", "covered"}
+	for _, t := range r.Targets {
+		header = append(header, t.Name+" margin_db")
+	}
+	rows := make([][]string, len(r.Points))
+	for i, p := range r.Points {
+		row := []string{f1(p.DistanceM), fmt.Sprintf("%.7f", p.Lat), fmt.Sprintf("%.7f", p.Lon), f1(p.ElevationM), f2(p.WorstMarginDB), fmt.Sprint(p.Covered)}
+		for _, m := range p.MarginsDB {
+			row = append(row, f2(m))
+		}
+		rows[i] = row
+	}
+	return writeCSV(w, header, rows)
+}
+
+// routeGeoJSON splits the track into covered and uncovered pieces (the
+// overall coverage), with their figures as properties, and adds the best
+// spots as points.
+func routeGeoJSON(r *plan.RouteResult) *geojson.FeatureCollection {
+	fc := geojson.NewFeatureCollection()
+	pts := r.Points
+	edge := func(k int) float64 {
+		switch {
+		case k <= 0:
+			return 0
+		case k >= len(pts):
+			return r.LengthM
+		}
+		return (pts[k-1].DistanceM + pts[k].DistanceM) / 2
+	}
+	for k := 0; k < len(pts); {
+		j := k
+		worst := math.Inf(1)
+		per := make([]float64, len(r.Targets))
+		for i := range per {
+			per[i] = math.Inf(1)
+		}
+		for j < len(pts) && pts[j].Covered == pts[k].Covered {
+			worst = math.Min(worst, pts[j].WorstMarginDB)
+			for i, m := range pts[j].MarginsDB {
+				per[i] = math.Min(per[i], m)
+			}
+			j++
+		}
+		from, to := edge(k), edge(j)
+		f := geojson.NewFeature(r.Piece(from, to))
+		f.Properties["covered"] = pts[k].Covered
+		f.Properties["start_m"] = round2(from)
+		f.Properties["end_m"] = round2(to)
+		f.Properties["length_m"] = round2(to - from)
+		f.Properties["worst_margin_db"] = round2(worst)
+		margins := map[string]any{}
+		var out []string
+		for i, t := range r.Targets {
+			margins[t.Name] = round2(per[i])
+			if !t.Optional && per[i] < r.NeededMarginDB {
+				out = append(out, t.Name)
+			}
+		}
+		f.Properties["worst_margins_db"] = margins
+		if out != nil {
+			f.Properties["out_of_reach"] = out
+		}
+		fc.Append(f)
+		k = j
+	}
+	for _, s := range r.BestSpots {
+		f := geojson.NewFeature(orb.Point{s.Lon, s.Lat})
+		f.Properties["best_spot"] = true
+		f.Properties["target"] = s.Target
+		f.Properties["side"] = s.Side
+		f.Properties["distance_m"] = round2(s.DistanceM)
+		f.Properties["margin_db"] = round2(s.MarginDB)
+		f.Properties["gap_start_m"] = round2(s.GapStartM)
+		f.Properties["gap_end_m"] = round2(s.GapEndM)
+		fc.Append(f)
+	}
+	return fc
+}
+
+// writeRouteGPX writes the track with waypoints at the ends of every dead
+// stretch and at the best spots, their margins in the descriptions; times
+// (UTC) are the track's, interpolated along it, where it has them.
+func writeRouteGPX(path string, inputs []string, track plan.Track, r *plan.RouteResult) error {
+	out := plan.GPXOutput{Name: "Coverage along " + r.Name, Tracks: []plan.Track{track}}
+	for i, gp := range r.Gaps {
+		for _, end := range []struct {
+			name string
+			d    float64
+			desc string
+		}{
+			{fmt.Sprintf("Gap %d start", i+1), gp.StartM, fmt.Sprintf("coverage lost for %.1f km: %s out of reach (worst margin %+.1f dB)", gp.LengthM/1000, strings.Join(gp.Missing, "; "), gp.WorstMarginDB)},
+			{fmt.Sprintf("Gap %d end", i+1), gp.EndM, fmt.Sprintf("coverage back after %.1f km", gp.LengthM/1000)},
+		} {
+			lat, lon, tm := r.PositionAt(end.d)
+			out.Waypoints = append(out.Waypoints, plan.Place{Name: end.name, Pos: orb.Point{lon, lat}, ElevM: math.NaN(), Time: tm, Symbol: "Danger Area",
+				Description: fmt.Sprintf("%s at %.2f km along the track", end.desc, end.d/1000)})
+		}
+	}
+	for _, s := range r.BestSpots {
+		_, _, tm := r.PositionAt(s.DistanceM)
+		out.Waypoints = append(out.Waypoints, plan.Place{Name: "Call " + s.Target, Pos: orb.Point{s.Lon, s.Lat}, ElevM: s.ElevationM, Time: tm, Symbol: "Flag",
+			Description: fmt.Sprintf("best spot %s the dead stretch %.2f–%.2f km: margin %+.1f dB to %s, at %.2f km along the track",
+				s.Side, s.GapStartM/1000, s.GapEndM/1000, s.MarginDB, s.Target, s.DistanceM/1000)})
+	}
+	b, err := plan.EncodeGPX(out)
+	if err != nil {
+		return err
+	}
+	return writeFileAtomic(path, b, inputs)
+}

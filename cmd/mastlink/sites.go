@@ -1,0 +1,176 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+
+	"github.com/mastlink/mastlink/plan"
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+	"github.com/spf13/cobra"
+)
+
+func init() { commandConstructors = append(commandConstructors, newSitesCmd) }
+
+func newSitesCmd(g *globals) *cobra.Command {
+	o := &reachOptions{}
+	cmd := &cobra.Command{
+		Use:   "sites CANDIDATES.gpx [--plan FILE]",
+		Short: "Rank candidate sites for a station by how well each reaches every target",
+		Long: `Sets the station up at every waypoint of CANDIDATES.gpx and checks every
+target in both directions over the terrain. The candidates are ranked by
+their worst margin over the required links, then by how many required
+targets they reach both ways. For each, the lowest mast that meets the
+requirement is given: from the plan's mast sweep (with the lightest cable
+that does it), or the station's own antenna height when the plan has no
+sweep.
+
+With --plan the station is the plan's first (or --station NAME) and the
+targets are the plan's targets and other stations. Without a plan the kit
+comes from --power, --gain, --height, --rx-sens … and the targets from
+--targets, each a waypoint with the same kit.
+
+-o F.geojson writes the candidates as points with their figures, and
+F.csv the ranking.`,
+		Example: "  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml\n" +
+			"  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml -o sites.geojson",
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runSites(cmd, g, o, args[0])
+		},
+	}
+	addReachFlags(cmd, o, "station")
+	return cmd
+}
+
+func runSites(cmd *cobra.Command, g *globals, o *reachOptions, candFile string) error {
+	ctx := cmd.Context()
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	if o.freq != "" && o.targets == "" {
+		return usagef("--freq is the frequency of the targets of --targets; give that file too")
+	}
+	var outKind string
+	var err error
+	if g.out != "" {
+		if outKind, err = outputKind(g.out, "geojson", "csv"); err != nil {
+			return err
+		}
+	}
+	gf, err := plan.ReadGPX(candFile)
+	if err != nil {
+		return err
+	}
+	if len(gf.Waypoints) == 0 {
+		return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", candFile)
+	}
+	r, err := o.resolve(cmd, g, true)
+	if err != nil {
+		return err
+	}
+	inputs := append([]string{candFile}, r.inputs...)
+	if g.out != "" {
+		if err := checkNotInput("--out", g.out, inputs); err != nil {
+			return err
+		}
+	}
+	bar := newProgress(g, "paths")
+	res, err := r.env.RankSites(ctx, plan.SitesRequest{Candidates: gf.Waypoints, Station: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, Mast: r.mast}, bar.update)
+	bar.done()
+	if err != nil {
+		return err
+	}
+	g.warnMissing(r.env.Terrain)
+	switch outKind {
+	case "geojson":
+		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res)) })
+	case "csv":
+		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
+	}
+	if err != nil {
+		return err
+	}
+	if g.out != "" {
+		fmt.Fprintf(g.stderr, "mastlink: wrote %s\n", g.out)
+	}
+	switch g.format {
+	case "json":
+		return writeJSON(g.stdout, res)
+	case "csv":
+		return writeSitesCSV(g.stdout, res)
+	}
+	renderSitesText(g.stdout, res, g.imperial())
+	return nil
+}
+
+// renderSitesText writes the ranking as a table.
+func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
+	mast := fmt.Sprintf("its own %s antenna height", plan.FormatHeight(s.HeightM, im))
+	if n := len(s.MastHeightsM); n > 0 {
+		mast = fmt.Sprintf("masts of %s to %s", plan.FormatHeight(s.MastHeightsM[0], im), plan.FormatHeight(s.MastHeightsM[n-1], im))
+	}
+	fmt.Fprintf(w, "Candidate sites for %s (%.1f dB of margin needed both ways; %s)\n", s.Station, s.NeededMarginDB, mast)
+	t := newTable(w)
+	t.row("  rank", "site", "ground", "worst margin", "worst link", "reaches", "lowest mast")
+	for _, c := range s.Sites {
+		m := "none meets it"
+		if c.MastM != nil {
+			m = plan.FormatHeight(*c.MastM, im)
+			if c.Cable != "" {
+				m += " with " + c.Cable
+			}
+		}
+		t.row(fmt.Sprintf("  %d", c.Rank), c.Name, plan.FormatHeight(c.GroundM, im), db(c.WorstMarginDB), c.WorstLink,
+			fmt.Sprintf("%d of %d", c.Reachable, c.Of), m)
+	}
+	t.flush()
+	fmt.Fprintln(w, "  Raise masts only where a falling mast cannot reach a power line; guy them against wind.")
+	fmt.Fprintln(w)
+}
+
+// writeSitesCSV writes one row per candidate, best first.
+func writeSitesCSV(w io.Writer, s *plan.SitesResult) error {
+	header := []string{"rank", "name", "lat", "lon", "ground_m", "worst_margin_db", "worst_link", "reachable", "of", "mast_m", "cable"}
+	rows := make([][]string, len(s.Sites))
+	for i, c := range s.Sites {
+		m := ""
+		if c.MastM != nil {
+			m = f1(*c.MastM)
+		}
+		rows[i] = []string{fmt.Sprint(c.Rank), c.Name, fmt.Sprintf("%.7f", c.Lat), fmt.Sprintf("%.7f", c.Lon), f1(c.GroundM), f2(c.WorstMarginDB),
+			c.WorstLink, fmt.Sprint(c.Reachable), fmt.Sprint(c.Of), m, c.Cable}
+	}
+	return writeCSV(w, header, rows)
+}
+
+// sitesGeoJSON writes the candidates as points with their figures.
+func sitesGeoJSON(s *plan.SitesResult) *geojson.FeatureCollection {
+	fc := geojson.NewFeatureCollection()
+	for _, c := range s.Sites {
+		f := geojson.NewFeature(orb.Point{c.Lon, c.Lat})
+		f.Properties["name"] = c.Name
+		f.Properties["rank"] = c.Rank
+		f.Properties["ground_m"] = round2(c.GroundM)
+		f.Properties["worst_margin_db"] = round2(c.WorstMarginDB)
+		f.Properties["worst_link"] = c.WorstLink
+		f.Properties["reachable"] = c.Reachable
+		f.Properties["of"] = c.Of
+		if c.MastM != nil {
+			f.Properties["mast_m"] = *c.MastM
+		} else {
+			f.Properties["mast_m"] = nil
+		}
+		if c.Cable != "" {
+			f.Properties["cable"] = c.Cable
+		}
+		margins := map[string]any{}
+		for _, t := range c.Targets {
+			margins[t.Name] = round2(t.MarginDB)
+		}
+		f.Properties["margins_db"] = margins
+		fc.Append(f)
+	}
+	return fc
+}
