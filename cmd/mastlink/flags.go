@@ -7,9 +7,68 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 )
+
+// envFlags are the radio-climate and model flags of the commands that
+// compute paths: link, route and sites.
+type envFlags struct {
+	k, model, polarization, ground, step string
+}
+
+func addEnvFlags(cmd *cobra.Command, e *envFlags) {
+	f := cmd.Flags()
+	f.StringVar(&e.k, "k", "4/3", "effective earth-radius factor")
+	f.StringVar(&e.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington) or free-space")
+	f.StringVar(&e.polarization, "polarization", "vertical", "vertical or horizontal")
+	f.StringVar(&e.ground, "ground", "land", "ground constants: land or sea (ITU-R P.1812)")
+	f.StringVar(&e.step, "step", "", "profile sample spacing [m] (default: the elevation data's spacing)")
+}
+
+// env builds the link environment from the flags (terrain not yet set).
+func (e *envFlags) env() (*plan.Env, error) {
+	env := &plan.Env{Vertical: true}
+	var err error
+	if env.K, err = kFactor(e.k); err != nil {
+		return nil, err
+	}
+	if env.Model, err = propagation.ModelByName(e.model); err != nil {
+		return nil, usagef("--model: %q is not a model (use %s)", e.model, strings.Join(propagation.ModelNames(), " or "))
+	}
+	switch e.polarization {
+	case "vertical", "horizontal":
+		env.Vertical = e.polarization == "vertical"
+	default:
+		return nil, usagef("--polarization: %q is not vertical or horizontal", e.polarization)
+	}
+	switch e.ground {
+	case "land", "sea":
+		env.Sea = e.ground == "sea"
+	default:
+		return nil, usagef("--ground: %q is not land or sea", e.ground)
+	}
+	if env.StepM, err = e.stepM(); err != nil {
+		return nil, err
+	}
+	return env, nil
+}
+
+// stepM parses --step; 0 when it is not given.
+func (e *envFlags) stepM() (float64, error) {
+	if e.step == "" {
+		return 0, nil
+	}
+	v, err := quantity("step", e.step, plan.ParseLengthM)
+	if err != nil {
+		return 0, err
+	}
+	if v <= 0 {
+		return 0, usagef("--step: give a spacing above 0 m")
+	}
+	return v, nil
+}
 
 // quantity parses the value of a quantity flag with fn; an error names the
 // flag and is a usage error (exit code 2).

@@ -6,7 +6,6 @@ import (
 	"math"
 
 	"github.com/mastlink/mastlink/plan"
-	"github.com/mastlink/mastlink/propagation"
 	"github.com/spf13/cobra"
 )
 
@@ -19,11 +18,11 @@ type endFlags struct {
 }
 
 type linkOptions struct {
-	from, to, freq                                     string
-	tx, rx                                             endFlags
-	k, model, polarization, ground, sigma, reliability string
-	step, profile, margin                              string
-	points                                             pointResolver
+	from, to, freq string
+	tx, rx         endFlags
+	envFlags
+	sigma, reliability, profile, margin string
+	points                              pointResolver
 }
 
 func newLinkCmd(g *globals) *cobra.Command {
@@ -66,15 +65,11 @@ smooth earth. --profile takes the terrain from a CSV file instead.`,
 	f.IntVar(&o.rx.connectors, "to-connectors", 0, "mated connector pairs in the receiving feedline")
 	f.StringVar(&o.rx.swr, "to-swr", "1", "SWR at the receiving antenna")
 	f.StringVar(&o.rx.sens, "rx-sens", "0.25uV", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
-	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
-	f.StringVar(&o.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington) or free-space")
-	f.StringVar(&o.polarization, "polarization", "vertical", "vertical or horizontal")
-	f.StringVar(&o.ground, "ground", "land", "ground constants: land or sea (ITU-R P.1812)")
 	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] for the probability of working")
 	f.StringVar(&o.reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: gives the margin needed")
 	f.StringVar(&o.margin, "margin", "", "wanted fade margin [dB]")
-	f.StringVar(&o.step, "step", "", "profile sample spacing [m] (default: the elevation data's spacing)")
 	f.StringVar(&o.profile, "profile", "", "terrain profile CSV (distance_m or distance_km, elevation_m, optional clutter_m) instead of elevation data")
+	addEnvFlags(cmd, &o.envFlags)
 	addWaypointsFlag(cmd, &o.points)
 	_ = cmd.MarkFlagRequired("freq")
 	return cmd
@@ -146,24 +141,9 @@ func runLink(g *globals, o *linkOptions) error {
 	if err != nil {
 		return err
 	}
-	env := plan.Env{Vertical: true}
-	if env.K, err = kFactor(o.k); err != nil {
+	env, err := o.envFlags.env()
+	if err != nil {
 		return err
-	}
-	if env.Model, err = propagation.ModelByName(o.model); err != nil {
-		return usagef("--model: %q is not a model (use terrain or free-space)", o.model)
-	}
-	switch o.polarization {
-	case "vertical", "horizontal":
-		env.Vertical = o.polarization == "vertical"
-	default:
-		return usagef("--polarization: %q is not vertical or horizontal", o.polarization)
-	}
-	switch o.ground {
-	case "land", "sea":
-		env.Sea = o.ground == "sea"
-	default:
-		return usagef("--ground: %q is not land or sea", o.ground)
 	}
 	if env.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
 		return err
@@ -180,14 +160,6 @@ func runLink(g *globals, o *linkOptions) error {
 	if o.margin != "" {
 		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
 			return err
-		}
-	}
-	if o.step != "" {
-		if env.StepM, err = quantity("step", o.step, plan.ParseLengthM); err != nil {
-			return err
-		}
-		if env.StepM <= 0 {
-			return usagef("--step: give a spacing above 0 m")
 		}
 	}
 	var geo *plan.Geometry

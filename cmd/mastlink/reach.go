@@ -5,20 +5,19 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
-	"github.com/mastlink/mastlink/propagation"
 	"github.com/spf13/cobra"
 )
 
 // reachOptions are the flags route and sites share: a plan file, or a kit,
 // targets and radio climate given by flags.
 type reachOptions struct {
-	planFile, station, targets, freq     string
-	kit                                  endFlags
-	k, model, polarization, ground, step string
-	margin, reliability, sigma           string
-	only                                 []string // --target: reach only these
-	kitFlags                             []string // names of the flags a plan replaces
-	kitName                              string   // the kit's name without a plan
+	planFile, station, targets, freq string
+	kit                              endFlags
+	envFlags
+	margin, reliability, sigma string
+	only                       []string // --target: reach only these
+	kitFlags                   []string // names of the flags a plan replaces
+	kitName                    string   // the kit's name without a plan
 }
 
 func addReachFlags(cmd *cobra.Command, o *reachOptions, kitName string) {
@@ -40,11 +39,7 @@ func addReachFlags(cmd *cobra.Command, o *reachOptions, kitName string) {
 	f.StringVar(&o.margin, "margin", "10dB", "margin every direction must meet [dB]")
 	f.StringVar(&o.reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: raises the margin needed")
 	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
-	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
-	f.StringVar(&o.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington) or free-space")
-	f.StringVar(&o.polarization, "polarization", "vertical", "vertical or horizontal")
-	f.StringVar(&o.ground, "ground", "land", "ground constants: land or sea (ITU-R P.1812)")
-	f.StringVar(&o.step, "step", "", "profile sample spacing [m] (default: the elevation data's spacing)")
+	addEnvFlags(cmd, &o.envFlags)
 	o.kitFlags = []string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens", "margin", "reliability", "sigma", "k", "model", "polarization", "ground"}
 }
 
@@ -86,16 +81,14 @@ func (o *reachOptions) resolve(cmd *cobra.Command, g *globals, forSites bool) (*
 		}
 		r.targets = p.ReachTargets(r.kit.Name)
 		r.needDB = p.Require.NeededMarginDB()
-		if o.step != "" {
-			if env.StepM, err = quantity("step", o.step, plan.ParseLengthM); err != nil {
-				return nil, err
-			}
+		if env.StepM, err = o.stepM(); err != nil {
+			return nil, err
 		}
 	} else {
 		if o.station != "" {
 			return nil, usagef("--station needs --plan")
 		}
-		env, err := o.env()
+		env, err := o.envFlags.env()
 		if err != nil {
 			return nil, err
 		}
@@ -169,39 +162,6 @@ func onlyTargets(all []plan.Target, names []string) ([]plan.Target, error) {
 		}
 	}
 	return out, nil
-}
-
-// env builds the link environment from the flags.
-func (o *reachOptions) env() (*plan.Env, error) {
-	env := &plan.Env{Vertical: true}
-	var err error
-	if env.K, err = kFactor(o.k); err != nil {
-		return nil, err
-	}
-	if env.Model, err = propagation.ModelByName(o.model); err != nil {
-		return nil, usagef("--model: %q is not a model (use terrain or free-space)", o.model)
-	}
-	switch o.polarization {
-	case "vertical", "horizontal":
-		env.Vertical = o.polarization == "vertical"
-	default:
-		return nil, usagef("--polarization: %q is not vertical or horizontal", o.polarization)
-	}
-	switch o.ground {
-	case "land", "sea":
-		env.Sea = o.ground == "sea"
-	default:
-		return nil, usagef("--ground: %q is not land or sea", o.ground)
-	}
-	if o.step != "" {
-		if env.StepM, err = quantity("step", o.step, plan.ParseLengthM); err != nil {
-			return nil, err
-		}
-		if env.StepM <= 0 {
-			return nil, usagef("--step: give a spacing above 0 m")
-		}
-	}
-	return env, nil
 }
 
 // readTargets makes every waypoint of --targets a simplex target on --freq
