@@ -16,6 +16,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
 
@@ -813,19 +814,12 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 	return rep, nil
 }
 
-// WGS84 ellipsoid (NIMA TR8350.2, 3rd ed., Table 3.1): semi-major axis in
-// metres and flattening, for the local radii of curvature of KeepOutCircle.
-const (
-	exposureWGS84AM = 6378137.0
-	exposureWGS84F  = 1 / 298.257223563
-)
-
 // KeepOutCircleVertices is the number of distinct vertices of the ring
 // returned by KeepOutCircle (one every 5° of bearing).
 const KeepOutCircleVertices = 72
 
-// keepOutCircleMaxRadiusM bounds KeepOutCircle's radius, in metres, to where
-// its local-plane construction stays within centimetres of the geodesic.
+// keepOutCircleMaxRadiusM bounds KeepOutCircle's radius, in metres: far
+// beyond any keep-out zone, so a larger radius is a mistake.
 const keepOutCircleMaxRadiusM = 10000.0
 
 // KeepOutCircle returns a polygon approximating the circle of radius
@@ -833,11 +827,9 @@ const keepOutCircleMaxRadiusM = 10000.0
 // (lon, lat in degrees, |lat| ≤ 89°): one ring of KeepOutCircleVertices
 // vertices at bearings 0°, 355°, 350°, … (counter-clockwise, as RFC 7946
 // §3.1.6 asks of an exterior ring), closed by repeating the first vertex.
-// Each vertex is offset from the centre in the local tangent plane using the
-// meridional and prime-vertical radii of curvature at the mid-latitude of the
-// offset; the vertices lie within a millimetre of the geodesic distance up
-// to 2 km, and within centimetres at 10 km. Longitudes are not wrapped at
-// ±180°.
+// Each vertex is the end of the geodesic of length radiusM leaving the
+// centre at its bearing (the direct problem by Karney's algorithm,
+// terrain.Direct), so it lies exactly radiusM from the centre.
 // A radius of 0 gives a nil polygon (nothing to keep out); a negative or
 // too-large radius or an invalid centre gives an error wrapping
 // ErrExposureInput.
@@ -851,25 +843,12 @@ func KeepOutCircle(center orb.Point, radiusM float64) (orb.Polygon, error) {
 	case radiusM == 0:
 		return nil, nil
 	}
-	e2 := exposureWGS84F * (2 - exposureWGS84F)
-	// radii returns the meridional (M) and prime-vertical (N) radii of
-	// curvature in metres at latitude phi (radians).
-	radii := func(phi float64) (m, n float64) {
-		w := 1 - e2*math.Sin(phi)*math.Sin(phi)
-		n = exposureWGS84AM / math.Sqrt(w)
-		return n * (1 - e2) / w, n
-	}
-	phi0 := lat * math.Pi / 180
 	ring := make(orb.Ring, 0, KeepOutCircleVertices+1)
 	for i := range KeepOutCircleVertices {
-		bearing := -float64(i) * 360 / KeepOutCircleVertices * math.Pi / 180
-		north, east := radiusM*math.Cos(bearing), radiusM*math.Sin(bearing)
-		m, _ := radii(phi0)
-		phiMid := phi0 + north/m/2
-		m, n := radii(phiMid)
-		dPhi := north / m
-		dLam := east / (n * math.Cos(phiMid))
-		ring = append(ring, orb.Point{lon + dLam*180/math.Pi, lat + dPhi*180/math.Pi})
+		// Counter-clockwise (RFC 7946 §3.1.6): bearings decrease from north.
+		bearing := -float64(i) * 360 / KeepOutCircleVertices
+		la, lo, _ := terrain.Direct(lat, lon, bearing, radiusM) // Karney's geodesic on WGS84
+		ring = append(ring, orb.Point{lo, la})
 	}
 	ring = append(ring, ring[0])
 	return orb.Polygon{ring}, nil
