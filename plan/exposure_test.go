@@ -598,6 +598,12 @@ func TestEvaluateExposureInvalid(t *testing.T) {
 	if _, err := ExposureLimitFor("who", TierPublic, 146); !errors.Is(err, ErrExposureInput) {
 		t.Errorf("unknown standard: err = %v", err)
 	}
+	// An empty or capitalised name reads as by ParseExposureStandard.
+	for _, name := range []ExposureStandard{"", "FCC", " fcc "} {
+		if lim, err := ExposureLimitFor(name, TierPublic, 146); err != nil || lim.PowerDensityWM2 != 2 {
+			t.Errorf("standard %q: limit %v, err %v; want the FCC's 2 W/m² at 146 MHz", name, lim, err) // § 1.1310 Table 1: 0.2 mW/cm²
+		}
+	}
 }
 
 func TestExposureReportJSON(t *testing.T) {
