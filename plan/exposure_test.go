@@ -650,9 +650,9 @@ func TestExposureReportJSON(t *testing.T) {
 	}
 }
 
-// requireCrossChecks reports whether MASTLINK_REQUIRE_CROSSCHECKS=1 makes a
+// exposureRequireCrossChecks reports whether MASTLINK_REQUIRE_CROSSCHECKS=1 makes a
 // missing reference tool a failure instead of a skip.
-func requireCrossChecks() bool { return os.Getenv("MASTLINK_REQUIRE_CROSSCHECKS") == "1" }
+func exposureRequireCrossChecks() bool { return os.Getenv("MASTLINK_REQUIRE_CROSSCHECKS") == "1" }
 
 func TestKeepOutCircle(t *testing.T) {
 	center := orb.Point{10.12, 40.02} // an arbitrary point at 40° N
@@ -701,7 +701,7 @@ func TestKeepOutCircle(t *testing.T) {
 func TestKeepOutCircleGeodSolve(t *testing.T) {
 	path, err := exec.LookPath("GeodSolve")
 	if err != nil {
-		if requireCrossChecks() {
+		if exposureRequireCrossChecks() {
 			t.Fatal("GeodSolve (Debian geographiclib-tools) not found and MASTLINK_REQUIRE_CROSSCHECKS=1")
 		}
 		t.Skip("GeodSolve (Debian geographiclib-tools) not found; install it to run this cross-check")
