@@ -258,9 +258,14 @@ func icnirp1998Averaging(freqMHz float64) time.Duration {
 //     min above 10 GHz) [from memory, to verify]; below 10 MHz the plane-wave
 //     equivalent of the E and H reference levels.
 //
-// A frequency outside the range, an unknown standard or tier gives an error
-// wrapping ErrExposureInput.
+// The standard's name is read as by ParseExposureStandard ("" is
+// StandardFCC). A frequency outside the range, an unknown standard or tier
+// gives an error wrapping ErrExposureInput.
 func ExposureLimitFor(std ExposureStandard, tier ExposureTier, freqMHz float64) (ExposureLimit, error) {
+	std, err := ParseExposureStandard(string(std))
+	if err != nil {
+		return ExposureLimit{}, err
+	}
 	if err := checkExposureFreq(freqMHz); err != nil {
 		return ExposureLimit{}, err
 	}
@@ -285,8 +290,7 @@ func ExposureLimitFor(std ExposureStandard, tier ExposureTier, freqMHz float64) 
 		}
 		return ExposureLimit{lookupBand(icnirp1998PublicBands, freqMHz), icnirp1998Averaging(freqMHz)}, nil
 	}
-	_, err := ParseExposureStandard(string(std))
-	return ExposureLimit{}, err
+	return ExposureLimit{}, fmt.Errorf("%w: unknown exposure standard %q", ErrExposureInput, std) // not reached
 }
 
 // TxMode is an emission mode, which sets the duty factor of the transmitted
