@@ -137,3 +137,19 @@ func (r *pointResolver) resolve(flag, value string) (orb.Point, string, error) {
 func addWaypointsFlag(cmd *cobra.Command, r *pointResolver) {
 	cmd.Flags().StringVar(&r.file, "waypoints", "", "GPX file whose waypoint names may stand for points")
 }
+
+// addKitFlags registers the antenna and feedline flags of one end of a link:
+// prefix is "" or "to-", what ("transmitting ", "receiving " or "") words
+// the help. With power, the end's transmitter power too.
+func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power bool) {
+	f := cmd.Flags()
+	if power {
+		f.StringVar(&e.power, prefix+"power", "5W", "transmitter power [W]")
+	}
+	f.StringVar(&e.gain, prefix+"gain", "0dBi", what+"antenna gain [dBi] (dBd accepted)")
+	f.StringVar(&e.height, prefix+"height", "1.5m", what+"antenna height above ground [m]")
+	f.StringVar(&e.cable, prefix+"cable", "", what+"feedline cable (see `mastlink feedline --list`)")
+	f.StringVar(&e.cableLength, prefix+"cable-length", "", what+"feedline length [m]")
+	f.IntVar(&e.connectors, prefix+"connectors", 0, "mated connector pairs in the "+what+"feedline")
+	f.StringVar(&e.swr, prefix+"swr", "1", "SWR at the "+what+"antenna")
+}

@@ -267,14 +267,8 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 			return err
 		}
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, res)
-	case "csv":
-		return writeMastCSV(g.stdout, res)
-	}
-	renderMastText(g.stdout, res, g.imperial())
-	return nil
+	return g.emit(res, func(w io.Writer) error { return writeMastCSV(w, res) },
+		func(w io.Writer) { renderMastText(w, res, g.imperial()) })
 }
 
 func writeMastCSV(w io.Writer, m *plan.MastResult) error {

@@ -118,3 +118,23 @@ func renderTo(path string, inputs []string, fn func(w io.Writer) error) error {
 func extension(path string) string {
 	return strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
 }
+
+// emit writes a result to stdout in the --format asked for: res as JSON,
+// csv for --format csv, text otherwise.
+func (g *globals) emit(res any, csv func(io.Writer) error, text func(io.Writer)) error {
+	switch g.format {
+	case "json":
+		return writeJSON(g.stdout, res)
+	case "csv":
+		return csv(g.stdout)
+	}
+	text(g.stdout)
+	return nil
+}
+
+// wrote tells on stderr that -o was written.
+func (g *globals) wrote() {
+	if g.out != "" {
+		fmt.Fprintf(g.stderr, "mastlink: wrote %s\n", g.out)
+	}
+}

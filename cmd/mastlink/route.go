@@ -112,17 +112,9 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 	if err != nil {
 		return err
 	}
-	if g.out != "" {
-		fmt.Fprintf(g.stderr, "mastlink: wrote %s\n", g.out)
-	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, res)
-	case "csv":
-		return writeRouteCSV(g.stdout, res)
-	}
-	renderRouteText(g.stdout, res, g.imperial())
-	return nil
+	g.wrote()
+	return g.emit(res, func(w io.Writer) error { return writeRouteCSV(w, res) },
+		func(w io.Writer) { renderRouteText(w, res, g.imperial()) })
 }
 
 // pickTrack returns the track or route called name, or the first.

@@ -92,17 +92,9 @@ func runSites(cmd *cobra.Command, g *globals, o *reachOptions, candFile string) 
 	if err != nil {
 		return err
 	}
-	if g.out != "" {
-		fmt.Fprintf(g.stderr, "mastlink: wrote %s\n", g.out)
-	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, res)
-	case "csv":
-		return writeSitesCSV(g.stdout, res)
-	}
-	renderSitesText(g.stdout, res, g.imperial())
-	return nil
+	g.wrote()
+	return g.emit(res, func(w io.Writer) error { return writeSitesCSV(w, res) },
+		func(w io.Writer) { renderSitesText(w, res, g.imperial()) })
 }
 
 // renderSitesText writes the ranking as a table.
