@@ -158,7 +158,8 @@ func ReadGeoTIFF(path string) (*Tile, error) {
 // DecodeGeoTIFF decodes a GeoTIFF DEM of size bytes read through r, as
 // ReadGeoTIFF does for a file; name becomes Tile.Name and prefixes errors.
 // Hostile input is refused with an error, never a panic or an allocation
-// larger than the compressed data can expand to.
+// larger than the compressed data can expand to; so is a grid holding a
+// height outside MinPlausibleM…MaxPlausibleM (ErrImplausibleHeight).
 func DecodeGeoTIFF(r io.ReaderAt, size int64, name string) (*Tile, error) {
 	g, err := readGeoTIFFHeader(r, size, name)
 	if err != nil {
@@ -171,6 +172,9 @@ func DecodeGeoTIFF(r io.ReaderAt, size int64, name string) (*Tile, error) {
 	}
 	if err := g.decode(t.H); err != nil {
 		return nil, err
+	}
+	if err := t.checkHeights(); err != nil {
+		return nil, fmt.Errorf("%s: %w: %w", name, ErrBadGeoTIFF, err)
 	}
 	for _, h := range t.H {
 		if h != h {

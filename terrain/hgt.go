@@ -124,7 +124,9 @@ func hgtSamples(size int64) int {
 // file size or a zip header, or −1 when unknown (gzip): the grid size is
 // then taken from the bytes actually read. Only 1201² (3″) and 3601² (1″)
 // grids are accepted. Voids (−32768) become NaN and are then filled from
-// valid neighbours (see Tile.FillVoids). Errors wrap ErrHGT.
+// valid neighbours (see Tile.FillVoids). A height outside
+// MinPlausibleM…MaxPlausibleM marks a corrupt file and is refused with an
+// error wrapping ErrImplausibleHeight. Errors wrap ErrHGT.
 func DecodeHGT(r io.Reader, name string, size int64) (*Tile, error) {
 	return decodeHGT(r, filepath.Base(name), name, size)
 }
@@ -160,7 +162,11 @@ func decodeHGT(r io.Reader, base, label string, size int64) (*Tile, error) {
 			return nil, hgtSizeError(name, int64(len(buf)))
 		}
 	}
-	return hgtTile(buf, hgtSamples(int64(len(buf))), lat, lon, base), nil
+	t := hgtTile(buf, hgtSamples(int64(len(buf))), lat, lon, base)
+	if err := t.checkHeights(); err != nil {
+		return nil, fmt.Errorf("%s: %w: %w", name, ErrHGT, err)
+	}
+	return t, nil
 }
 
 // hgtTile builds the tile from n×n big-endian int16 samples in buf (SRTM

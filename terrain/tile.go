@@ -1,6 +1,39 @@
 package terrain
 
-import "math"
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// ErrImplausibleHeight is wrapped by the error of a tile holding a height
+// no terrain on earth has (see MinPlausibleM, MaxPlausibleM): the file is
+// corrupt, or is not a terrain model in metres.
+var ErrImplausibleHeight = errors.New("implausible height")
+
+// MinPlausibleM and MaxPlausibleM bound the terrain heights, in metres above
+// the geoid, that a tile may hold: the lowest dry land (the Dead Sea shore,
+// about −430 m) and the highest summit (8849 m), each with a margin. A
+// height outside them (other than a void) marks a corrupt file, a
+// bathymetric grid or one in other units, and the tile is refused.
+const (
+	MinPlausibleM = -500
+	MaxPlausibleM = 9000
+)
+
+// checkHeights returns an error wrapping ErrImplausibleHeight that names
+// the first sample (row and column from the north-west) outside
+// MinPlausibleM…MaxPlausibleM; NaN voids are allowed.
+func (t *Tile) checkHeights() error {
+	for i, h := range t.H {
+		if h < MinPlausibleM || h > MaxPlausibleM {
+			r, c := i/max(t.Cols, 1), i%max(t.Cols, 1)
+			return fmt.Errorf("%w: %g m at row %d, column %d (lat %.5f, lon %.5f) is outside %d…%d m; the file is corrupt or not a terrain model in metres",
+				ErrImplausibleHeight, h, r, c, t.Lat0-float64(r)*t.DLat, t.Lon0+float64(c)*t.DLon, MinPlausibleM, MaxPlausibleM)
+		}
+	}
+	return nil
+}
 
 // Tile is a regular latitude/longitude grid of terrain heights held in memory.
 //

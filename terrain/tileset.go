@@ -65,7 +65,7 @@ type Set struct {
 // Recognised files, in either case: SRTM tiles *.hgt, *.hgt.zip, *.hgt.gz
 // named after their tile (ParseHGTName), and single-band geographic
 // GeoTIFF DEMs *.tif, *.tiff (ReadGeoTIFF). Other files in directories are
-// ignored, and unusable GeoTIFFs there are listed by Skipped; a file named
+// listed by Skipped with the reason, as are unusable GeoTIFFs; a file named
 // explicitly must be usable (else the error wraps ErrUnsupportedFile or
 // the GeoTIFF reader's error). When two HGT files cover the same tile, the
 // finer one (1″ over 3″) is used, then the first in path order; where a
@@ -104,7 +104,10 @@ func Open(paths ...string) (*Set, error) {
 		}
 		sort.Strings(names)
 		for _, n := range names {
-			s.add(n)
+			before := len(s.skipped)
+			if !s.add(n) && len(s.skipped) == before && !quietlyIgnored(n) {
+				s.skipped = append(s.skipped, fmt.Errorf("%s: %w: not an elevation file; want SRTM tiles named like N45E007.hgt (.hgt.zip, .hgt.gz) or geographic GeoTIFF DEMs (.tif)", n, ErrUnsupportedFile))
+			}
 		}
 	}
 	for _, src := range s.hgt {
@@ -151,6 +154,23 @@ func (s *Set) add(path string) bool {
 	return false
 }
 
+// quietlyIgnored reports whether a file found in a DEM directory that is
+// not elevation data is expected there and need not be reported: hidden
+// files and the side files of GIS tools and archives (world files,
+// projection files, GDAL's .aux.xml, checksums, read-me texts).
+func quietlyIgnored(path string) bool {
+	base := strings.ToLower(filepath.Base(path))
+	if strings.HasPrefix(base, ".") {
+		return true
+	}
+	for _, suf := range []string{".aux.xml", ".ovr", ".tfw", ".tifw", ".prj", ".xml", ".md5", ".sha256", ".txt", ".md", ".json"} {
+		if strings.HasSuffix(base, suf) {
+			return true
+		}
+	}
+	return base == "readme" || base == "source" || base == "license"
+}
+
 // geoTIFFSource reads the header of a GeoTIFF DEM (see ReadGeoTIFF) for
 // its extent and spacing. Its nodata samples are not filled: in a GeoTIFF
 // they usually mark the outside of the surveyed area, not SRTM-style holes.
@@ -186,9 +206,11 @@ func finer(a, b *source) bool {
 	return b.dLatDeg == 0 || a.dLatDeg < b.dLatDeg
 }
 
-// Skipped returns the errors of files found in directories that look like
-// elevation data but cannot be used (a GeoTIFF in a projected coordinate
-// system, say), so that a caller can warn about them. Files named
+// Skipped returns the errors of files found in directories that cannot be
+// used, each naming the file and the reason (a tile name that gives no
+// position, a GeoTIFF in a projected coordinate system, a file of another
+// format; hidden files and GIS side files are not listed), so that a caller
+// can warn about them. Files named
 // explicitly in Open make Open fail instead.
 func (s *Set) Skipped() []error { return slices.Clone(s.skipped) }
 
