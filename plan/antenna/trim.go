@@ -23,7 +23,7 @@ const (
 	// VelocityFactorWire is the shortening of a thin wire or rod element
 	// against the free-space wavelength (end effect): 0.95, the factor in the
 	// half-wave rule 468/f ft (f in MHz) of the amateur handbooks, which is
-	// 0.951 of a free-space half wave (common practice).
+	// 0.952 of a free-space half wave (common practice).
 	VelocityFactorWire = 0.95
 	// VelocityFactorSolidCoax is the velocity factor of coax with a solid
 	// polyethylene dielectric such as RG-58 and RG-213: 0.66 (published:
