@@ -8,11 +8,14 @@
 // eqs. 26, 30, 31), smooth spherical-earth diffraction (P.526-16 §3.1.1 and
 // §3.2) and the delta-Bullington method for a general path (P.526-16 §4.5),
 // and the probability of a working link under location variability (ITU-R
-// P.1812-8 eq. 69 and Attachment 2).
+// P.1812-8 eq. 69 and Attachment 2), and the Longley–Rice Irregular
+// Terrain Model in point-to-point mode (G. A. Hufford, "The ITS Irregular
+// Terrain Model, version 1.2.2: the Algorithm", NTIA/ITS, 1995).
 //
-// A Model turns a Path and Params into a Result: FreeSpace, and Terrain
-// (delta-Bullington, which over a flat profile is smooth-earth diffraction).
-// Further models join by implementing Model.
+// A Model turns a Path and Params into a Result: FreeSpace, Terrain
+// (delta-Bullington, which over a flat profile is smooth-earth diffraction)
+// and ITM (Longley–Rice, with its variability in time, location and
+// situation). Further models join by implementing Model.
 //
 // Conventions: a Path runs from the transmitter (first point) to the
 // receiver (last point); distances along it are in km from the

@@ -34,6 +34,9 @@ type Result struct {
 	// Bullington holds the delta-Bullington terms (Terrain model only;
 	// zero for other models).
 	Bullington BullingtonTerms
+	// ITM holds the Longley–Rice ITM terms (ITM model only; zero for
+	// other models).
+	ITM ITMTerms
 }
 
 // Model computes the loss of a radio path. Implementations are safe for
