@@ -2,8 +2,8 @@ package report
 
 import (
 	"fmt"
-	"io"
 	"image/png"
+	"io"
 	"math"
 
 	"github.com/paulmach/orb"

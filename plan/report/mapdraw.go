@@ -503,7 +503,9 @@ func (l *mapLayout) drawMarkers(cv *canvas, m *Map, fs *mapFonts, labels *[]labe
 			cv.paint(ink, shape{polygonAround(p, stationRadius, 32)})
 			half = stationRadius
 		case MarkerTarget:
-			sq := func(s float64) [][2]float64 { return [][2]float64{{x - s, y - s}, {x + s, y - s}, {x + s, y + s}, {x - s, y + s}} }
+			sq := func(s float64) [][2]float64 {
+				return [][2]float64{{x - s, y - s}, {x + s, y - s}, {x + s, y + s}, {x - s, y + s}}
+			}
 			cv.paint(halo, shape{sq(targetHalfPx + haloPx)})
 			cv.paint(ink, shape{sq(targetHalfPx)})
 			cv.paint(halo, shape{sq(targetHalfPx - 2.5)})

@@ -41,23 +41,23 @@ const (
 // mapLayout is the geometry of a map page: the projection of the area
 // shown onto the map frame, and where the header, legend and scale bar go.
 type mapLayout struct {
-	b                     Bounds
-	widthPx, heightPx     int
-	mapX, mapY            int // map frame's top left corner on the page
-	mapW, mapH            int
-	kx, ky                float64 // pixels per degree of longitude and latitude
-	lat0                  float64 // latitude of true scale, degrees
-	metresPerPx           float64 // at lat0, both directions
-	footerY               int     // top of the footer
-	barMetres             float64 // scale bar length in metres
-	barPx                 int     // its length in pixels
-	barX                  int     // its left end on the page
-	barUnit               string  // "m", "km", "ft" or "mi"
-	barUnitM              float64 // metres per barUnit
-	imperial              bool
-	hasSubtitle           bool
-	anyBelow, anyStretch  bool // legend entries beyond the scale's bands
-	anyCircle, anyValued  bool
+	b                    Bounds
+	widthPx, heightPx    int
+	mapX, mapY           int // map frame's top left corner on the page
+	mapW, mapH           int
+	kx, ky               float64 // pixels per degree of longitude and latitude
+	lat0                 float64 // latitude of true scale, degrees
+	metresPerPx          float64 // at lat0, both directions
+	footerY              int     // top of the footer
+	barMetres            float64 // scale bar length in metres
+	barPx                int     // its length in pixels
+	barX                 int     // its left end on the page
+	barUnit              string  // "m", "km", "ft" or "mi"
+	barUnitM             float64 // metres per barUnit
+	imperial             bool
+	hasSubtitle          bool
+	anyBelow, anyStretch bool // legend entries beyond the scale's bands
+	anyCircle, anyValued bool
 }
 
 // layoutMap checks m and computes its page geometry.
