@@ -160,9 +160,250 @@ func renderMap(t testing.TB, name string, m Map) (image.Image, []byte) {
 	return img, buf.Bytes()
 }
 
-var _ = terrain.Direct
-var _ color.Color
+// blend is c over base at opacity op, as the overlay is drawn.
+func blend(base, c color.NRGBA, op float64) color.NRGBA {
+	mix := func(b, v uint8) uint8 { return uint8(math.Round(float64(b)*(1-op) + float64(v)*op)) }
+	return color.NRGBA{mix(base.R, c.R), mix(base.G, c.G), mix(base.B, c.B), 0xff}
+}
 
-func TestMapPNGDemo(t *testing.T) {
-	renderMap(t, "demo", demoMap())
+// same: within tol in every channel.
+func same(a color.Color, b color.NRGBA, tol int) bool {
+	r, g, bl, _ := a.RGBA()
+	d := func(x uint32, y uint8) bool { return math.Abs(float64(x>>8)-float64(y)) <= float64(tol) }
+	return d(r, b.R) && d(g, b.G) && d(bl, b.B)
+}
+
+// find counts the pixels of img within r that are within tol of c.
+func find(img image.Image, r image.Rectangle, c color.NRGBA, tol int) int {
+	n := 0
+	for y := r.Min.Y; y < r.Max.Y; y++ {
+		for x := r.Min.X; x < r.Max.X; x++ {
+			if same(img.At(x, y), c, tol) {
+				n++
+			}
+		}
+	}
+	return n
+}
+
+// quadrants is an overlay of 4 bands, one per quadrant of 20 × 20 cells,
+// on no terrain, with the site in the middle.
+func quadrants() Map {
+	g := Grid{Width: 20, Height: 20, Bounds: Bounds{West: 6.0, South: 49.5, East: 6.2, North: 49.63}, Values: make([]float32, 400)}
+	for r := 0; r < 20; r++ {
+		for c := 0; c < 20; c++ {
+			g.Values[r*20+c] = float32(10 * (2*(r/10) + c/10)) // 0, 10 / 20, 30
+		}
+	}
+	return Map{
+		Title:   "Quadrants",
+		Overlay: &g,
+		Scale:   Scale{Levels: []float64{0, 10, 20, 30}, Name: "margin", Unit: "dB"},
+		Markers: []Marker{{At: orb.Point{6.1, 49.565}, Label: "Site", Kind: MarkerSite}},
+	}
+}
+
+func TestMapPNGOverlayAndLegend(t *testing.T) {
+	m := quadrants()
+	img, _ := renderMap(t, "quadrants", m)
+	l, err := layoutMap(&m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	base := rgb(mapNoTerrain)
+	// The middle of each quadrant shows its band blended over the base;
+	// the bands' lightness rises with the value, so the map reads in
+	// greyscale (luma, ITU-R BT.601 weights).
+	prevLuma := -1.0
+	for i, q := range [][2]float64{{0.25, 0.25}, {0.75, 0.25}, {0.25, 0.75}, {0.75, 0.75}} {
+		x, y := l.mapX+int(q[0]*float64(l.mapW)), l.mapY+int(q[1]*float64(l.mapH))
+		want := blend(base, BandColour(i, 4), DefaultOverlayOpacity)
+		if !same(img.At(x, y), want, 1) {
+			t.Errorf("quadrant %d at (%d, %d): %v, want band %d blended %v", i, x, y, img.At(x, y), i, want)
+		}
+		if lu := luma(img.At(x, y)); lu <= prevLuma+10 {
+			t.Errorf("quadrant %d luma %.0f is not well above the band below (%.0f)", i, lu, prevLuma)
+		} else {
+			prevLuma = lu
+		}
+		// The legend under the map shows the same colour.
+		footer := image.Rect(0, l.footerY, l.widthPx, l.heightPx)
+		if n := find(img, footer, legendSwatch(BandColour(i, 4), DefaultOverlayOpacity), 1); n < 100 {
+			t.Errorf("legend: %d pixels of band %d's colour, want a swatch of at least 100", n, i)
+		}
+	}
+	// The site's own pixel is marked in dark ink.
+	p := l.xy(orb.Point{6.1, 49.565})
+	if c := img.At(l.mapX+int(p[0]), l.mapY+int(p[1])); !same(c, rgb(mapInk), 12) {
+		t.Errorf("site pixel is %v, not the marker's ink", c)
+	}
+}
+
+func TestMapPNGNotBlank(t *testing.T) {
+	img, _ := renderMap(t, "demo", demoMap())
+	b := img.Bounds()
+	colours := map[color.RGBA]bool{}
+	for y := b.Min.Y; y < b.Max.Y; y += 3 {
+		for x := b.Min.X; x < b.Max.X; x += 3 {
+			r, g, bl, _ := img.At(x, y).RGBA()
+			colours[color.RGBA{uint8(r >> 8), uint8(g >> 8), uint8(bl >> 8), 0xff}] = true
+		}
+	}
+	if len(colours) < 500 {
+		t.Errorf("only %d colours on the demo map: relief, overlay and features are missing", len(colours))
+	}
+}
+
+func TestMapPNGReliefLitFromNorthWest(t *testing.T) {
+	g := cone(201, 400)
+	m := Map{Terrain: &g, Bounds: g.Bounds, Title: "Cone"}
+	img, _ := renderMap(t, "cone", m)
+	l, err := layoutMap(&m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Points 1.5 km from the peak on each side (the cone's flank).
+	latM, lonM := MetresPerDegree(45.05)
+	at := func(eastM, northM float64) float64 {
+		p := l.xy(orb.Point{7.05 + eastM/lonM, 45.05 + northM/latM})
+		return luma(img.At(l.mapX+int(p[0]), l.mapY+int(p[1])))
+	}
+	d := 1500 / math.Sqrt2
+	nw, se, ne, sw, flat := at(-d, d), at(d, -d), at(d, d), at(-d, -d), at(3500, 3500)
+	if !(nw > ne+5 && nw > sw+5 && ne > se+5 && sw > se+5) {
+		t.Errorf("luma NW %.0f, NE %.0f, SW %.0f, SE %.0f: want the NW flank brightest and SE darkest (light from 315°)", nw, ne, sw, se)
+	}
+	if !(nw > flat && flat > se) {
+		t.Errorf("flat ground %.0f is not between the lit (%.0f) and shaded (%.0f) flanks", flat, nw, se)
+	}
+}
+
+func TestMapPNGScaleBar(t *testing.T) {
+	cases := []struct {
+		name     string
+		imperial bool
+		width    int
+		unit     string
+	}{
+		{"metric", false, 1200, "km"},
+		{"imperial", true, 1200, "mi"},
+		{"metric narrow", false, 600, "km"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			m := quadrants()
+			m.Imperial, m.WidthPx = c.imperial, c.width
+			img, _ := renderMap(t, "scalebar-"+c.name, m)
+			l, err := layoutMap(&m)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if l.barUnit != c.unit {
+				t.Errorf("bar in %s, want %s", l.barUnit, c.unit)
+			}
+			// Metres per pixel from outside the renderer: the geodesic
+			// across the map at its middle latitude (GeographicLib's
+			// method, terrain.Inverse) over the frame's width in pixels.
+			lat0 := (m.Overlay.Bounds.South + m.Overlay.Bounds.North) / 2
+			across, _, _ := terrain.Inverse(lat0, l.b.West, lat0, l.b.East)
+			mpp := across / float64(l.mapW)
+			if want := l.barMetres / mpp; math.Abs(float64(l.barPx)-want) > 1 {
+				t.Errorf("bar of %g m drawn %d px long; at %.3f m/px it should be %.1f px", l.barMetres, l.barPx, mpp, want)
+			}
+			// On the page: the bar's ink spans barPx pixels, its left half
+			// solid.
+			y := l.footerY + scaleBarTop + scaleBarHeight/2
+			first, last := -1, -1
+			for x := 0; x < l.widthPx; x++ {
+				if luma(img.At(x, y)) < 90 {
+					if first < 0 {
+						first = x
+					}
+					last = x
+				}
+			}
+			if math.Abs(float64(last-first)-float64(l.barPx)) > 1.5 {
+				t.Errorf("bar ink from x = %d to %d (%d px), want %d px", first, last, last-first, l.barPx)
+			}
+			for x := first + 2; x < first+l.barPx/2-2; x++ {
+				if luma(img.At(x, y)) > 90 {
+					t.Errorf("bar's first half is not solid at x = %d", x)
+					break
+				}
+			}
+			// Its length is a round number: 1, 2 or 5 times a power of ten
+			// of the unit.
+			v := l.barMetres / l.barUnitM
+			e := v / math.Pow(10, math.Floor(math.Log10(v)))
+			if math.Abs(e-1) > 1e-9 && math.Abs(e-2) > 1e-9 && math.Abs(e-5) > 1e-9 {
+				t.Errorf("bar length %g %s is not round", v, l.barUnit)
+			}
+		})
+	}
+}
+
+func TestMapPNGNorthArrow(t *testing.T) {
+	m := quadrants()
+	img, _ := renderMap(t, "quadrants", m)
+	l, _ := layoutMap(&m)
+	cx := l.mapX + l.mapW - northDiscR - 12
+	cy := l.mapY + northDiscR + 12
+	dark := func(x, y int) bool { return luma(img.At(x, y)) < 90 }
+	// The arrow points up: its left half solid ink, its right half light
+	// inside an inked edge, the letter N above its tip.
+	if !dark(cx-2, cy+4) || dark(cx+2, cy+4) {
+		t.Errorf("arrow halves at (%d, %d): left dark %v, right dark %v; want left solid, right light", cx, cy+4, dark(cx-2, cy+4), dark(cx+2, cy+4))
+	}
+	tip := cy - int(northArrowHigh) + 6
+	if !dark(cx, tip+3) || dark(cx, cy+int(northArrowHigh)+3) {
+		t.Errorf("arrow shaft not from its tip (y = %d) down to its tail", tip)
+	}
+	letter := 0
+	for y := tip - 16; y < tip-2; y++ {
+		for x := cx - 6; x <= cx+6; x++ {
+			if dark(x, y) {
+				letter++
+			}
+		}
+	}
+	if letter < 15 {
+		t.Errorf("%d ink pixels above the arrow, want the letter N", letter)
+	}
+}
+
+func TestMapPNGSameBytes(t *testing.T) {
+	_, a := renderMap(t, "demo", demoMap())
+	_, b := renderMap(t, "demo", demoMap())
+	if !bytes.Equal(a, b) {
+		t.Error("two maps of the same input differ")
+	}
+}
+
+func TestMapPNGBadInput(t *testing.T) {
+	cases := []struct {
+		name   string
+		change func(*Map)
+	}{
+		{"too narrow", func(m *Map) { m.WidthPx = 100 }},
+		{"track values short", func(m *Map) { m.Tracks[0].Values = m.Tracks[0].Values[1:] }},
+		{"circle of no radius", func(m *Map) { m.Circles[0].RadiusM = 0 }},
+		{"no levels", func(m *Map) { m.Scale.Levels = nil }},
+		{"opacity", func(m *Map) { m.OverlayOpacity = -0.1 }},
+		{"marker off the earth", func(m *Map) { m.Markers[0].At = orb.Point{200, 0} }},
+		{"bounds a sliver", func(m *Map) { m.Bounds = Bounds{West: 9, East: 10, South: 46, North: 46.0001} }},
+		{"one-point link", func(m *Map) { m.Stretches[0].Line = m.Stretches[0].Line[:1] }},
+	}
+	for _, c := range cases {
+		m := demoMap()
+		c.change(&m)
+		var buf bytes.Buffer
+		err := MapPNG(&buf, m)
+		if err == nil || buf.Len() != 0 {
+			t.Errorf("%s: error %v, %d bytes written", c.name, err, buf.Len())
+		}
+	}
+	var buf bytes.Buffer
+	if err := MapPNG(&buf, Map{}); err == nil {
+		t.Error("empty map: no error")
+	}
 }

@@ -117,7 +117,13 @@ func (l *mapLayout) draw(m *Map) (*image.RGBA, error) {
 	}
 	l.drawLegend(page, m, fs)
 	l.drawScaleBar(page, fs)
-	credit := "Relief: Horn's slopes, lit from the north-west at 45°. Colours: viridis. Equirectangular, true scale at " + latText(l.lat0) + "."
+	credit := "Equirectangular, true scale at " + latText(l.lat0) + "."
+	if l.anyValued {
+		credit = "Colours: viridis. " + credit
+	}
+	if m.Terrain != nil {
+		credit = "Relief: Horn's slopes, lit from the north-west at 45°. " + credit
+	}
 	if m.Credit != "" {
 		credit = m.Credit + "  ·  " + credit
 	}
