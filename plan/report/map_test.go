@@ -407,3 +407,39 @@ func TestMapPNGBadInput(t *testing.T) {
 		t.Error("empty map: no error")
 	}
 }
+
+// TestMapPNGFitsFeatures draws a map of candidate sites and a route with
+// no bounds given: every marker and track point lands inside the frame,
+// clear of its edge.
+func TestMapPNGFitsFeatures(t *testing.T) {
+	d := demoMap()
+	m := Map{
+		Title:     "Candidate sites",
+		Terrain:   d.Terrain,
+		Scale:     d.Scale,
+		Tracks:    d.Tracks,
+		Stretches: d.Stretches,
+		Markers: []Marker{
+			{At: orb.Point{9.44, 46.44}, Label: "Scree col", Kind: MarkerCandidate, Rank: 1, Value: 24, HasValue: true},
+			{At: orb.Point{9.34, 46.45}, Label: "Birch top", Kind: MarkerCandidate, Rank: 2, Value: 8, HasValue: true},
+			{At: orb.Point{9.41, 46.47}, Label: "Ling moor", Kind: MarkerCandidate, Rank: 3, Value: -4, HasValue: true},
+			{At: d.Tracks[0].Points[20], Label: "call here", Kind: MarkerSpot},
+		},
+	}
+	renderMap(t, "sites", m)
+	l, err := layoutMap(&m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pts := []orb.Point{}
+	for _, mk := range m.Markers {
+		pts = append(pts, mk.At)
+	}
+	pts = append(pts, m.Tracks[0].Points...)
+	for _, p := range pts {
+		xy := l.xy(p)
+		if xy[0] < 20 || xy[1] < 20 || xy[0] > float64(l.mapW-20) || xy[1] > float64(l.mapH-20) {
+			t.Errorf("%v is drawn at %v, outside or at the edge of the %d × %d frame", p, xy, l.mapW, l.mapH)
+		}
+	}
+}

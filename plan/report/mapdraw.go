@@ -334,6 +334,10 @@ const (
 	northArrowHigh = 16.0
 )
 
+// lineEdge is the thin grey edge outside a line's white casing, so the
+// light bands (yellow) stand out on light ground too.
+var lineEdge = color.NRGBA{0x1c, 0x1c, 0x1c, 0x70}
+
 // labelReq is a label to be placed near a point: right of it first, then
 // left, above, below, at the corners.
 type labelReq struct {
@@ -436,6 +440,7 @@ func (l *mapLayout) drawTracks(cv *canvas, m *Map, labels *[]labelReq) {
 		for i, p := range t.Points {
 			pts[i] = l.xy(p)
 		}
+		cv.paint(lineEdge, stroke(pts, casingPx+1.6))
 		cv.paint(rgb(mapHalo), stroke(pts, casingPx))
 		// Runs of segments in the same band, each drawn as one polyline so
 		// joins and dashes run on.
@@ -463,6 +468,7 @@ func (l *mapLayout) drawTracks(cv *canvas, m *Map, labels *[]labelReq) {
 func (l *mapLayout) drawLinks(cv *canvas, m *Map, labels *[]labelReq) {
 	for _, k := range m.Links {
 		pts := [][2]float64{l.xy(k.From), l.xy(k.To)}
+		cv.paint(lineEdge, stroke(pts, casingPx+0.6))
 		cv.paint(rgb(mapHalo), stroke(pts, casingPx-1))
 		col, below := lineColour(&m.Scale, k.Value)
 		if below {
