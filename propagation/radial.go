@@ -296,12 +296,17 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	hsr := math.Min(hsrp, groundM) // eq. 63
 	htsS, hrsS := hts-hst, hrs-hsr // eq. 64
 
-	// Bullington over the smooth profile (eq. 64) on the same distances.
-	w.dist = append(w.dist, d)
-	st, sr, nu := smoothProfileMaxima(w.dist, 0, d, htsS, hrsS, *rp)
-	w.dist = w.dist[:len(w.dist)-1]
-	_, _, _, lbs := bullingtonLoss(st, sr, nu, 0, htsS, hrsS, d, rp.wavelengthM)
-	lsph := smoothEarthLoss(d, htsS, hrsS, *rp) // eq. 65
+	// Smooth spherical earth (eq. 65); where it gives no loss, eq. 66 needs
+	// no Bullington loss of the smooth profile (L_bs ≥ 0).
+	lsph := smoothEarthLoss(d, htsS, hrsS, *rp)
+	lbs := lsph
+	if lsph > 0 {
+		// Bullington over the smooth profile (eq. 64) on the same distances.
+		w.dist = append(w.dist, d)
+		st, sr, nu := smoothProfileMaxima(w.dist, 0, d, htsS, hrsS, *rp)
+		w.dist = w.dist[:len(w.dist)-1]
+		_, _, _, lbs = bullingtonLoss(st, sr, nu, 0, htsS, hrsS, d, rp.wavelengthM)
+	}
 	out.ExcessDB = lba + math.Max(lsph-lbs, 0)  // eq. 66
 	out.PathLossDB = fs + out.ExcessDB
 	return out
