@@ -307,7 +307,7 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 		w.dist = w.dist[:len(w.dist)-1]
 		_, _, _, lbs = bullingtonLoss(st, sr, nu, 0, htsS, hrsS, d, rp.wavelengthM)
 	}
-	out.ExcessDB = lba + math.Max(lsph-lbs, 0)  // eq. 66
+	out.ExcessDB = lba + math.Max(lsph-lbs, 0) // eq. 66
 	out.PathLossDB = fs + out.ExcessDB
 	return out
 }

@@ -55,7 +55,7 @@ func roughPath(rng *rand.Rand, n int, stepKM, smooth float64) Path {
 	for i := range n {
 		d := float64(i) * stepKM
 		p.DistKM[i] = d
-		p.HeightM[i] = 200 + smooth*(a1*math.Sin(2*math.Pi*d/l1+ph) + a2*math.Sin(2*math.Pi*d/l2) + a3*math.Sin(2*math.Pi*d/l3) + rng.NormFloat64())
+		p.HeightM[i] = 200 + smooth*(a1*math.Sin(2*math.Pi*d/l1+ph)+a2*math.Sin(2*math.Pi*d/l2)+a3*math.Sin(2*math.Pi*d/l3)+rng.NormFloat64())
 	}
 	return p
 }
