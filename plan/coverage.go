@@ -368,7 +368,21 @@ func (g *coverageGrid) offset(r, c int) (distM, aziRad float64) {
 	}
 	e := dLon * g.rowE[r]
 	n := (g.rowLat[r] - g.siteLat) * g.rowN[r]
-	return math.Hypot(e, n), math.Atan2(e, n)
+	return math.Sqrt(e*e + n*n), math.Atan2(e, n)
+}
+
+// distance returns the distance in metres of the centre of cell (r, c)
+// from the site, as offset does.
+func (g *coverageGrid) distance(r, c int) float64 {
+	dLon := g.lon0 + float64(c)*g.dLon - g.siteLon
+	if dLon > 180 {
+		dLon -= 360
+	} else if dLon < -180 {
+		dLon += 360
+	}
+	e := dLon * g.rowE[r]
+	n := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+	return math.Sqrt(e*e + n*n)
 }
 
 // bucket sets the radial of every cell within the radius (−1 outside, and
@@ -401,6 +415,8 @@ type coverageWorker struct {
 	sp               *terrain.Sampler
 	lats, lons, hgts []float64
 	count, order     []int32
+	dist             []float64 // of each cell of the radial, m
+	mOf              []int32   // samples before each cell of the radial
 }
 
 // walk answers the cells of radial r: it samples the radial, sorts its
@@ -427,23 +443,21 @@ func (g *coverageGrid) walk(ws *coverageWorker, r int, h0 float64, cells []int32
 	clear(count)
 	if cap(ws.order) < len(cells) {
 		ws.order = make([]int32, len(cells))
+		ws.dist = make([]float64, len(cells))
+		ws.mOf = make([]int32, len(cells))
 	}
-	order := ws.order[:len(cells)]
-	mOf := func(cell int32) (int, float64) {
-		d, _ := g.offset(int(cell)/g.cols, int(cell)%g.cols)
-		m := int(math.Ceil(d/g.stepM-0.5)) - 1
-		return min(max(m, 0), n-2), d
-	}
-	for _, cell := range cells {
-		m, _ := mOf(cell)
+	order, dist, mOf := ws.order[:len(cells)], ws.dist[:len(cells)], ws.mOf[:len(cells)]
+	for i, cell := range cells {
+		d := g.distance(int(cell)/g.cols, int(cell)%g.cols)
+		m := min(max(int(math.Ceil(d/g.stepM-0.5))-1, 0), n-2)
+		dist[i], mOf[i] = d, int32(m)
 		count[m+1]++
 	}
 	for i := 1; i <= n; i++ {
 		count[i] += count[i-1]
 	}
-	for _, cell := range cells {
-		m, _ := mOf(cell)
-		order[count[m]] = cell
+	for i, m := range mOf {
+		order[count[m]] = int32(i)
 		count[m]++
 	}
 	// count[m] is now the end of bucket m.
@@ -453,9 +467,9 @@ func (g *coverageGrid) walk(ws *coverageWorker, r int, h0 float64, cells []int32
 	next := 0
 	for m := 0; m < n-1 && next < len(order); m++ {
 		for ; next < len(order) && next < int(count[m]); next++ {
-			cell := order[next]
+			cell := cells[order[next]]
+			dM := dist[order[next]]
 			row, col := int(cell)/g.cols, int(cell)%g.cols
-			dM, _ := g.offset(row, col)
 			hc, err := ws.sp.Height(g.rowLat[row], normLonDeg(g.lon0+float64(col)*g.dLon))
 			if err != nil {
 				return 0, false, err
