@@ -1,0 +1,373 @@
+package propagation
+
+import "math"
+
+// Radial computes line of sight and delta-Bullington diffraction (ITU-R
+// P.526-16 §4.5) for many receivers along one radial from a transmitter,
+// in O(1) or O(log n) per receiver instead of one O(n) profile scan each.
+//
+// The radial is fed its terrain outward with Add, one point at a time at
+// strictly increasing distances; after k points have been added, Visible
+// and Loss answer for a receiver beyond them, as if the path were the
+// transmitter's ground, those k points as intermediate profile points, and
+// the receiver's ground (the Path a profile of that receiver would give).
+//
+// How each term of §4.5 becomes incremental (C_e = 1/a_e, distances d in
+// km from the transmitter, heights in m):
+//
+//   - Work in the frame of the transmitter's tangent plane: y_i = h_i −
+//     500 C_e d_i². The earth-bulge term of eqs. 49 and 53 is then linear in
+//     the path length d: h_i + 500 C_e d_i (d − d_i) = y_i + 500 C_e d d_i.
+//   - S_tim (eq. 49) = max_i (y_i − h_ts)/d_i + 500 C_e d: a running
+//     maximum of a quantity of the point alone, O(1). The line-of-sight test
+//     of eq. 50 uses only it.
+//   - S_rim (eq. 53) = max_i (y_i − Y_r)/(d − d_i) − 500 C_e d with
+//     Y_r = h_rs − 500 C_e d²: the slope of the tangent from the receiver
+//     (d, Y_r) to the points before it. The maximum lies on the upper convex
+//     hull of the points (d_i, y_i), kept incrementally by the monotone
+//     chain (A. M. Andrew, "Another efficient algorithm for convex hulls in
+//     two dimensions", Inf. Proc. Letters 9, 1979), and along the hull the
+//     slope rises then falls, so a binary search finds it: O(log n).
+//   - The smooth surface (eqs. 58–60) needs the sums v1, v2 over the
+//     segments: running sums, plus the receiver's own segment.
+//   - The obstruction terms (eqs. 61a–c) use the terrain without bulge
+//     against the straight antenna line: h_obs is the hull vertex of the
+//     raw points (d_i, h_i) where the hull's edge slopes pass the line's
+//     slope (binary search), α_obt a running maximum of (h_i − h_ts)/d_i,
+//     α_obr a tangent from (d, h_rs) to the same hull.
+//   - The smooth profile (eq. 64) has zero heights: its maxima are unimodal
+//     in d_i and found by binary search over the distances, as in
+//     DeltaBullington.
+//
+// ν_max of a line-of-sight path (eq. 51) is the one term no hull orders:
+// ν_i = e_i √(0.002 d/(λ d_i (d − d_i))), with e_i the height of the point
+// above the ray (negative on a line-of-sight path), weighs the points by
+// their position, and a point below the hull in the middle of the path can
+// beat the hull vertices near an end. Radial therefore starts from the hull
+// vertex that comes closest to the ray in height (binary search: it
+// maximises y_i minus a linear function) and its RadialNuWindow neighbours
+// each side, then searches the points themselves by branch and bound: it
+// keeps the highest y_i of every block of 16 points and of every 256, and
+// skips a block whose bound on ν (highest y against the ray at the block's
+// most favourable end, times the smallest weight over the block) cannot
+// beat the best so far, nor −0.78, below which J(ν) is 0 (eq. 31). The
+// loss is therefore exact; only the ν reported for a path whose
+// J(ν) is 0 may be the hull's instead of the true maximum. The search costs
+// little where the terrain lies well below the ray and approaches O(n)
+// only where much of the path grazes it within a fraction of the first
+// Fresnel zone.
+//
+// A Radial is not safe for concurrent use; Reset reuses its storage.
+type Radial struct {
+	rp       params
+	needLoss bool
+
+	hts, h0 float64 // transmitter antenna amsl, ground at the transmitter (m)
+	bulge   float64 // 500 C_e, m/km²
+
+	n      int     // intermediate points added
+	dp, hp float64 // last point (the transmitter's ground at first)
+
+	timMax float64 // max (y_i − h_ts)/d_i
+	timD   float64 // its d_i
+	timY   float64 // its y_i
+	obtMax float64 // max (h_i − h_ts)/d_i, terrain alone
+	v1, v2 float64 // eqs. 58, 59 over the segments so far
+
+	dist   []float64 // 0 (the transmitter) then every intermediate distance
+	ys     []float64 // y_i of every intermediate point, in order
+	bmax   []float64 // highest y_i of each block of radialBlock points
+	smax   []float64 // highest y_i of each block of radialSuper points
+	cd, cy []float64 // upper hull of (d_i, y_i)
+	rd, rh []float64 // upper hull of (d_i, h_i)
+}
+
+// RadialNuWindow is the number of hull vertices on either side of the one
+// nearest the ray at which Radial evaluates ν for a line-of-sight path.
+const RadialNuWindow = 2
+
+// Block sizes of the branch-and-bound search for ν_max.
+const (
+	radialBlock = 16
+	radialSuper = 256
+)
+
+// RadialLoss is the loss of one receiver of a Radial, in dB.
+type RadialLoss struct {
+	FreeSpaceDB float64 // ITU-R P.525-4 over the horizontal distance
+	ExcessDB    float64 // delta-Bullington diffraction, eq. 66
+	PathLossDB  float64 // FreeSpaceDB + ExcessDB
+	LineOfSight bool    // eq. 50: S_tim < S_tr
+}
+
+// NewRadial returns a Radial for the frequency, antenna heights (TxHeightM
+// at the transmitter, RxHeightM at every receiver), effective earth
+// radius, polarization and ground of prm (defaults as in Params). With
+// needLoss false it keeps only what the line-of-sight test needs (Loss
+// must then not be called). Errors wrap ErrBadParams.
+func NewRadial(prm Params, needLoss bool) (*Radial, error) {
+	rp, err := prm.resolve()
+	if err != nil {
+		return nil, err
+	}
+	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM}
+	w.Reset(0)
+	return w, nil
+}
+
+// Reset starts a new radial from a transmitter whose ground is
+// siteGroundM metres above mean sea level.
+func (w *Radial) Reset(siteGroundM float64) {
+	w.h0 = siteGroundM
+	w.hts = siteGroundM + w.rp.txM
+	w.n = 0
+	w.dp, w.hp = 0, siteGroundM
+	w.timMax, w.timD, w.timY = math.Inf(-1), 0, 0
+	w.obtMax = math.Inf(-1)
+	w.v1, w.v2 = 0, 0
+	w.dist = append(w.dist[:0], 0)
+	w.ys, w.bmax, w.smax = w.ys[:0], w.bmax[:0], w.smax[:0]
+	w.cd, w.cy = w.cd[:0], w.cy[:0]
+	w.rd, w.rh = w.rd[:0], w.rh[:0]
+}
+
+// Len returns the number of intermediate points added since Reset.
+func (w *Radial) Len() int { return w.n }
+
+// Add appends the next profile point: distKM kilometres from the
+// transmitter (more than the previous point's, and more than 0), ground
+// heightM metres above mean sea level (a number; fill voids first).
+// Points that break these rules are ignored.
+func (w *Radial) Add(distKM, heightM float64) {
+	if !(distKM > w.dp) || heightM-heightM != 0 {
+		return
+	}
+	d, h := distKM, heightM
+	y := h - w.bulge*d*d
+	if v := (y - w.hts) / d; v > w.timMax {
+		w.timMax, w.timD, w.timY = v, d, y
+	}
+	w.n++
+	dl, hl := w.dp, w.hp
+	w.dp, w.hp = d, h
+	if !w.needLoss {
+		return
+	}
+	dd := d - dl
+	w.v1 += dd * (h + hl)
+	w.v2 += dd * (h*(2*d+dl) + hl*(d+2*dl))
+	w.dist = append(w.dist, d)
+	i := len(w.ys)
+	w.ys = append(w.ys, y)
+	if i%radialBlock == 0 {
+		w.bmax = append(w.bmax, y)
+	} else if b := &w.bmax[len(w.bmax)-1]; y > *b {
+		*b = y
+	}
+	if i%radialSuper == 0 {
+		w.smax = append(w.smax, y)
+	} else if b := &w.smax[len(w.smax)-1]; y > *b {
+		*b = y
+	}
+	if v := (h - w.hts) / d; v > w.obtMax {
+		w.obtMax = v
+	}
+	w.cd, w.cy = hullPush(w.cd, w.cy, d, y)
+	w.rd, w.rh = hullPush(w.rd, w.rh, d, h)
+}
+
+// hullPush adds (x, y), right of every point so far, to the upper convex
+// hull (xs, ys) by the monotone chain: vertices that fall on or below the
+// segment from their predecessor to the new point leave the hull.
+func hullPush(xs, ys []float64, x, y float64) ([]float64, []float64) {
+	n := len(xs)
+	for n >= 2 {
+		ax, ay := xs[n-2], ys[n-2]
+		bx, by := xs[n-1], ys[n-1]
+		if (by-ay)*(x-ax) > (y-ay)*(bx-ax) {
+			break // b strictly above the chord a → new point
+		}
+		n--
+	}
+	return append(xs[:n], x), append(ys[:n], y)
+}
+
+// hullTangent returns the index of the hull vertex maximising the slope
+// (ys[k] − qy)/(qx − xs[k]) seen from (qx, qy) right of every vertex.
+// Along an upper hull that slope rises and then falls.
+func hullTangent(xs, ys []float64, qx, qy float64) int {
+	lo, hi := 0, len(xs)-1
+	for lo < hi {
+		m := lo + (hi-lo)/2
+		if (ys[m+1]-qy)*(qx-xs[m]) > (ys[m]-qy)*(qx-xs[m+1]) {
+			lo = m + 1
+		} else {
+			hi = m
+		}
+	}
+	return lo
+}
+
+// hullTop returns the index of the hull vertex maximising ys[k] − s·xs[k]:
+// the first vertex whose next edge is no steeper than s.
+func hullTop(xs, ys []float64, s float64) int {
+	lo, hi := 0, len(xs)-1
+	for lo < hi {
+		m := lo + (hi-lo)/2
+		if ys[m+1]-ys[m] > s*(xs[m+1]-xs[m]) {
+			lo = m + 1
+		} else {
+			hi = m
+		}
+	}
+	return lo
+}
+
+// Visible reports whether a receiver distKM kilometres from the
+// transmitter (beyond the points added), its antenna RxHeightM above
+// ground groundM metres amsl, has line of sight to the transmitter's
+// antenna over the points added and the earth's curvature: S_tim < S_tr
+// (ITU-R P.526-16 eqs. 49, 50). With no points added it is true.
+func (w *Radial) Visible(distKM, groundM float64) bool {
+	if w.n == 0 {
+		return true
+	}
+	d := distKM
+	return (w.timMax+w.bulge*d)*d < groundM+w.rp.rxM-w.hts
+}
+
+// Loss returns the free-space loss and the delta-Bullington diffraction
+// loss (ITU-R P.526-16 §4.5, eqs. 49–66, with smooth-earth diffraction of
+// §3.2 for the Radial's polarization and ground) of the path from the
+// transmitter to a receiver distKM kilometres away (beyond the points
+// added), its antenna RxHeightM above ground groundM metres amsl, over the
+// points added. Every term is exact but ν_max of a line-of-sight path
+// (see Radial). It panics when the Radial was made without needLoss.
+func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
+	if !w.needLoss {
+		panic("propagation: Radial.Loss on a Radial made for line of sight only")
+	}
+	rp := &w.rp
+	d := distKM
+	hts, hrs := w.hts, groundM+rp.rxM
+	fs := FreeSpaceLossWavelengthDB(d, rp.wavelengthM)
+	out := RadialLoss{FreeSpaceDB: fs}
+	if !(d > w.dp) {
+		// The receiver does not lie beyond the points: treat it as free space.
+		out.PathLossDB, out.LineOfSight = fs, true
+		return out
+	}
+	bulge := w.bulge
+	str := (hrs - hts) / d
+	stim, srim, nuMax := math.Inf(-1), math.Inf(-1), math.Inf(-1)
+	edge := math.NaN()
+	if w.n > 0 {
+		stim = w.timMax + bulge*d // eq. 49
+		yr := hrs - bulge*d*d
+		if stim < str {
+			nuMax, edge = w.nuMax(d, yr)
+		} else {
+			k := hullTangent(w.cd, w.cy, d, yr)
+			srim = (w.cy[k]-yr)/(d-w.cd[k]) - bulge*d // eq. 53
+		}
+	}
+	_, _, _, lba := bullingtonLoss(stim, srim, nuMax, edge, hts, hrs, d, rp.wavelengthM)
+	out.LineOfSight = !(stim >= str)
+
+	// Smooth surface (eqs. 58–63), the receiver's segment added.
+	dl, hl := w.dp, w.hp
+	dd := d - dl
+	v1 := w.v1 + dd*(groundM+hl)
+	v2 := w.v2 + dd*(groundM*(2*d+dl)+hl*(d+2*dl))
+	hstp := (2*v1*d - v2) / (d * d) // eq. 60a
+	hsrp := (v2 - v1*d) / (d * d)   // eq. 60b
+	if w.n > 0 {
+		s := str
+		k := hullTop(w.rd, w.rh, s)
+		if hobs := w.rh[k] - hts - s*w.rd[k]; hobs > 0 { // eqs. 61a, 61d
+			aobt := w.obtMax - s // eq. 61b
+			j := hullTangent(w.rd, w.rh, d, hrs)
+			aobr := (w.rh[j]-hrs)/(d-w.rd[j]) + s // eq. 61c
+			hstp -= hobs * aobt / (aobt + aobr)   // eq. 62
+			hsrp -= hobs * aobr / (aobt + aobr)
+		}
+	}
+	hst := math.Min(hstp, w.h0)    // eq. 63
+	hsr := math.Min(hsrp, groundM) // eq. 63
+	htsS, hrsS := hts-hst, hrs-hsr // eq. 64
+
+	// Smooth spherical earth (eq. 65); where it gives no loss, eq. 66 needs
+	// no Bullington loss of the smooth profile (L_bs ≥ 0).
+	lsph := smoothEarthLoss(d, htsS, hrsS, *rp)
+	lbs := lsph
+	if lsph > 0 {
+		// Bullington over the smooth profile (eq. 64) on the same distances.
+		w.dist = append(w.dist, d)
+		st, sr, nu := smoothProfileMaxima(w.dist, 0, d, htsS, hrsS, *rp)
+		w.dist = w.dist[:len(w.dist)-1]
+		_, _, _, lbs = bullingtonLoss(st, sr, nu, 0, htsS, hrsS, d, rp.wavelengthM)
+	}
+	out.ExcessDB = lba + math.Max(lsph-lbs, 0) // eq. 66
+	out.PathLossDB = fs + out.ExcessDB
+	return out
+}
+
+// nuMax returns ν_max of eq. 51 for a line-of-sight path of length d to a
+// receiver at yr (tangent-plane frame), and the distance of its point; see
+// Radial for the search.
+func (w *Radial) nuMax(d, yr float64) (nu, atKM float64) {
+	hts := w.hts
+	slope := (yr - hts) / d // the ray in the tangent-plane frame
+	sk := math.Sqrt(0.002 * d / w.rp.wavelengthM)
+	best, at := math.Inf(-1), math.NaN()
+	try := func(di, yi float64) {
+		e := yi - hts - slope*di
+		if v := e * sk / math.Sqrt(di*(d-di)); v > best {
+			best, at = v, di
+		}
+	}
+	try(w.timD, w.timY)
+	if len(w.cd) == 0 {
+		return best, at
+	}
+	k := hullTop(w.cd, w.cy, slope)
+	for j := max(k-RadialNuWindow, 0); j <= min(k+RadialNuWindow, len(w.cd)-1); j++ {
+		try(w.cd[j], w.cy[j])
+	}
+	// bound is an upper bound of ν over the points lo..hi (indices into
+	// ys, dist[i+1]) whose highest y is ymax.
+	bound := func(ymax float64, lo, hi int) float64 {
+		dlo, dhi := w.dist[lo+1], w.dist[hi+1]
+		e := ymax - hts
+		if slope >= 0 {
+			e -= slope * dlo
+		} else {
+			e -= slope * dhi
+		}
+		if e >= 0 {
+			return math.Inf(1)
+		}
+		m := d / 2 // where d_i (d − d_i) peaks
+		m = min(max(m, dlo), dhi)
+		return e * sk / math.Sqrt(m*(d-m))
+	}
+	n := len(w.ys)
+	for s, smax := range w.smax {
+		lo := s * radialSuper
+		hi := min(lo+radialSuper, n) - 1
+		if bound(smax, lo, hi) <= max(best, -0.78) {
+			continue
+		}
+		for b := lo / radialBlock; b*radialBlock <= hi; b++ {
+			blo := b * radialBlock
+			bhi := min(blo+radialBlock, n) - 1
+			if bound(w.bmax[b], blo, bhi) <= max(best, -0.78) {
+				continue
+			}
+			for i := blo; i <= bhi; i++ {
+				try(w.dist[i+1], w.ys[i])
+			}
+		}
+	}
+	return best, at
+}
