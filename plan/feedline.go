@@ -9,6 +9,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // ErrUnknownCable is wrapped by LookupCable when a name is not in the
@@ -22,7 +24,7 @@ const DefaultConnectorLossDB = 0.1
 
 // MetresPer100Ft is the length of 100 ft in metres, for converting loss per
 // 100 ft (the unit of most published tables) to loss per 100 m.
-const MetresPer100Ft = 100 * MetresPerFoot
+const MetresPer100Ft = 100 * units.MetresPerFoot
 
 // DBPer100FtFromDBPer100M converts a matched loss per 100 m to per 100 ft.
 func DBPer100FtFromDBPer100M(dBPer100M float64) float64 {
@@ -272,7 +274,7 @@ func CustomCable(name string, points ...LossPoint) (Cable, error) {
 	}
 	k1, k2, err := fitTwoTerm(points)
 	if err != nil {
-		return Cable{}, &valueError{fmt.Sprintf("cable %q: %v", name, err), ErrRange}
+		return Cable{}, &valueError{fmt.Sprintf("cable %q: %v", name, err), units.ErrRange}
 	}
 	return Cable{
 		Name:         name,
@@ -481,15 +483,15 @@ func (f Feedline) Loss(freqMHz float64) (FeedlineLoss, error) {
 	}
 	switch {
 	case !(f.LengthM >= 0) || math.IsInf(f.LengthM, 0):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("cable length %g m: give a length of 0 or more", f.LengthM), ErrRange}
+		return FeedlineLoss{}, &valueError{fmt.Sprintf("cable length %g m: give a length of 0 or more", f.LengthM), units.ErrRange}
 	case !(freqMHz > 0) || math.IsInf(freqMHz, 0):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("frequency %g MHz: give a frequency above 0", freqMHz), ErrRange}
+		return FeedlineLoss{}, &valueError{fmt.Sprintf("frequency %g MHz: give a frequency above 0", freqMHz), units.ErrRange}
 	case !(swr >= 1):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("swr %g: give an SWR of 1 or more (1 is matched)", f.SWR), ErrRange}
+		return FeedlineLoss{}, &valueError{fmt.Sprintf("swr %g: give an SWR of 1 or more (1 is matched)", f.SWR), units.ErrRange}
 	case f.Connectors < 0:
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("%d connectors: give 0 or more", f.Connectors), ErrRange}
+		return FeedlineLoss{}, &valueError{fmt.Sprintf("%d connectors: give 0 or more", f.Connectors), units.ErrRange}
 	case !(f.ConnectorLossDB >= 0):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("connector loss %g dB: give 0 or more", f.ConnectorLossDB), ErrRange}
+		return FeedlineLoss{}, &valueError{fmt.Sprintf("connector loss %g dB: give 0 or more", f.ConnectorLossDB), units.ErrRange}
 	}
 	ml := f.Cable.MatchedLossDB(f.LengthM, freqMHz)
 	extra := SWRExtraLossDB(ml, swr)

@@ -10,6 +10,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // publishedLoss is REFERENCES §7, typed in again here from the reference
@@ -232,8 +234,8 @@ func TestFeedlineLoss(t *testing.T) {
 	}
 	for _, c := range bad {
 		_, err := c.f.Loss(c.freq)
-		if !errors.Is(err, ErrRange) || err.Error() != c.msg {
-			t.Errorf("%s: error %v, want %q wrapping ErrRange", c.name, err, c.msg)
+		if !errors.Is(err, units.ErrRange) || err.Error() != c.msg {
+			t.Errorf("%s: error %v, want %q wrapping units.ErrRange", c.name, err, c.msg)
 		}
 	}
 }
@@ -299,7 +301,7 @@ func TestCustomCable(t *testing.T) {
 	if _, err := CustomCable("none"); err == nil {
 		t.Error("no figures: no error")
 	}
-	if _, err := CustomCable("bad", LossPoint{FreqMHz: -5, DBPer100Ft: 1}); !errors.Is(err, ErrRange) {
+	if _, err := CustomCable("bad", LossPoint{FreqMHz: -5, DBPer100Ft: 1}); !errors.Is(err, units.ErrRange) {
 		t.Errorf("negative frequency: %v", err)
 	}
 }

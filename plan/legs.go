@@ -3,6 +3,8 @@ package plan
 import (
 	"fmt"
 	"math"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // leg is one direction of the link between a moving or candidate end (the
@@ -57,7 +59,7 @@ func newTargetLegs(near End, t Target) (targetLegs, error) {
 			return targetLegs{}, fmt.Errorf("%s: feedline: %w", rx.Name, err)
 		}
 		l := leg{dir: s.dir, freqMHz: s.freq, nearTx: s.nearTx, budget: LinkBudget{
-			TxPowerDBm:       DBmFromW(tx.Radio.PowerW),
+			TxPowerDBm:       units.DBmFromW(tx.Radio.PowerW),
 			TxFeedlineLossDB: txFL.TotalLossDB,
 			TxGainDBi:        tx.Antenna.GainDBi,
 			RxGainDBi:        rx.Antenna.GainDBi,

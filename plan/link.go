@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
@@ -183,7 +184,7 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 	}
 	txLine, rxLine := txFL.TotalLossDB, rxFL.TotalLossDB
 	b := LinkBudget{
-		TxPowerDBm:       DBmFromW(tx.Radio.PowerW),
+		TxPowerDBm:       units.DBmFromW(tx.Radio.PowerW),
 		TxFeedlineLossDB: txLine,
 		TxGainDBi:        tx.Antenna.GainDBi,
 		PathLossDB:       loss.PathLossDB,

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -96,7 +97,7 @@ func TestEvaluateBudget(t *testing.T) {
 		t.Fatal(err)
 	}
 	tx := End{Name: "a", Pos: orb.Point{10, 45}, Radio: Radio{PowerW: 25}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: NewFeedline(rg8x, 20)}
-	rx := End{Name: "b", Pos: orb.Point{10.1, 45.05}, Radio: Radio{SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 6, HeightM: 20}}
+	rx := End{Name: "b", Pos: orb.Point{10.1, 45.05}, Radio: Radio{SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 6, HeightM: 20}}
 	env := Env{Model: nil, SigmaDB: 5.5}
 	var g Geometry
 	if err := env.Measure(tx.Pos, rx.Pos, &g); err != nil {

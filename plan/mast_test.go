@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -59,7 +60,7 @@ func TestSweepProperties(t *testing.T) {
 	}
 	rg58, _ := LookupCable("RG-58")
 	rg213, _ := LookupCable("RG-213")
-	m := &MastSweep{Heights: LengthRange{FromM: 2, ToM: 12, StepM: 2}, Cables: []Cable{rg58, rg213}, RunM: 10, SlackM: 1}
+	m := &MastSweep{Heights: units.LengthRange{FromM: 2, ToM: 12, StepM: 2}, Cables: []Cable{rg58, rg213}, RunM: 10, SlackM: 1}
 	res, err := env.SweepMast(st, []Target{tg}, m, Requirement{MarginDB: 10})
 	if err != nil {
 		t.Fatal(err)

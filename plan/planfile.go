@@ -10,6 +10,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"go.yaml.in/yaml/v3"
@@ -24,7 +25,7 @@ type PlanError struct {
 	File  string
 	Line  int
 	Field string // e.g. "stations[0].feedline.cable"; "" for the document
-	Err   error  // what is wrong, often a *QuantityError or a catalog error
+	Err   error  // what is wrong, often a *units.QuantityError or a catalog error
 }
 
 // Error renders "plan.yaml:14: feedline.cable: unknown cable …".
@@ -103,7 +104,7 @@ type Target struct {
 // MastSweep asks for the lowest mast and lightest cable that meet the
 // requirement.
 type MastSweep struct {
-	Heights LengthRange
+	Heights units.LengthRange
 	Cables  []Cable // from the catalog, or described by the user
 	RunM    float64 // cable from the mast foot to the radio, metres
 	SlackM  float64 // extra cable for drip loops and the mast head, metres
@@ -330,7 +331,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 	}
 	if n := f["frequency"]; n != nil {
-		if pl.FreqMHz, err = p.quantity(n, "frequency", ParseFreqMHz); err != nil {
+		if pl.FreqMHz, err = p.quantity(n, "frequency", units.ParseFreqMHz); err != nil {
 			return nil, err
 		}
 	}
@@ -363,7 +364,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 	}
 	if n := f["k"]; n != nil {
-		if pl.K, err = p.quantity(n, "k", parseK); err != nil {
+		if pl.K, err = p.quantity(n, "k", units.ParseKFactor); err != nil {
 			return nil, err
 		}
 	}
@@ -497,42 +498,18 @@ func (p *planParser) choice(n *yaml.Node, field string, options ...string) (stri
 	return "", p.errf(n, field, "%q is not one of %s", s, strings.Join(options, ", "))
 }
 
-// parseK parses an effective earth-radius factor: a number such as 1.333 or
-// a fraction such as 4/3, between 0.5 and 10.
-func parseK(s string) (float64, error) {
-	var k float64
-	if a, b, ok := strings.Cut(s, "/"); ok {
-		x, e1 := strconv.ParseFloat(strings.TrimSpace(a), 64)
-		y, e2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
-		if e1 != nil || e2 != nil || y == 0 {
-			return 0, fmt.Errorf("%q is not a k-factor (write e.g. 4/3 or 1.333)", s)
-		}
-		k = x / y
-	} else {
-		x, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			return 0, fmt.Errorf("%q is not a k-factor (write e.g. 4/3 or 1.333)", s)
-		}
-		k = x
-	}
-	if !(k >= 0.5 && k <= 10) {
-		return 0, fmt.Errorf("k-factor %g is outside 0.5 to 10 (4/3 is the usual median)", k)
-	}
-	return k, nil
-}
-
 func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 	f, err := p.fields(n, "require", "margin", "reliability", "sigma")
 	if err != nil {
 		return err
 	}
 	if c := f["margin"]; c != nil {
-		if r.MarginDB, err = p.quantity(c, "require.margin", ParseLossDB); err != nil {
+		if r.MarginDB, err = p.quantity(c, "require.margin", units.ParseLossDB); err != nil {
 			return err
 		}
 	}
 	if c := f["reliability"]; c != nil {
-		if r.Reliability, err = p.quantity(c, "require.reliability", ParseRatio); err != nil {
+		if r.Reliability, err = p.quantity(c, "require.reliability", units.ParseRatio); err != nil {
 			return err
 		}
 		if !(r.Reliability > 0 && r.Reliability < 1) {
@@ -540,7 +517,7 @@ func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 		}
 	}
 	if c := f["sigma"]; c != nil {
-		if r.SigmaDB, err = p.quantity(c, "require.sigma", ParseLossDB); err != nil {
+		if r.SigmaDB, err = p.quantity(c, "require.sigma", units.ParseLossDB); err != nil {
 			return err
 		}
 		if !(r.SigmaDB > 0) {
@@ -573,12 +550,12 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			return err
 		}
 		if v := rf["power"]; v != nil {
-			if k.radio.PowerW, err = p.quantity(v, joinField(field, "radio.power"), ParsePowerW); err != nil {
+			if k.radio.PowerW, err = p.quantity(v, joinField(field, "radio.power"), units.ParsePowerW); err != nil {
 				return err
 			}
 		}
 		if v := rf["sensitivity"]; v != nil {
-			if k.radio.SensitivityDBm, err = p.quantity(v, joinField(field, "radio.sensitivity"), ParseSensitivityDBm); err != nil {
+			if k.radio.SensitivityDBm, err = p.quantity(v, joinField(field, "radio.sensitivity"), units.ParseSensitivityDBm); err != nil {
 				return err
 			}
 		}
@@ -589,12 +566,12 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			return err
 		}
 		if v := af["gain"]; v != nil {
-			if k.antenna.GainDBi, err = p.quantity(v, joinField(field, "antenna.gain"), ParseGainDBi); err != nil {
+			if k.antenna.GainDBi, err = p.quantity(v, joinField(field, "antenna.gain"), units.ParseGainDBi); err != nil {
 				return err
 			}
 		}
 		if v := af["height"]; v != nil {
-			if k.antenna.HeightM, err = p.quantity(v, joinField(field, "antenna.height"), ParseLengthM); err != nil {
+			if k.antenna.HeightM, err = p.quantity(v, joinField(field, "antenna.height"), units.ParseLengthM); err != nil {
 				return err
 			}
 		}
@@ -619,7 +596,7 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			}
 		}
 		if v := ff["length"]; v != nil {
-			if k.feedline.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), ParseLengthM); err != nil {
+			if k.feedline.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), units.ParseLengthM); err != nil {
 				return err
 			}
 		}
@@ -635,7 +612,7 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			k.feedline.Connectors = c
 		}
 		if v := ff["swr"]; v != nil {
-			if k.feedline.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), ParseSWR); err != nil {
+			if k.feedline.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), units.ParseSWR); err != nil {
 				return err
 			}
 		}
@@ -650,11 +627,11 @@ func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
 	if err != nil {
 		return orb.Point{}, err
 	}
-	pt, perr := ParsePoint(s)
+	pt, perr := units.ParsePoint(s)
 	if perr == nil {
 		return pt, nil
 	}
-	if !errors.Is(perr, ErrSyntax) {
+	if !errors.Is(perr, units.ErrSyntax) {
 		return orb.Point{}, p.wrap(n, field, perr)
 	}
 	if p.plan.Waypoints == nil {
@@ -735,14 +712,14 @@ func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error)
 			return Target{}, p.errf(fr, joinField(field, "frequency"), "give either frequency (simplex) or listen and transmit (repeater), not both")
 		}
 		t.Kind = Repeater
-		if t.ListenMHz, err = p.quantity(l, joinField(field, "listen"), ParseFreqMHz); err != nil {
+		if t.ListenMHz, err = p.quantity(l, joinField(field, "listen"), units.ParseFreqMHz); err != nil {
 			return Target{}, err
 		}
-		if t.TransmitMHz, err = p.quantity(tx, joinField(field, "transmit"), ParseFreqMHz); err != nil {
+		if t.TransmitMHz, err = p.quantity(tx, joinField(field, "transmit"), units.ParseFreqMHz); err != nil {
 			return Target{}, err
 		}
 	case fr != nil:
-		if t.FreqMHz, err = p.quantity(fr, joinField(field, "frequency"), ParseFreqMHz); err != nil {
+		if t.FreqMHz, err = p.quantity(fr, joinField(field, "frequency"), units.ParseFreqMHz); err != nil {
 			return Target{}, err
 		}
 	default:
@@ -776,7 +753,7 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) erro
 		e.Mode = TxMode(m)
 	}
 	if c := f["duty"]; c != nil {
-		if e.DutyFactor, err = p.quantity(c, joinField(field, "duty"), ParseRatio); err != nil {
+		if e.DutyFactor, err = p.quantity(c, joinField(field, "duty"), units.ParseRatio); err != nil {
 			return err
 		}
 		if !(e.DutyFactor > 0 && e.DutyFactor <= 1) {
@@ -788,7 +765,7 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) erro
 		if on != nil || off != nil {
 			return p.errf(c, joinField(field, "tx_time"), "give either tx_time or an on/off cycle, not both")
 		}
-		if e.TxFraction, err = p.quantity(c, joinField(field, "tx_time"), ParseRatio); err != nil {
+		if e.TxFraction, err = p.quantity(c, joinField(field, "tx_time"), units.ParseRatio); err != nil {
 			return err
 		}
 		if !(e.TxFraction > 0 && e.TxFraction <= 1) {
@@ -808,7 +785,7 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) erro
 			if err != nil {
 				return err
 			}
-			d, err := ParseDuration(s)
+			d, err := units.ParseDuration(s)
 			if err != nil {
 				return p.wrap(pair.n, joinField(field, pair.key), err)
 			}
@@ -827,7 +804,7 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) erro
 		e.Standard = ExposureStandard(v)
 	}
 	if c := f["head_height"]; c != nil {
-		if e.HeadHeightM, err = p.quantity(c, joinField(field, "head_height"), ParseLengthM); err != nil {
+		if e.HeadHeightM, err = p.quantity(c, joinField(field, "head_height"), units.ParseLengthM); err != nil {
 			return err
 		}
 	}
@@ -855,7 +832,7 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 	if err != nil {
 		return nil, err
 	}
-	if m.Heights, err = ParseLengthRange(s); err != nil {
+	if m.Heights, err = units.ParseLengthRange(s); err != nil {
 		return nil, p.wrap(c, "mast.heights", err)
 	}
 	c = f["cables"]
@@ -878,12 +855,12 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 		m.Cables = append(m.Cables, c)
 	}
 	if c := f["run"]; c != nil {
-		if m.RunM, err = p.quantity(c, "mast.run", ParseLengthM); err != nil {
+		if m.RunM, err = p.quantity(c, "mast.run", units.ParseLengthM); err != nil {
 			return nil, err
 		}
 	}
 	if c := f["slack"]; c != nil {
-		if m.SlackM, err = p.quantity(c, "mast.slack", ParseLengthM); err != nil {
+		if m.SlackM, err = p.quantity(c, "mast.slack", units.ParseLengthM); err != nil {
 			return nil, err
 		}
 	}

@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 const examplePlan = "../examples/valley/plan.yaml"
@@ -77,8 +79,8 @@ func TestBrokenPlans(t *testing.T) {
 		{"unknown field", base(station + "  - name: x\n    colour: red\n"), "plan.yaml:9: stations[1].colour: unknown field", nil},
 		{"unknown cable", base(strings.Replace(station, "    antenna:", "    feedline: {cable: RG-59X, length: 10m}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].feedline.cable: unknown cable "RG-59X" (known: RG-174`, ErrUnknownCable},
 		{"unknown waypoint", base(strings.Replace(station, "Wethermoss Saddle", "Wethermos Sadle", 1) + target), `plan.yaml:5: stations[0].at: unknown waypoint "Wethermos Sadle"`, ErrUnknownWaypoint},
-		{"negative height", base(strings.Replace(station, "height: 9m", "height: -9m", 1) + target), "plan.yaml:7: stations[0].antenna.height:", ErrRange},
-		{"power unit", base(strings.Replace(station, "power: 25W", "power: 25 watts", 1) + target), `plan.yaml:6: stations[0].radio.power: "25 watts": unknown unit`, ErrUnit},
+		{"negative height", base(strings.Replace(station, "height: 9m", "height: -9m", 1) + target), "plan.yaml:7: stations[0].antenna.height:", units.ErrRange},
+		{"power unit", base(strings.Replace(station, "power: 25W", "power: 25 watts", 1) + target), `plan.yaml:6: stations[0].radio.power: "25 watts": unknown unit`, units.ErrUnit},
 		{"frequency range", "frequency: 146.55THz\n" + station, "plan.yaml:1: frequency:", nil},
 		{"target without radio", base(station + "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n"), "plan.yaml:9: targets[0].radio: missing: give radio:", nil},
 		{"target radio from defaults", base("defaults: {radio: {power: 5W, sensitivity: 0.25uV}}\n" + station + "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n"), "", nil},
@@ -86,7 +88,7 @@ func TestBrokenPlans(t *testing.T) {
 		{"no stations", base(target), "plan.yaml:1: stations: the plan needs at least one station", nil},
 		{"no targets", base(station), "the plan has no targets", nil},
 		{"repeater half", base(station + "targets:\n  - name: r\n    at: Corvane Peak\n    radio: {power: 50W, sensitivity: -122dBm}\n    listen: 147.78MHz\n"), "plan.yaml:9: targets[0]: a repeater needs both listen and transmit", nil},
-		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", ErrRange},
+		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", units.ErrRange},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -63,7 +64,7 @@ func serpentine(name string, lat0, lon0 float64, n int, stepM, widthM, rowGapM f
 // a repeater on a mast in the middle (two frequencies) and four simplex
 // handhelds at the corners, so paths run up to about 30 km.
 func benchTargets(lat0, lon0 float64) []Target {
-	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	dLat, dLon := 20000/111320.0, 20000/(111320*math.Cos(lat0*math.Pi/180))
 	ts := []Target{{End: End{Name: "repeater", Pos: orb.Point{lon0 + dLon/2, lat0 + dLat/2},
 		Radio: Radio{PowerW: 50, SensitivityDBm: -122}, Antenna: Antenna{GainDBi: 6, HeightM: 20}},
@@ -92,7 +93,7 @@ func BenchmarkRoute1s(b *testing.B) {
 		b.Fatal(err)
 	}
 	tr := serpentine("bench", lat0, lon0, 10000, 50, 20000, 20000.0/25)
-	walker := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	walker := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	env := &Env{Terrain: ts, Vertical: true}
 	req := RouteRequest{Track: tr, Walker: walker, Targets: benchTargets(lat0, lon0), NeededMarginDB: 10, SpacingM: 50}
 	var paths int

@@ -12,6 +12,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
@@ -226,7 +227,7 @@ func TestRouteRidgeGap(t *testing.T) {
 	)
 	ts := ridgeWorld(t, r0, r1, 3000)
 	env := &Env{Terrain: ts, Vertical: true}
-	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	tg := Target{End: hand, Kind: Simplex, FreqMHz: 146.55}
 	tg.Name, tg.Pos, tg.Antenna = "mast", orb.Point{10.05, 0.5}, Antenna{GainDBi: 6, HeightM: 150}
 	hand.Name = "walker"
@@ -388,7 +389,7 @@ func TestRouteErrors(t *testing.T) {
 // ExampleEnv_Route checks a 2 km walk due east on a smooth earth against a
 // repeater 5 km to the north.
 func ExampleEnv_Route() {
-	hand := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	hand := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	rpt := Target{End: End{Name: "repeater", Pos: orb.Point{7.01, 45.045}, Radio: Radio{PowerW: 50, SensitivityDBm: -122}, Antenna: Antenna{GainDBi: 6, HeightM: 20}},
 		Kind: Repeater, ListenMHz: 147.78, TransmitMHz: 147.18}
 	walk := Track{Name: "walk", Points: []Place{{Pos: orb.Point{7, 45}}, {Pos: orb.Point{7.025, 45}}}}

@@ -10,6 +10,7 @@ import (
 	"runtime"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 )
 
@@ -159,11 +160,11 @@ func TestPlanRoutesAndSites(t *testing.T) {
 // station (6 m antenna) reaching a team 4 km and 8 km away, with
 // masts of 2 to 12 m.
 func ExampleEnv_RankSites() {
-	station := End{Name: "base", Radio: Radio{PowerW: 25, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 2.15, HeightM: 6}}
-	team := Target{End: End{Name: "team", Pos: orb.Point{7.1, 45}, Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}},
+	station := End{Name: "base", Radio: Radio{PowerW: 25, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 2.15, HeightM: 6}}
+	team := Target{End: End{Name: "team", Pos: orb.Point{7.1, 45}, Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}},
 		Kind: Simplex, FreqMHz: 146.55}
 	cands := []Place{{Name: "near", Pos: orb.Point{7.05, 45}}, {Name: "far", Pos: orb.Point{7, 45}}}
-	heights, _ := ParseLengthRange("2m..12m step 2m")
+	heights, _ := units.ParseLengthRange("2m..12m step 2m")
 	rg58, _ := LookupCable("RG-58")
 	env := &Env{} // smooth earth
 	r, err := env.RankSites(context.Background(), SitesRequest{Candidates: cands, Station: station, Targets: []Target{team}, NeededMarginDB: 20,

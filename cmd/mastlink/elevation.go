@@ -5,7 +5,7 @@ import (
 	"regexp"
 	"strconv"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
@@ -74,7 +74,7 @@ func runElevation(g *globals, o *elevationOptions, args []string) error {
 		if err != nil {
 			return err
 		}
-		if _, err := plan.ParsePoint(a); err == nil {
+		if _, err := units.ParsePoint(a); err == nil {
 			name = "" // given as coordinates
 		}
 		out.Points[i] = elevationPoint{Name: name, Lat: pos.Lat(), Lon: pos.Lon(), Source: terrain.NoSource}
@@ -126,7 +126,7 @@ func runElevation(g *globals, o *elevationOptions, args []string) error {
 	}
 	t.row(head...)
 	for _, p := range out.Points {
-		cells := []string{fmt.Sprintf("%.6f", p.Lat), fmt.Sprintf("%.6f", p.Lon), plan.FormatHeight(p.ElevationM, g.imperial()), p.Source}
+		cells := []string{fmt.Sprintf("%.6f", p.Lat), fmt.Sprintf("%.6f", p.Lon), units.FormatHeight(p.ElevationM, g.imperial()), p.Source}
 		if named {
 			cells = append([]string{p.Name}, cells...)
 		}

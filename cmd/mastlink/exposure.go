@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
@@ -80,13 +81,13 @@ rules decide.`,
 func runExposure(g *globals, o *exposureOptions) error {
 	in := plan.ExposureInput{}
 	var err error
-	if in.PowerW, err = quantity("power", o.power, plan.ParsePowerW); err != nil {
+	if in.PowerW, err = quantity("power", o.power, units.ParsePowerW); err != nil {
 		return err
 	}
-	if in.GainDBi, err = quantity("gain", o.gain, plan.ParseGainDBi); err != nil {
+	if in.GainDBi, err = quantity("gain", o.gain, units.ParseGainDBi); err != nil {
 		return err
 	}
-	if in.FreqMHz, err = quantity("freq", o.freq, plan.ParseFreqMHz); err != nil {
+	if in.FreqMHz, err = quantity("freq", o.freq, units.ParseFreqMHz); err != nil {
 		return err
 	}
 	if in.FreqMHz < plan.ExposureMinFreqMHz || in.FreqMHz > plan.ExposureMaxFreqMHz {
@@ -96,7 +97,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 		return usagef("--mode: %v", err)
 	}
 	if o.duty != "" {
-		if in.DutyFactor, err = quantity("duty", o.duty, plan.ParseRatio); err != nil {
+		if in.DutyFactor, err = quantity("duty", o.duty, units.ParseRatio); err != nil {
 			return err
 		}
 		if !(in.DutyFactor > 0 && in.DutyFactor <= 1) {
@@ -104,7 +105,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 		}
 	}
 	if o.txTime != "" {
-		if in.TxFraction, err = quantity("tx-time", o.txTime, plan.ParseRatio); err != nil {
+		if in.TxFraction, err = quantity("tx-time", o.txTime, units.ParseRatio); err != nil {
 			return err
 		}
 		if !(in.TxFraction > 0 && in.TxFraction <= 1) {
@@ -115,10 +116,10 @@ func runExposure(g *globals, o *exposureOptions) error {
 		return usagef("--on and --off go together (a transmit/listen cycle, e.g. --on 2m --off 2m)")
 	}
 	if o.on != "" {
-		if in.OnTime, err = plan.ParseDuration(o.on); err != nil {
+		if in.OnTime, err = units.ParseDuration(o.on); err != nil {
 			return usagef("--on: %v", err)
 		}
-		if in.OffTime, err = plan.ParseDuration(o.off); err != nil {
+		if in.OffTime, err = units.ParseDuration(o.off); err != nil {
 			return usagef("--off: %v", err)
 		}
 		if in.OnTime <= 0 {
@@ -135,11 +136,11 @@ func runExposure(g *globals, o *exposureOptions) error {
 		return usagef("--reflection: %q is not 1, 2.56 or 4", o.reflection)
 	}
 	if o.height != "" {
-		if in.AntennaHeightM, err = quantity("height", o.height, plan.ParseLengthM); err != nil {
+		if in.AntennaHeightM, err = quantity("height", o.height, units.ParseLengthM); err != nil {
 			return err
 		}
 	}
-	if in.HeadHeightM, err = quantity("head-height", o.headHeight, plan.ParseLengthM); err != nil {
+	if in.HeadHeightM, err = quantity("head-height", o.headHeight, units.ParseLengthM); err != nil {
 		return err
 	}
 	if o.cable != "" {
@@ -147,11 +148,11 @@ func runExposure(g *globals, o *exposureOptions) error {
 		if err != nil {
 			return usagef("--cable: %v", err)
 		}
-		l, err := quantity("cable-length", o.cableLength, plan.ParseLengthM)
+		l, err := quantity("cable-length", o.cableLength, units.ParseLengthM)
 		if err != nil {
 			return err
 		}
-		swr, err := quantity("swr", o.swr, plan.ParseSWR)
+		swr, err := quantity("swr", o.swr, units.ParseSWR)
 		if err != nil {
 			return err
 		}
@@ -169,7 +170,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 	}
 	out := exposureOutput{ExposureReport: rep}
 	if o.distance != "" {
-		d, err := quantity("distance", o.distance, plan.ParseLengthM)
+		d, err := quantity("distance", o.distance, units.ParseLengthM)
 		if err != nil {
 			return err
 		}
@@ -206,7 +207,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 		if !*out.ExemptAtDistance {
 			verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
 		}
-		fmt.Fprintf(g.stdout, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", plan.FormatLength(*out.DistanceM, g.imperial()), verdict)
+		fmt.Fprintf(g.stdout, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", units.FormatLength(*out.DistanceM, g.imperial()), verdict)
 	}
 	return nil
 }
@@ -226,35 +227,35 @@ var standardNames = map[plan.ExposureStandard]string{
 
 // renderExposureText writes the exposure result for a briefing.
 func renderExposureText(w io.Writer, r plan.ExposureReport, withHeight, im bool) {
-	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak (limits: %s)\n", plan.FormatFreq(r.FreqMHz), r.Mode, plan.FormatPower(r.EIRPW), standardNames[r.Standard])
+	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak (limits: %s)\n", units.FormatFreq(r.FreqMHz), r.Mode, units.FormatPower(r.EIRPW), standardNames[r.Standard])
 	t := newTable(w)
 	t.row("", "public", "operators")
 	t.row("  averaging window", fmt.Sprintf("%.0f min", r.AveragingPublicS/60), fmt.Sprintf("%.0f min", r.AveragingOccupationalS/60))
 	t.row("  worst-case time on the air", pct(r.TxFractionPublic), pct(r.TxFractionOccupational))
-	t.row("  average transmitter power", plan.FormatPower(r.AvgPowerPublicW), plan.FormatPower(r.AvgPowerOccupationalW))
+	t.row("  average transmitter power", units.FormatPower(r.AvgPowerPublicW), units.FormatPower(r.AvgPowerOccupationalW))
 	t.row("  limit", fmt.Sprintf("%.2f W/m²", r.LimitPublicWM2), fmt.Sprintf("%.2f W/m²", r.LimitOccupationalWM2))
-	t.row("  distance from the antenna", plan.FormatLength(up(r.DistancePublicM), im), plan.FormatLength(up(r.DistanceOccupationalM), im))
+	t.row("  distance from the antenna", units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
 	if withHeight {
-		t.row(fmt.Sprintf("  keep-out from the mast foot (head at %s)", plan.FormatHeight(r.HeadHeightM, im)), plan.FormatLength(up(r.KeepoutPublicM), im), plan.FormatLength(up(r.KeepoutOccupationalM), im))
+		t.row(fmt.Sprintf("  keep-out from the mast foot (head at %s)", units.FormatHeight(r.HeadHeightM, im)), units.FormatLength(up(r.KeepoutPublicM), im), units.FormatLength(up(r.KeepoutOccupationalM), im))
 	}
 	t.flush()
 	fmt.Fprintln(w)
 	switch {
 	case withHeight && r.KeepoutPublicM == 0:
 		fmt.Fprintf(w, "With the antenna %s up, a standing person's head is farther than %s from it: no keep-out zone is needed on the ground.\n",
-			plan.FormatHeight(r.AntennaHeightM, im), plan.FormatLength(r.DistancePublicM, im))
+			units.FormatHeight(r.AntennaHeightM, im), units.FormatLength(r.DistancePublicM, im))
 	case withHeight:
 		fmt.Fprintf(w, "Keep the public at least %s from the mast foot while transmitting (operators %s).\n",
-			plan.FormatLength(up(r.KeepoutPublicM), im), plan.FormatLength(up(r.KeepoutOccupationalM), im))
+			units.FormatLength(up(r.KeepoutPublicM), im), units.FormatLength(up(r.KeepoutOccupationalM), im))
 	default:
 		fmt.Fprintf(w, "Keep the public at least %s from the antenna while transmitting (operators %s); give --height for the keep-out on the ground.\n",
-			plan.FormatLength(up(r.DistancePublicM), im), plan.FormatLength(up(r.DistanceOccupationalM), im))
+			units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
 	}
 	if r.DistancePublicM < r.NearFieldM {
-		fmt.Fprintf(w, "The distance is inside λ/2π (%s) of the antenna, where the far-field estimate is unreliable.\n", plan.FormatLength(r.NearFieldM, im))
+		fmt.Fprintf(w, "The distance is inside λ/2π (%s) of the antenna, where the far-field estimate is unreliable.\n", units.FormatLength(r.NearFieldM, im))
 	}
 	fmt.Fprintf(w, "Under US 47 CFR § 1.1307(b)(3)(i)(C) (ERP %s averaged) the station is exempt from routine evaluation for people farther than %s.\n",
-		plan.FormatPower(r.ERPW), plan.FormatLength(r.ExemptBeyondM, im))
+		units.FormatPower(r.ERPW), units.FormatLength(r.ExemptBeyondM, im))
 	fmt.Fprintln(w, "\nCautions:")
 	for _, c := range r.Cautions {
 		fmt.Fprintf(w, "  - %s\n", c)

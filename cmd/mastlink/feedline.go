@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
 
@@ -61,7 +62,7 @@ frequencies: --cable custom:6.1dB/100ft@146MHz or
 }
 
 func runFeedline(g *globals, o *feedlineOptions, power string) error {
-	freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
 	}
@@ -75,15 +76,15 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 	if err != nil {
 		return usagef("--cable: %v", err)
 	}
-	length, err := quantity("length", o.length, plan.ParseLengthM)
+	length, err := quantity("length", o.length, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
-	swr, err := quantity("swr", o.swr, plan.ParseSWR)
+	swr, err := quantity("swr", o.swr, units.ParseSWR)
 	if err != nil {
 		return err
 	}
-	cl, err := quantity("connector-loss", o.connLoss, plan.ParseLossDB)
+	cl, err := quantity("connector-loss", o.connLoss, units.ParseLossDB)
 	if err != nil {
 		return err
 	}
@@ -105,7 +106,7 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 		MassKg:         c.MassKgPerM * length,
 	}
 	if power != "" {
-		p, err := quantity("power", power, plan.ParsePowerW)
+		p, err := quantity("power", power, units.ParsePowerW)
 		if err != nil {
 			return err
 		}
@@ -121,7 +122,7 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 	}
 	im := g.imperial()
 	w := g.stdout
-	fmt.Fprintf(w, "%s, %s at %s\n", c.Name, plan.FormatLength(length, im), plan.FormatFreq(freq))
+	fmt.Fprintf(w, "%s, %s at %s\n", c.Name, units.FormatLength(length, im), units.FormatFreq(freq))
 	t := newTable(w)
 	t.row("  matched cable loss", fmt.Sprintf("%.2f dB", loss.MatchedLossDB))
 	t.row(fmt.Sprintf("  extra loss from SWR %.2g:1", swr), fmt.Sprintf("%.2f dB", loss.SWRLossDB))
@@ -132,7 +133,7 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 		t.row("  SWR seen at the radio", fmt.Sprintf("%.2f:1", r.SWRAtRadio))
 	}
 	if r.PowerInW > 0 {
-		t.row(fmt.Sprintf("  of %s from the radio", plan.FormatPower(r.PowerInW)), plan.FormatPower(r.PowerAtAntennaW)+" at the antenna")
+		t.row(fmt.Sprintf("  of %s from the radio", units.FormatPower(r.PowerInW)), units.FormatPower(r.PowerAtAntennaW)+" at the antenna")
 	}
 	if r.MassKg > 0 {
 		t.row("  cable mass (typical)", fmt.Sprintf("%.1f kg", r.MassKg))
@@ -164,9 +165,9 @@ func renderCableList(g *globals, freq float64) error {
 	im := g.imperial()
 	per, perUnit := 100.0, "dB/100 m"
 	if im {
-		per, perUnit = 100*plan.MetresPerFoot, "dB/100 ft"
+		per, perUnit = 100*units.MetresPerFoot, "dB/100 ft"
 	}
-	fmt.Fprintf(g.stdout, "Cable catalog, matched loss at %s\n", plan.FormatFreq(freq))
+	fmt.Fprintf(g.stdout, "Cable catalog, matched loss at %s\n", units.FormatFreq(freq))
 	t := newTable(g.stdout)
 	massUnit := "kg/m"
 	if im {
@@ -176,7 +177,7 @@ func renderCableList(g *globals, freq float64) error {
 	for _, c := range items {
 		mass := c.MassKgPerM
 		if im {
-			mass = c.MassKgPerM / 0.45359237 * 100 * plan.MetresPerFoot
+			mass = c.MassKgPerM / 0.45359237 * 100 * units.MetresPerFoot
 		}
 		t.row("  "+c.Name, fmt.Sprintf("%.2f", c.LossDBPer100M*per/100), fmt.Sprintf("%.2f", c.VelocityFactor), fmt.Sprintf("%.3g", mass), c.Description)
 	}

@@ -3,10 +3,10 @@ package main
 import (
 	"errors"
 	"fmt"
-	"strconv"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
@@ -60,7 +60,7 @@ func (e *envFlags) stepM() (float64, error) {
 	if e.step == "" {
 		return 0, nil
 	}
-	v, err := quantity("step", e.step, plan.ParseLengthM)
+	v, err := quantity("step", e.step, units.ParseLengthM)
 	if err != nil {
 		return 0, err
 	}
@@ -80,28 +80,8 @@ func quantity(flag, value string, fn func(string) (float64, error)) (float64, er
 	return v, nil
 }
 
-// kFactor parses --k: a number or a fraction such as 4/3.
-func kFactor(value string) (float64, error) {
-	var k float64
-	if a, b, ok := strings.Cut(value, "/"); ok {
-		x, e1 := strconv.ParseFloat(strings.TrimSpace(a), 64)
-		y, e2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
-		if e1 != nil || e2 != nil || y == 0 {
-			return 0, usagef("--k: %q is not a k-factor (write e.g. 4/3 or 1.333)", value)
-		}
-		k = x / y
-	} else {
-		x, err := strconv.ParseFloat(strings.TrimSpace(value), 64)
-		if err != nil {
-			return 0, usagef("--k: %q is not a k-factor (write e.g. 4/3 or 1.333)", value)
-		}
-		k = x
-	}
-	if !(k >= 0.5 && k <= 10) {
-		return 0, usagef("--k: %g is outside 0.5 to 10 (4/3 is the usual median)", k)
-	}
-	return k, nil
-}
+// kFactor parses --k (units.ParseKFactor); an error names the flag.
+func kFactor(value string) (float64, error) { return quantity("k", value, units.ParseKFactor) }
 
 // pointResolver turns LAT,LON or a waypoint name into a position.
 type pointResolver struct {
@@ -110,11 +90,11 @@ type pointResolver struct {
 }
 
 func (r *pointResolver) resolve(flag, value string) (orb.Point, string, error) {
-	p, err := plan.ParsePoint(value)
+	p, err := units.ParsePoint(value)
 	if err == nil {
 		return p, fmt.Sprintf("%.5f,%.5f", p.Lat(), p.Lon()), nil
 	}
-	if !errors.Is(err, plan.ErrSyntax) {
+	if !errors.Is(err, units.ErrSyntax) {
 		return orb.Point{}, "", usagef("%s: %v", flag, err)
 	}
 	if r.file == "" {

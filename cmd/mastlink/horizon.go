@@ -3,7 +3,7 @@ package main
 import (
 	"fmt"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/spf13/cobra"
 )
@@ -48,11 +48,11 @@ the longest line-of-sight path between the two.`,
 }
 
 func runHorizon(g *globals, o *horizonOptions) error {
-	h, err := quantity("height", o.height, plan.ParseLengthM)
+	h, err := quantity("height", o.height, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
-	h2, err := quantity("to-height", o.toHeight, plan.ParseLengthM)
+	h2, err := quantity("to-height", o.toHeight, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
@@ -77,10 +77,10 @@ func runHorizon(g *globals, o *horizonOptions) error {
 	im := g.imperial()
 	w := g.stdout
 	fmt.Fprintf(w, "Radio horizon over a smooth earth (k = %.3f, effective radius %.0f km)\n", k, ae)
-	fmt.Fprintf(w, "  antenna at %-10s horizon %s\n", plan.FormatHeight(h, im), plan.FormatLength(r.HorizonM, im))
+	fmt.Fprintf(w, "  antenna at %-10s horizon %s\n", units.FormatHeight(h, im), units.FormatLength(r.HorizonM, im))
 	if h2 > 0 {
-		fmt.Fprintf(w, "  far antenna at %-6s horizon %s\n", plan.FormatHeight(h2, im), plan.FormatLength(r.ToHorizonM, im))
-		fmt.Fprintf(w, "  the two see each other up to %s apart over flat ground or sea\n", plan.FormatLength(r.CombinedM, im))
+		fmt.Fprintf(w, "  far antenna at %-6s horizon %s\n", units.FormatHeight(h2, im), units.FormatLength(r.ToHorizonM, im))
+		fmt.Fprintf(w, "  the two see each other up to %s apart over flat ground or sea\n", units.FormatLength(r.CombinedM, im))
 	}
 	fmt.Fprintln(w, "Hills and buildings shorten this; use `mastlink link` for a path over terrain.")
 	return nil

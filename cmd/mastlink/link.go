@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
 
@@ -71,19 +72,19 @@ func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
 	out.Name = name
 	var err error
 	if withPower {
-		if out.Radio.PowerW, err = quantity(prefix+"power", e.power, plan.ParsePowerW); err != nil {
+		if out.Radio.PowerW, err = quantity(prefix+"power", e.power, units.ParsePowerW); err != nil {
 			return out, err
 		}
 	}
 	if e.sens != "" {
-		if out.Radio.SensitivityDBm, err = quantity("rx-sens", e.sens, plan.ParseSensitivityDBm); err != nil {
+		if out.Radio.SensitivityDBm, err = quantity("rx-sens", e.sens, units.ParseSensitivityDBm); err != nil {
 			return out, err
 		}
 	}
-	if out.Antenna.GainDBi, err = quantity(prefix+"gain", e.gain, plan.ParseGainDBi); err != nil {
+	if out.Antenna.GainDBi, err = quantity(prefix+"gain", e.gain, units.ParseGainDBi); err != nil {
 		return out, err
 	}
-	if out.Antenna.HeightM, err = quantity(prefix+"height", e.height, plan.ParseLengthM); err != nil {
+	if out.Antenna.HeightM, err = quantity(prefix+"height", e.height, units.ParseLengthM); err != nil {
 		return out, err
 	}
 	if e.cable == "" {
@@ -99,7 +100,7 @@ func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
 	if e.cableLength == "" {
 		return out, usagef("--%scable needs --%scable-length", prefix, prefix)
 	}
-	l, err := quantity(prefix+"cable-length", e.cableLength, plan.ParseLengthM)
+	l, err := quantity(prefix+"cable-length", e.cableLength, units.ParseLengthM)
 	if err != nil {
 		return out, err
 	}
@@ -108,7 +109,7 @@ func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
 	if e.connectors < 0 {
 		return out, usagef("--%sconnectors: give 0 or more", prefix)
 	}
-	if out.Feedline.SWR, err = quantity(prefix+"swr", e.swr, plan.ParseSWR); err != nil {
+	if out.Feedline.SWR, err = quantity(prefix+"swr", e.swr, units.ParseSWR); err != nil {
 		return out, err
 	}
 	return out, nil
@@ -126,7 +127,7 @@ type linkOutput struct {
 }
 
 func runLink(g *globals, o *linkOptions) error {
-	freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
 	}
@@ -134,12 +135,12 @@ func runLink(g *globals, o *linkOptions) error {
 	if err != nil {
 		return err
 	}
-	if env.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
+	if env.SigmaDB, err = quantity("sigma", o.sigma, units.ParseLossDB); err != nil {
 		return err
 	}
 	req := plan.Requirement{SigmaDB: env.SigmaDB}
 	if o.reliability != "" {
-		if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
+		if req.Reliability, err = quantity("reliability", o.reliability, units.ParseRatio); err != nil {
 			return err
 		}
 		if !(req.Reliability > 0 && req.Reliability < 1) {
@@ -147,7 +148,7 @@ func runLink(g *globals, o *linkOptions) error {
 		}
 	}
 	if o.margin != "" {
-		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
+		if req.MarginDB, err = quantity("margin", o.margin, units.ParseLossDB); err != nil {
 			return err
 		}
 	}
@@ -207,7 +208,7 @@ func runLink(g *globals, o *linkOptions) error {
 		r.NeededMarginDB, r.MeetsRequirement = &need, &ok
 	}
 	out.LinkResult = r
-	out.SMeter = plan.SMeter(r.RxPowerDBm)
+	out.SMeter = units.SMeter(r.RxPowerDBm)
 	switch g.format {
 	case "json":
 		return writeJSON(g.stdout, out)
@@ -245,8 +246,8 @@ var modelNames = map[string]string{
 // renderLinkText writes one link budget in plain trade words.
 func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	r := o.LinkResult
-	fmt.Fprintf(w, "%s → %s at %s\n", r.From, r.To, plan.FormatFreq(r.FreqMHz))
-	fmt.Fprintf(w, "  distance %s, bearing %.1f° true\n", plan.FormatLength(r.DistanceM, im), r.AzimuthDeg)
+	fmt.Fprintf(w, "%s → %s at %s\n", r.From, r.To, units.FormatFreq(r.FreqMHz))
+	fmt.Fprintf(w, "  distance %s, bearing %.1f° true\n", units.FormatLength(r.DistanceM, im), r.AzimuthDeg)
 	terr := "elevation data"
 	switch r.Terrain {
 	case "smooth earth":
@@ -254,11 +255,11 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	case "profile file":
 		terr = "the profile file"
 	}
-	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, plan.FormatHeight(r.TxGroundM, im), plan.FormatHeight(r.RxGroundM, im))
+	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, units.FormatHeight(r.TxGroundM, im), units.FormatHeight(r.RxGroundM, im))
 	fmt.Fprintf(w, "  model: %s\n", modelNames[r.Model])
 	fmt.Fprintf(w, "  path: %s\n\n", pathSummary(r, im))
 	t := newTable(w)
-	t.row("  transmitter power", plan.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
+	t.row("  transmitter power", units.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
 	t.row("  transmit feedline"+lineName(tx), "", db(-r.TxFeedlineLossDB))
 	t.row("  transmit antenna gain", "", dbi(r.TxGainDBi))
 	t.row("  EIRP", "", dbm(r.EIRPDBm))
@@ -266,8 +267,8 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
 	t.row("  receive antenna gain", "", dbi(r.RxGainDBi))
 	t.row("  receive feedline"+lineName(rx), "", db(-r.RxFeedlineLossDB))
-	t.row("  received level", plan.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
-	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", plan.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
+	t.row("  received level", units.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
+	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", units.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
 	t.row("  margin", "", db(r.MarginDB))
 	if r.Probability != nil {
 		t.row(fmt.Sprintf("  chance of working here (σ %.1f dB)", o.SigmaDB), "", probability(*r.Probability))
@@ -291,7 +292,7 @@ func pathSummary(r plan.LinkResult, im bool) string {
 	}
 	if r.WorstClearanceF1 != nil && r.Obstacle != nil {
 		c := *r.WorstClearanceF1
-		where := fmt.Sprintf("%s from the transmitter (ground %s)", plan.FormatLength(r.Obstacle.DistanceM, im), plan.FormatHeight(r.Obstacle.ElevationM, im))
+		where := fmt.Sprintf("%s from the transmitter (ground %s)", units.FormatLength(r.Obstacle.DistanceM, im), units.FormatHeight(r.Obstacle.ElevationM, im))
 		switch {
 		case c >= 1:
 			s += fmt.Sprintf(", first Fresnel zone clear (worst %.2f of it, %s)", c, where)

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
 
@@ -15,7 +16,7 @@ import (
 // the worst margin in each cell, marked where it meets the requirement.
 func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	fmt.Fprintf(w, "Mast and cable for %s (cable = mast height + %s run + %s slack; worst margin over every required link, * meets %.1f dB)\n",
-		m.Station, plan.FormatLength(m.RunM, im), plan.FormatLength(m.SlackM, im), m.NeededMarginDB)
+		m.Station, units.FormatLength(m.RunM, im), units.FormatLength(m.SlackM, im), m.NeededMarginDB)
 	var cables []string
 	seen := map[string]bool{}
 	heights := []float64{}
@@ -36,7 +37,7 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	t := newTable(w)
 	t.row(append([]string{"  mast"}, cables...)...)
 	for _, h := range heights {
-		row := []string{"  " + plan.FormatHeight(h, im)}
+		row := []string{"  " + units.FormatHeight(h, im)}
 		for _, c := range cables {
 			r := cell[fmt.Sprintf("%g|%s", h, c)]
 			mark := " "
@@ -51,11 +52,11 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	switch {
 	case m.Recommended != nil:
 		r := m.Recommended
-		fmt.Fprintf(w, "Recommended: a %s mast with %s %s (%.1f kg of cable).\n\n", plan.FormatHeight(r.HeightM, im), plan.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
+		fmt.Fprintf(w, "Recommended: a %s mast with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
 	case m.Closest != nil:
 		c := m.Closest
 		fmt.Fprintf(w, "Nothing in the sweep meets the requirement. Closest: %s mast with %s, worst margin %+.1f dB on %s (%.1f dB short).\n\n",
-			plan.FormatHeight(c.HeightM, im), c.Cable, c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
+			units.FormatHeight(c.HeightM, im), c.Cable, c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
 	}
 	fmt.Fprintln(w, strings.TrimSpace(`Raise masts only where a falling mast cannot reach a power line; guy them against wind
 and do not raise them in storms.`))
@@ -163,7 +164,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		if env.K, err = kFactor(o.link.k); err != nil {
 			return err
 		}
-		freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+		freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 		if err != nil {
 			return err
 		}
@@ -188,7 +189,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		if err != nil {
 			return err
 		}
-		if tend.Radio.PowerW, err = quantity("to-power", o.toPower, plan.ParsePowerW); err != nil {
+		if tend.Radio.PowerW, err = quantity("to-power", o.toPower, units.ParsePowerW); err != nil {
 			return err
 		}
 		tend.Pos = to
@@ -203,7 +204,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 	}
 	var err error
 	if o.heights != "" {
-		if sweep.Heights, err = plan.ParseLengthRange(o.heights); err != nil {
+		if sweep.Heights, err = units.ParseLengthRange(o.heights); err != nil {
 			return usagef("--heights: %v", err)
 		}
 	}
@@ -218,12 +219,12 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		}
 	}
 	if o.run != "" {
-		if sweep.RunM, err = quantity("run", o.run, plan.ParseLengthM); err != nil {
+		if sweep.RunM, err = quantity("run", o.run, units.ParseLengthM); err != nil {
 			return err
 		}
 	}
 	if o.slack != "" {
-		if sweep.SlackM, err = quantity("slack", o.slack, plan.ParseLengthM); err != nil {
+		if sweep.SlackM, err = quantity("slack", o.slack, units.ParseLengthM); err != nil {
 			return err
 		}
 	}
@@ -234,15 +235,15 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		return usagef("--cables: give the cables to try (e.g. RG-58,RG-8X,RG-213)")
 	}
 	if o.margin != "" {
-		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
+		if req.MarginDB, err = quantity("margin", o.margin, units.ParseLossDB); err != nil {
 			return err
 		}
 	}
 	if o.reliability != "" {
-		if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
+		if req.Reliability, err = quantity("reliability", o.reliability, units.ParseRatio); err != nil {
 			return err
 		}
-		if req.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
+		if req.SigmaDB, err = quantity("sigma", o.sigma, units.ParseLossDB); err != nil {
 			return err
 		}
 	}

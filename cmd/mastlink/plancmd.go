@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
@@ -147,10 +148,10 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	for _, s := range res.Stations {
 		cable := "no feedline given"
 		if s.Cable != "" {
-			cable = fmt.Sprintf("%s, %s", s.Cable, plan.FormatLength(s.CableLengthM, im))
+			cable = fmt.Sprintf("%s, %s", s.Cable, units.FormatLength(s.CableLengthM, im))
 		}
-		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, plan.FormatHeight(s.GroundM, im),
-			plan.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), plan.FormatHeight(s.HeightM, im), cable)
+		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, units.FormatHeight(s.GroundM, im),
+			units.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), units.FormatHeight(s.HeightM, im), cable)
 		fmt.Fprintf(w, "  reaches %d of %d required targets in both directions\n\n", s.Reached, s.Of)
 		t := newTable(w)
 		t.row("  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict")
@@ -167,7 +168,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			if l.Optional {
 				target += " (optional)"
 			}
-			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), plan.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
 				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
 		}
 		t.flush()
@@ -181,7 +182,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	t := newTable(w)
 	t.row("  station", "MHz", "EIRP", "public", "operators", "limits")
 	for _, e := range res.Exposure {
-		t.row("  "+e.Station, fmt.Sprintf("%.3f", e.FreqMHz), plan.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
+		t.row("  "+e.Station, fmt.Sprintf("%.3f", e.FreqMHz), units.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
 	}
 	t.flush()
 	fmt.Fprintln(w, "\nCautions:")
@@ -206,7 +207,7 @@ func keepout(m float64, im bool) string {
 	if m <= 0 {
 		return "none needed"
 	}
-	return plan.FormatLength(up(m), im)
+	return units.FormatLength(up(m), im)
 }
 
 func clearance(l plan.LinkResult) string {
@@ -332,7 +333,7 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 	for i, s := range p.Stations {
 		sum := res.Stations[i]
 		out.Waypoints = append(out.Waypoints, plan.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
-			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", plan.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
+			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", units.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
 	}
 	for _, t := range p.Targets {
 		worst := math.Inf(1)

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 const demoPlan = "../../examples/valley/plan.yaml"
@@ -75,12 +76,12 @@ func TestPlanDirections(t *testing.T) {
 		switch {
 		case l.Direction == plan.DirTalkIn && l.To == rep.Name:
 			found++
-			if l.FreqMHz != rep.ListenMHz || l.From != st.Name || l.RxSensitivityDBm != rep.Radio.SensitivityDBm || l.TxPowerDBm != plan.DBmFromW(st.Radio.PowerW) {
+			if l.FreqMHz != rep.ListenMHz || l.From != st.Name || l.RxSensitivityDBm != rep.Radio.SensitivityDBm || l.TxPowerDBm != units.DBmFromW(st.Radio.PowerW) {
 				t.Errorf("talk-in: %+v", l)
 			}
 		case l.Direction == plan.DirTalkOut && l.From == rep.Name:
 			found++
-			if l.FreqMHz != rep.TransmitMHz || l.To != st.Name || l.RxSensitivityDBm != st.Radio.SensitivityDBm || l.TxPowerDBm != plan.DBmFromW(rep.Radio.PowerW) {
+			if l.FreqMHz != rep.TransmitMHz || l.To != st.Name || l.RxSensitivityDBm != st.Radio.SensitivityDBm || l.TxPowerDBm != units.DBmFromW(rep.Radio.PowerW) {
 				t.Errorf("talk-out: %+v", l)
 			}
 		}

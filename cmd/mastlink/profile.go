@@ -7,6 +7,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/report"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
@@ -112,7 +113,7 @@ func runProfile(g *globals, o *profileOptions) error {
 	var stepM float64
 	var err error
 	if o.step != "" {
-		if stepM, err = quantity("step", o.step, plan.ParseLengthM); err != nil {
+		if stepM, err = quantity("step", o.step, units.ParseLengthM); err != nil {
 			return err
 		}
 		if !(stepM > 0) {
@@ -123,12 +124,12 @@ func runProfile(g *globals, o *profileOptions) error {
 	if o.height != "" || o.toHeight != "" {
 		var h1, h2 float64
 		if o.height != "" {
-			if h1, err = quantity("height", o.height, plan.ParseLengthM); err != nil {
+			if h1, err = quantity("height", o.height, units.ParseLengthM); err != nil {
 				return err
 			}
 		}
 		if o.toHeight != "" {
-			if h2, err = quantity("to-height", o.toHeight, plan.ParseLengthM); err != nil {
+			if h2, err = quantity("to-height", o.toHeight, units.ParseLengthM); err != nil {
 				return err
 			}
 		}
@@ -243,13 +244,13 @@ func newProfileOutput(p *terrain.Profile, fromName, toName string) profileOutput
 func renderProfileText(w io.Writer, o profileOutput, outFile string, im bool) {
 	n := len(o.Samples)
 	at := func(s profileSample) string {
-		return fmt.Sprintf("%s at %s (%.5f, %.5f)", plan.FormatHeight(s.ElevationM, im), distance(s.DistanceM, im), s.Lat, s.Lon)
+		return fmt.Sprintf("%s at %s (%.5f, %.5f)", units.FormatHeight(s.ElevationM, im), distance(s.DistanceM, im), s.Lat, s.Lon)
 	}
 	fmt.Fprintf(w, "Terrain from %s to %s\n", o.From.Name, o.To.Name)
 	t := newTable(w)
-	t.row("  length", plan.FormatLength(o.DistanceM, im)+" along the WGS84 geodesic")
+	t.row("  length", units.FormatLength(o.DistanceM, im)+" along the WGS84 geodesic")
 	t.row("  bearing", fmt.Sprintf("%.2f° true out, %.2f° true back", o.AzimuthDeg, o.BackAzimuthDeg))
-	t.row("  ends", fmt.Sprintf("ground %s at the start, %s at the end", plan.FormatHeight(o.From.ElevationM, im), plan.FormatHeight(o.To.ElevationM, im)))
+	t.row("  ends", fmt.Sprintf("ground %s at the start, %s at the end", units.FormatHeight(o.From.ElevationM, im), units.FormatHeight(o.To.ElevationM, im)))
 	t.row("  lowest", at(o.Lowest))
 	t.row("  highest", at(o.Highest))
 	data := strings.Join(o.Sources, ", ")
@@ -266,9 +267,9 @@ func renderProfileText(w io.Writer, o profileOutput, outFile string, im bool) {
 		all = "all of them are in " + outFile
 	}
 	if every == 1 {
-		t.row("  samples", fmt.Sprintf("%d, %s apart; all shown below", n, plan.FormatLength(o.StepM, im)))
+		t.row("  samples", fmt.Sprintf("%d, %s apart; all shown below", n, units.FormatLength(o.StepM, im)))
 	} else {
-		t.row("  samples", fmt.Sprintf("%d, %s apart; every %s shown below", n, plan.FormatLength(o.StepM, im), ordinal(every)))
+		t.row("  samples", fmt.Sprintf("%d, %s apart; every %s shown below", n, units.FormatLength(o.StepM, im), ordinal(every)))
 		t.row("", all)
 	}
 	t.flush()
@@ -277,7 +278,7 @@ func renderProfileText(w io.Writer, o profileOutput, outFile string, im bool) {
 	t.row("  distance", "elevation", "lat", "lon")
 	for _, i := range shownSamples(n, every) {
 		s := o.Samples[i]
-		t.row("  "+distance(s.DistanceM, im), plan.FormatHeight(s.ElevationM, im), fmt.Sprintf("%.5f", s.Lat), fmt.Sprintf("%.5f", s.Lon))
+		t.row("  "+distance(s.DistanceM, im), units.FormatHeight(s.ElevationM, im), fmt.Sprintf("%.5f", s.Lat), fmt.Sprintf("%.5f", s.Lon))
 	}
 	t.flush()
 }
@@ -299,7 +300,7 @@ func shownSamples(n, every int) []int {
 // so a column of them lines up.
 func distance(m float64, im bool) string {
 	if im {
-		return fmt.Sprintf("%.2f mi", m/plan.MetresPerMile)
+		return fmt.Sprintf("%.2f mi", m/units.MetresPerMile)
 	}
 	return fmt.Sprintf("%.2f km", m/1000)
 }

@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
 
@@ -97,14 +98,14 @@ func (o *reachOptions) resolve(cmd *cobra.Command, g *globals, forSites bool) (*
 			return nil, err
 		}
 		req := plan.Requirement{}
-		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
+		if req.MarginDB, err = quantity("margin", o.margin, units.ParseLossDB); err != nil {
 			return nil, err
 		}
-		if req.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
+		if req.SigmaDB, err = quantity("sigma", o.sigma, units.ParseLossDB); err != nil {
 			return nil, err
 		}
 		if o.reliability != "" {
-			if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
+			if req.Reliability, err = quantity("reliability", o.reliability, units.ParseRatio); err != nil {
 				return nil, err
 			}
 			if !(req.Reliability > 0 && req.Reliability < 1) {
@@ -165,7 +166,7 @@ func (o *reachOptions) readTargets(r *reach) ([]plan.Target, error) {
 	freq := 0.0
 	if o.freq != "" {
 		var err error
-		if freq, err = quantity("freq", o.freq, plan.ParseFreqMHz); err != nil {
+		if freq, err = quantity("freq", o.freq, units.ParseFreqMHz); err != nil {
 			return nil, err
 		}
 	} else if r.plan != nil {

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
@@ -63,7 +64,7 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 	if o.freq != "" && o.targets == "" {
 		return usagef("--freq is the frequency of the targets of --targets; give that file too")
 	}
-	spacing, err := quantity("spacing", o.spacing, plan.ParseLengthM)
+	spacing, err := quantity("spacing", o.spacing, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
@@ -142,7 +143,7 @@ func pickTrack(g *globals, gf *plan.GPXFile, name string) (plan.Track, error) {
 func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 	fmt.Fprintf(w, "Route: %s\n", r.Name)
 	fmt.Fprintf(w, "  %s checked every %s (%d points) carrying the %s kit; %.1f dB of margin needed both ways\n",
-		plan.FormatLength(r.LengthM, im), plan.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB)
+		units.FormatLength(r.LengthM, im), units.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB)
 	if r.Terrain == "smooth earth" {
 		fmt.Fprintln(w, "  (no elevation data along the way: a smooth earth)")
 	}
@@ -155,7 +156,7 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 			name += " (optional)"
 		}
 		t.row("  "+name, strings.Join(x.Directions, "/"), percent(x.Fraction),
-			fmt.Sprintf("%s at %s", db(x.BestMarginDB), plan.FormatLength(x.BestDistanceM, im)))
+			fmt.Sprintf("%s at %s", db(x.BestMarginDB), units.FormatLength(x.BestDistanceM, im)))
 	}
 	t.row("  every required target", "", percent(r.OverallFraction), "")
 	t.flush()
@@ -165,8 +166,8 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 	} else {
 		fmt.Fprintln(w, "  Dead stretches (some required target out of reach):")
 		for _, gp := range r.Gaps {
-			fmt.Fprintf(w, "    %s to %s (%s): %s\n", plan.FormatLength(gp.StartM, im), plan.FormatLength(gp.EndM, im),
-				plan.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, "; "))
+			fmt.Fprintf(w, "    %s to %s (%s): %s\n", units.FormatLength(gp.StartM, im), units.FormatLength(gp.EndM, im),
+				units.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, "; "))
 		}
 	}
 	if len(r.BestSpots) > 0 {
@@ -174,14 +175,14 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 		t := newTable(w)
 		t.row("    target", "dead stretch", "call at", "position", "margin")
 		for _, s := range r.BestSpots {
-			t.row("    "+s.Target, fmt.Sprintf("%s–%s", plan.FormatLength(s.GapStartM, im), plan.FormatLength(s.GapEndM, im)),
-				fmt.Sprintf("%s (%s)", plan.FormatLength(s.DistanceM, im), s.Side), fmt.Sprintf("%.5f,%.5f", s.Lat, s.Lon), db(s.MarginDB))
+			t.row("    "+s.Target, fmt.Sprintf("%s–%s", units.FormatLength(s.GapStartM, im), units.FormatLength(s.GapEndM, im)),
+				fmt.Sprintf("%s (%s)", units.FormatLength(s.DistanceM, im), s.Side), fmt.Sprintf("%.5f,%.5f", s.Lat, s.Lon), db(s.MarginDB))
 		}
 		t.flush()
 	}
 	for _, x := range r.Targets {
 		if !x.Optional && x.Fraction == 0 {
-			fmt.Fprintf(w, "\n  %s is out of reach all along the route (best %s at %s).\n", x.Name, db(x.BestMarginDB), plan.FormatLength(x.BestDistanceM, im))
+			fmt.Fprintf(w, "\n  %s is out of reach all along the route (best %s at %s).\n", x.Name, db(x.BestMarginDB), units.FormatLength(x.BestDistanceM, im))
 		}
 	}
 	fmt.Fprintln(w)

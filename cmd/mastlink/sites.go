@@ -6,6 +6,7 @@ import (
 	"io"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
@@ -99,9 +100,9 @@ func runSites(cmd *cobra.Command, g *globals, o *reachOptions, candFile string) 
 
 // renderSitesText writes the ranking as a table.
 func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
-	mast := fmt.Sprintf("its own %s antenna height", plan.FormatHeight(s.HeightM, im))
+	mast := fmt.Sprintf("its own %s antenna height", units.FormatHeight(s.HeightM, im))
 	if n := len(s.MastHeightsM); n > 0 {
-		mast = fmt.Sprintf("masts of %s to %s", plan.FormatHeight(s.MastHeightsM[0], im), plan.FormatHeight(s.MastHeightsM[n-1], im))
+		mast = fmt.Sprintf("masts of %s to %s", units.FormatHeight(s.MastHeightsM[0], im), units.FormatHeight(s.MastHeightsM[n-1], im))
 	}
 	fmt.Fprintf(w, "Candidate sites for %s (%.1f dB of margin needed both ways; %s)\n", s.Station, s.NeededMarginDB, mast)
 	t := newTable(w)
@@ -109,12 +110,12 @@ func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
 	for _, c := range s.Sites {
 		m := "none meets it"
 		if c.MastM != nil {
-			m = plan.FormatHeight(*c.MastM, im)
+			m = units.FormatHeight(*c.MastM, im)
 			if c.Cable != "" {
 				m += " with " + c.Cable
 			}
 		}
-		t.row(fmt.Sprintf("  %d", c.Rank), c.Name, plan.FormatHeight(c.GroundM, im), db(c.WorstMarginDB), c.WorstLink,
+		t.row(fmt.Sprintf("  %d", c.Rank), c.Name, units.FormatHeight(c.GroundM, im), db(c.WorstMarginDB), c.WorstLink,
 			fmt.Sprintf("%d of %d", c.Reachable, c.Of), m)
 	}
 	t.flush()
