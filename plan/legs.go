@@ -30,7 +30,7 @@ type targetLegs struct {
 
 // newTargetLegs prepares the legs between near and t as targetLinks
 // orders them: talk-in then talk-out for a repeater, out then back for a
-// simplex target. Feedline losses are computed here once.
+// simplex target. feedline.Line losses are computed here once.
 func newTargetLegs(near End, t Target) (targetLegs, error) {
 	type spec struct {
 		dir    string

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
@@ -92,11 +93,11 @@ func TestKnifeEdgeRidge(t *testing.T) {
 // line; margin = received − sensitivity) and the free-space loss of ITU-R
 // P.525 (20 log(4πd/λ)) over the geodesic length.
 func TestEvaluateBudget(t *testing.T) {
-	rg8x, err := LookupCable("RG-8X")
+	rg8x, err := feedline.LookupCable("RG-8X")
 	if err != nil {
 		t.Fatal(err)
 	}
-	tx := End{Name: "a", Pos: orb.Point{10, 45}, Radio: Radio{PowerW: 25}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: NewFeedline(rg8x, 20)}
+	tx := End{Name: "a", Pos: orb.Point{10, 45}, Radio: Radio{PowerW: 25}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: feedline.NewLine(rg8x, 20)}
 	rx := End{Name: "b", Pos: orb.Point{10.1, 45.05}, Radio: Radio{SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 6, HeightM: 20}}
 	env := Env{Model: nil, SigmaDB: 5.5}
 	var g Geometry

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
@@ -105,9 +106,9 @@ type Target struct {
 // requirement.
 type MastSweep struct {
 	Heights units.LengthRange
-	Cables  []Cable // from the catalog, or described by the user
-	RunM    float64 // cable from the mast foot to the radio, metres
-	SlackM  float64 // extra cable for drip loops and the mast head, metres
+	Cables  []feedline.Cable // from the catalog, or described by the user
+	RunM    float64          // cable from the mast foot to the radio, metres
+	SlackM  float64          // extra cable for drip loops and the mast head, metres
 }
 
 // Plan is a parsed, validated plan file with every name resolved.
@@ -393,7 +394,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 			return nil, err
 		}
 	}
-	pl.Defaults = End{Radio: def.radio, Antenna: def.antenna, Feedline: def.feedline}
+	pl.Defaults = End{Radio: def.radio, Antenna: def.antenna, Feedline: def.line}
 	n := f["stations"]
 	if n == nil || n.Kind != yaml.SequenceNode || len(n.Content) == 0 {
 		return nil, p.errf(orNode(n, root), "stations", "the plan needs at least one station (a list of name, at, radio, antenna, feedline)")
@@ -529,9 +530,9 @@ func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 
 // kit is the radio, antenna and feedline an end uses.
 type kit struct {
-	radio    Radio
-	antenna  Antenna
-	feedline Feedline
+	radio   Radio
+	antenna Antenna
+	line    feedline.Line
 }
 
 func (p *planParser) defaults(n *yaml.Node, k *kit) error {
@@ -586,17 +587,17 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			if err != nil {
 				return err
 			}
-			c, err := ResolveCable(name)
+			c, err := feedline.ResolveCable(name)
 			if err != nil {
 				return p.wrap(v, joinField(field, "feedline.cable"), err)
 			}
-			k.feedline.Cable = c
-			if k.feedline.ConnectorLossDB == 0 {
-				k.feedline.ConnectorLossDB = DefaultConnectorLossDB
+			k.line.Cable = c
+			if k.line.ConnectorLossDB == 0 {
+				k.line.ConnectorLossDB = feedline.DefaultConnectorLossDB
 			}
 		}
 		if v := ff["length"]; v != nil {
-			if k.feedline.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), units.ParseLengthM); err != nil {
+			if k.line.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), units.ParseLengthM); err != nil {
 				return err
 			}
 		}
@@ -609,10 +610,10 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			if e != nil || c < 0 || c > 20 {
 				return p.errf(v, joinField(field, "feedline.connectors"), "%q is not a number of connector pairs from 0 to 20", s)
 			}
-			k.feedline.Connectors = c
+			k.line.Connectors = c
 		}
 		if v := ff["swr"]; v != nil {
-			if k.feedline.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), units.ParseSWR); err != nil {
+			if k.line.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), units.ParseSWR); err != nil {
 				return err
 			}
 		}
@@ -686,7 +687,7 @@ func (p *planParser) end(n *yaml.Node, f map[string]*yaml.Node, field string, de
 	if needRadio && (k.radio.PowerW == 0 || k.radio.SensitivityDBm == 0) {
 		return p.errf(n, joinField(field, "radio"), "missing: give radio: {power: 5W, sensitivity: 0.25uV} here or under defaults")
 	}
-	e.Radio, e.Antenna, e.Feedline = k.radio, k.antenna, k.feedline
+	e.Radio, e.Antenna, e.Feedline = k.radio, k.antenna, k.line
 	if e.Feedline.Cable.Name != "" && e.Feedline.LengthM == 0 {
 		return p.errf(orNode(f["feedline"], n), joinField(field, "feedline.length"), "missing: a cable needs a length (e.g. length: 15m)")
 	}
@@ -848,7 +849,7 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 		if err != nil {
 			return nil, err
 		}
-		c, err := ResolveCable(name)
+		c, err := feedline.ResolveCable(name)
 		if err != nil {
 			return nil, p.wrap(cc, fld, err)
 		}

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"github.com/mastlink/mastlink/plan/feedline"
 )
 
 // SitesRequest is what Env.RankSites ranks: candidate places for a station,
@@ -43,7 +45,7 @@ type SiteResult struct {
 	// requirement on every required link: from the sweep when one is
 	// given, else the station's own height; null when none does.
 	MastM *float64 `json:"mast_m"`
-	// Cable is the lightest cable that meets it at MastM (sweep only).
+	// feedline.Cable is the lightest cable that meets it at MastM (sweep only).
 	Cable   string       `json:"cable,omitempty"`
 	Targets []SiteTarget `json:"targets"`
 }
@@ -81,7 +83,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	}
 	type config struct {
 		heightM float64
-		cable   Cable
+		cable   feedline.Cable
 		massKg  float64
 		legs    []targetLegs
 	}
@@ -199,8 +201,8 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 // mastFeedline is the station's line rebuilt for a mast of heightM metres
 // with cable c: as long as the mast plus the run and slack of m, with the
 // station's SWR, connectors and connector loss (as Env.SweepMast builds it).
-func mastFeedline(station Feedline, c Cable, heightM float64, m *MastSweep) Feedline {
-	fl := NewFeedline(c, heightM+m.RunM+m.SlackM)
+func mastFeedline(station feedline.Line, c feedline.Cable, heightM float64, m *MastSweep) feedline.Line {
+	fl := feedline.NewLine(c, heightM+m.RunM+m.SlackM)
 	fl.SWR, fl.Connectors = station.SWR, station.Connectors
 	if station.ConnectorLossDB > 0 {
 		fl.ConnectorLossDB = station.ConnectorLossDB

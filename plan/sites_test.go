@@ -10,6 +10,7 @@ import (
 	"runtime"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 )
@@ -165,10 +166,10 @@ func ExampleEnv_RankSites() {
 		Kind: Simplex, FreqMHz: 146.55}
 	cands := []Place{{Name: "near", Pos: orb.Point{7.05, 45}}, {Name: "far", Pos: orb.Point{7, 45}}}
 	heights, _ := units.ParseLengthRange("2m..12m step 2m")
-	rg58, _ := LookupCable("RG-58")
+	rg58, _ := feedline.LookupCable("RG-58")
 	env := &Env{} // smooth earth
 	r, err := env.RankSites(context.Background(), SitesRequest{Candidates: cands, Station: station, Targets: []Target{team}, NeededMarginDB: 20,
-		Mast: &MastSweep{Heights: heights, Cables: []Cable{rg58}, RunM: 5}}, nil)
+		Mast: &MastSweep{Heights: heights, Cables: []feedline.Cable{rg58}, RunM: 5}}, nil)
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -1,6 +1,9 @@
 package plan
 
-import "github.com/paulmach/orb"
+import (
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/paulmach/orb"
+)
 
 // Radio is a transceiver's transmitter power and receiver sensitivity.
 type Radio struct {
@@ -21,5 +24,5 @@ type End struct {
 	Pos      orb.Point // lon, lat, degrees WGS84
 	Radio    Radio
 	Antenna  Antenna
-	Feedline Feedline
+	Feedline feedline.Line
 }

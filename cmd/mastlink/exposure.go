@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -144,7 +145,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 		return err
 	}
 	if o.cable != "" {
-		c, err := plan.ResolveCable(o.cable)
+		c, err := feedline.ResolveCable(o.cable)
 		if err != nil {
 			return usagef("--cable: %v", err)
 		}
@@ -156,7 +157,7 @@ func runExposure(g *globals, o *exposureOptions) error {
 		if err != nil {
 			return err
 		}
-		fl := plan.NewFeedline(c, l)
+		fl := feedline.NewLine(c, l)
 		fl.SWR, fl.Connectors = swr, o.connectors
 		loss, err := fl.Loss(in.FreqMHz)
 		if err != nil {

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strconv"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
@@ -18,9 +18,9 @@ type feedlineOptions struct {
 }
 
 // feedlineResult is the JSON of `mastlink feedline`: the contract fields of
-// plan.FeedlineLoss plus the SWR seen at the radio.
+// feedline.Loss plus the SWR seen at the radio.
 type feedlineResult struct {
-	plan.FeedlineLoss
+	feedline.Loss
 	SWRAtAntenna    float64 `json:"swr_at_antenna"`
 	SWRAtRadio      float64 `json:"swr_at_radio"`
 	MismatchLossDB  float64 `json:"mismatch_loss_db"`
@@ -72,7 +72,7 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 	if o.cable == "" || o.length == "" {
 		return usagef("--cable and --length are needed (or --list for the catalog)")
 	}
-	c, err := plan.ResolveCable(o.cable)
+	c, err := feedline.ResolveCable(o.cable)
 	if err != nil {
 		return usagef("--cable: %v", err)
 	}
@@ -91,17 +91,17 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 	if o.connectors < 0 {
 		return usagef("--connectors: give 0 or more")
 	}
-	fl := plan.NewFeedline(c, length)
+	fl := feedline.NewLine(c, length)
 	fl.SWR, fl.Connectors, fl.ConnectorLossDB = swr, o.connectors, cl
 	loss, err := fl.Loss(freq)
 	if err != nil {
 		return usagef("%v", err)
 	}
 	r := feedlineResult{
-		FeedlineLoss:   loss,
+		Loss:           loss,
 		SWRAtAntenna:   swr,
-		SWRAtRadio:     plan.InputSWR(loss.MatchedLossDB, swr),
-		MismatchLossDB: plan.MismatchLossDB(plan.InputSWR(loss.MatchedLossDB, swr)),
+		SWRAtRadio:     feedline.InputSWR(loss.MatchedLossDB, swr),
+		MismatchLossDB: feedline.MismatchLossDB(feedline.InputSWR(loss.MatchedLossDB, swr)),
 		VelocityFactor: c.VelocityFactor,
 		MassKg:         c.MassKgPerM * length,
 	}
@@ -148,12 +148,12 @@ func runFeedline(g *globals, o *feedlineOptions, power string) error {
 }
 
 func renderCableList(g *globals, freq float64) error {
-	items := plan.CableList(freq)
+	items := feedline.CableList(freq)
 	switch g.format {
 	case "json":
 		return writeJSON(g.stdout, struct {
-			FreqMHz float64              `json:"freq_mhz"`
-			Cables  []plan.CableListItem `json:"cables"`
+			FreqMHz float64                  `json:"freq_mhz"`
+			Cables  []feedline.CableListItem `json:"cables"`
 		}{freq, items})
 	case "csv":
 		rows := make([][]string, len(items))

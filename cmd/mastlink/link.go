@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
@@ -93,7 +94,7 @@ func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
 		}
 		return out, nil
 	}
-	c, err := plan.ResolveCable(e.cable)
+	c, err := feedline.ResolveCable(e.cable)
 	if err != nil {
 		return out, usagef("--%scable: %v", prefix, err)
 	}
@@ -104,7 +105,7 @@ func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
 	if err != nil {
 		return out, err
 	}
-	out.Feedline = plan.NewFeedline(c, l)
+	out.Feedline = feedline.NewLine(c, l)
 	out.Feedline.Connectors = e.connectors
 	if e.connectors < 0 {
 		return out, usagef("--%sconnectors: give 0 or more", prefix)

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
@@ -211,7 +212,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 	if o.cables != "" {
 		sweep.Cables = nil
 		for _, name := range strings.Split(o.cables, ",") {
-			c, err := plan.ResolveCable(strings.TrimSpace(name))
+			c, err := feedline.ResolveCable(strings.TrimSpace(name))
 			if err != nil {
 				return usagef("--cables: %v", err)
 			}

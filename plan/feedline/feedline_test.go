@@ -1,4 +1,4 @@
-package plan
+package feedline
 
 import (
 	"bytes"
@@ -192,7 +192,7 @@ func TestFeedlineLoss(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f := NewFeedline(rg8x, 15)
+	f := NewLine(rg8x, 15)
 	f.SWR, f.Connectors = 1.3, 2
 	got, err := f.Loss(146)
 	if err != nil {
@@ -223,14 +223,14 @@ func TestFeedlineLoss(t *testing.T) {
 
 	bad := []struct {
 		name string
-		f    Feedline
+		f    Line
 		freq float64
 		msg  string
 	}{
-		{"negative length", Feedline{Cable: rg8x, LengthM: -1}, 146, "cable length -1 m: give a length of 0 or more"},
-		{"zero frequency", Feedline{Cable: rg8x, LengthM: 1}, 0, "frequency 0 MHz: give a frequency above 0"},
-		{"swr below 1", Feedline{Cable: rg8x, LengthM: 1, SWR: 0.5}, 146, "swr 0.5: give an SWR of 1 or more (1 is matched)"},
-		{"negative connectors", Feedline{Cable: rg8x, LengthM: 1, Connectors: -1}, 146, "-1 connectors: give 0 or more"},
+		{"negative length", Line{Cable: rg8x, LengthM: -1}, 146, "cable length -1 m: give a length of 0 or more"},
+		{"zero frequency", Line{Cable: rg8x, LengthM: 1}, 0, "frequency 0 MHz: give a frequency above 0"},
+		{"swr below 1", Line{Cable: rg8x, LengthM: 1, SWR: 0.5}, 146, "swr 0.5: give an SWR of 1 or more (1 is matched)"},
+		{"negative connectors", Line{Cable: rg8x, LengthM: 1, Connectors: -1}, 146, "-1 connectors: give 0 or more"},
 	}
 	for _, c := range bad {
 		_, err := c.f.Loss(c.freq)
@@ -347,7 +347,7 @@ func TestCableListGolden(t *testing.T) {
 
 func BenchmarkFeedlineLoss(b *testing.B) {
 	c, _ := LookupCable("RG-213")
-	f := Feedline{Cable: c, LengthM: 30, SWR: 1.5, Connectors: 2, ConnectorLossDB: DefaultConnectorLossDB}
+	f := Line{Cable: c, LengthM: 30, SWR: 1.5, Connectors: 2, ConnectorLossDB: DefaultConnectorLossDB}
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := f.Loss(146); err != nil {

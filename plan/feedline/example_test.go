@@ -1,18 +1,18 @@
-package plan_test
+package feedline_test
 
 import (
 	"fmt"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
 )
 
-func ExampleFeedline_Loss() {
-	cable, err := plan.LookupCable("rg8x")
+func ExampleLine_Loss() {
+	cable, err := feedline.LookupCable("rg8x")
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	line := plan.NewFeedline(cable, 15)
+	line := feedline.NewLine(cable, 15)
 	line.SWR, line.Connectors = 1.5, 2
 	loss, _ := line.Loss(146)
 	fmt.Printf("%s, %.0f m at %.0f MHz: matched %.2f dB + SWR %.2f dB + connectors %.2f dB = %.2f dB (%.0f%% delivered)\n",
@@ -22,7 +22,7 @@ func ExampleFeedline_Loss() {
 }
 
 func ExampleCableList() {
-	for _, c := range plan.CableList(146)[:3] {
+	for _, c := range feedline.CableList(146)[:3] {
 		fmt.Printf("%-7s %5.1f dB/100 m at 146 MHz, VF %.2f\n", c.Name, c.LossDBPer100M, c.VelocityFactor)
 	}
 	// Output:
