@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"sort"
 
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 )
@@ -42,7 +43,7 @@ type StationExposure struct {
 	Station string  `json:"station"`
 	Lat     float64 `json:"lat"`
 	Lon     float64 `json:"lon"`
-	ExposureReport
+	exposure.Report
 }
 
 // PlanResult is the outcome of a whole plan.
@@ -199,7 +200,7 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 		list = append(list, f)
 	}
 	sort.Float64s(list)
-	var best ExposureReport
+	var best exposure.Report
 	found := false
 	for _, f := range list {
 		in := st.Exposure
@@ -209,7 +210,7 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 			return StationExposure{}, err
 		}
 		in.FeedlineLossDB = fl.TotalLossDB
-		r, err := EvaluateExposure(in)
+		r, err := exposure.Evaluate(in)
 		if err != nil {
 			return StationExposure{}, err
 		}
@@ -220,5 +221,5 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 	if !found {
 		return StationExposure{}, fmt.Errorf("no transmit frequency: give the plan a frequency")
 	}
-	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), ExposureReport: best}, nil
+	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), Report: best}, nil
 }

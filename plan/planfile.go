@@ -8,8 +8,8 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
-	"time"
 
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
@@ -74,7 +74,7 @@ type Station struct {
 	// evaluation (mode, time on the air, standard, head height, ground
 	// reflection); power, gain, feedline, frequency and height are filled
 	// in from the station when it is evaluated.
-	Exposure ExposureInput
+	Exposure exposure.Input
 	line     int
 }
 
@@ -654,7 +654,7 @@ func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, erro
 	if err := p.end(n, f, field, def, &st.End, true); err != nil {
 		return Station{}, err
 	}
-	st.Exposure = ExposureInput{Mode: ModeFM, TxFraction: 0.5, Standard: StandardFCC, HeadHeightM: DefaultHeadHeightM, ReflectionFactor: ReflectionGround}
+	st.Exposure = exposure.Input{Mode: exposure.ModeFM, TxFraction: 0.5, Standard: exposure.StandardFCC, HeadHeightM: exposure.DefaultHeadHeightM, ReflectionFactor: exposure.ReflectionGround}
 	if c := f["exposure"]; c != nil {
 		if err := p.exposure(c, joinField(field, "exposure"), &st.Exposure); err != nil {
 			return Station{}, err
@@ -739,82 +739,28 @@ func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error)
 	return t, nil
 }
 
-var exposureModes = []string{"fm", "ssb", "ssb-processed", "cw", "digital", "carrier"}
-
-func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) error {
-	f, err := p.fields(n, field, "mode", "duty", "tx_time", "on", "off", "standard", "head_height", "reflection")
+// exposure reads a station's exposure: habits with exposure.Options, the
+// parser the exposure command uses too.
+func (p *planParser) exposure(n *yaml.Node, field string, e *exposure.Input) error {
+	f, err := p.fields(n, field, exposure.OptionKeys...)
 	if err != nil {
 		return err
 	}
-	if c := f["mode"]; c != nil {
-		m, err := p.choice(c, joinField(field, "mode"), exposureModes...)
-		if err != nil {
-			return err
-		}
-		e.Mode = TxMode(m)
-	}
-	if c := f["duty"]; c != nil {
-		if e.DutyFactor, err = p.quantity(c, joinField(field, "duty"), units.ParseRatio); err != nil {
-			return err
-		}
-		if !(e.DutyFactor > 0 && e.DutyFactor <= 1) {
-			return p.errf(c, joinField(field, "duty"), "give a duty factor above 0 and up to 100%%")
-		}
-	}
-	on, off := f["on"], f["off"]
-	if c := f["tx_time"]; c != nil {
-		if on != nil || off != nil {
-			return p.errf(c, joinField(field, "tx_time"), "give either tx_time or an on/off cycle, not both")
-		}
-		if e.TxFraction, err = p.quantity(c, joinField(field, "tx_time"), units.ParseRatio); err != nil {
-			return err
-		}
-		if !(e.TxFraction > 0 && e.TxFraction <= 1) {
-			return p.errf(c, joinField(field, "tx_time"), "give a fraction above 0 and up to 100%% of the time")
-		}
-	}
-	if on != nil || off != nil {
-		if on == nil || off == nil {
-			return p.errf(n, field, "a transmit cycle needs both on and off (e.g. on: 2min, off: 2min)")
-		}
-		for _, pair := range []struct {
-			n   *yaml.Node
-			key string
-			dst *time.Duration
-		}{{on, "on", &e.OnTime}, {off, "off", &e.OffTime}} {
-			s, err := p.scalar(pair.n, joinField(field, pair.key))
-			if err != nil {
-				return err
-			}
-			d, err := units.ParseDuration(s)
-			if err != nil {
-				return p.wrap(pair.n, joinField(field, pair.key), err)
-			}
-			*pair.dst = d
-		}
-		if e.OnTime <= 0 {
-			return p.errf(on, joinField(field, "on"), "the transmit time must be more than 0")
-		}
-		e.TxFraction = 0
-	}
-	if c := f["standard"]; c != nil {
-		v, err := p.choice(c, joinField(field, "standard"), "fcc", "icnirp2020", "icnirp1998")
-		if err != nil {
-			return err
-		}
-		e.Standard = ExposureStandard(v)
-	}
-	if c := f["head_height"]; c != nil {
-		if e.HeadHeightM, err = p.quantity(c, joinField(field, "head_height"), units.ParseLengthM); err != nil {
+	text := map[string]string{}
+	for key, c := range f {
+		if text[key], err = p.scalar(c, joinField(field, key)); err != nil {
 			return err
 		}
 	}
-	if c := f["reflection"]; c != nil {
-		s, err := p.choice(c, joinField(field, "reflection"), "1", "2.56", "4")
-		if err != nil {
-			return err
+	o := exposure.Options{Mode: text[exposure.OptMode], Duty: text[exposure.OptDuty], TxTime: text[exposure.OptTxTime],
+		On: text[exposure.OptOn], Off: text[exposure.OptOff], Standard: text[exposure.OptStandard],
+		HeadHeight: text[exposure.OptHeadHeight], Reflection: text[exposure.OptReflection]}
+	if err := o.Apply(e); err != nil {
+		var oe *units.OptionError
+		if errors.As(err, &oe) {
+			return p.wrap(orNode(f[oe.Option], n), joinField(field, oe.Option), oe.Err)
 		}
-		e.ReflectionFactor, _ = strconv.ParseFloat(s, 64)
+		return p.wrap(n, field, err)
 	}
 	return nil
 }

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
@@ -17,12 +18,12 @@ import (
 func init() { commandConstructors = append(commandConstructors, newExposureCmd) }
 
 type exposureOptions struct {
-	power, gain, freq, mode, duty, txTime, on, off string
-	standard, height, headHeight, reflection       string
-	cable, cableLength, swr                        string
-	connectors                                     int
-	at, distance                                   string
-	points                                         pointResolver
+	power, gain, freq, height string
+	habits                    exposure.Options // --mode, --duty, --tx-time, --on, --off, --standard, --head-height, --reflection
+	cable, cableLength, swr   string
+	connectors                int
+	at, distance              string
+	points                    pointResolver
 }
 
 func newExposureCmd(g *globals) *cobra.Command {
@@ -56,15 +57,15 @@ rules decide.`,
 	f.StringVar(&o.power, "power", "", "transmitter output, peak envelope power [W] (required)")
 	f.StringVar(&o.gain, "gain", "0dBi", "antenna gain [dBi] (dBd accepted)")
 	f.StringVar(&o.freq, "freq", "", "transmit frequency [MHz] (required)")
-	f.StringVar(&o.mode, "mode", "fm", "emission: fm, ssb, ssb-processed, cw, digital or carrier (sets the duty factor)")
-	f.StringVar(&o.duty, "duty", "", "duty factor to use instead of the mode's, e.g. 50%")
-	f.StringVar(&o.txTime, "tx-time", "", "fraction of time on the air, e.g. 50% (default: continuously)")
-	f.StringVar(&o.on, "on", "", "transmit part of a transmit/listen cycle, e.g. 2m (minutes), 30s")
-	f.StringVar(&o.off, "off", "", "listen part of the cycle, e.g. 2m")
-	f.StringVar(&o.standard, "standard", "fcc", "limits: fcc, icnirp2020 or icnirp1998")
+	f.StringVar(&o.habits.Mode, "mode", "fm", "emission: fm, ssb, ssb-processed, cw, digital or carrier (sets the duty factor)")
+	f.StringVar(&o.habits.Duty, "duty", "", "duty factor to use instead of the mode's, e.g. 50%")
+	f.StringVar(&o.habits.TxTime, "tx-time", "", "fraction of time on the air, e.g. 50% (default: continuously)")
+	f.StringVar(&o.habits.On, "on", "", "transmit part of a transmit/listen cycle, e.g. 2m (minutes), 30s")
+	f.StringVar(&o.habits.Off, "off", "", "listen part of the cycle, e.g. 2m")
+	f.StringVar(&o.habits.Standard, "standard", "fcc", "limits: fcc, icnirp2020 or icnirp1998")
 	f.StringVar(&o.height, "height", "", "antenna height above the ground where people stand [m]")
-	f.StringVar(&o.headHeight, "head-height", "2m", "height of a person's head [m]")
-	f.StringVar(&o.reflection, "reflection", "2.56", "ground-reflection factor: 1 (none), 2.56 (typical ground) or 4 (full)")
+	f.StringVar(&o.habits.HeadHeight, "head-height", "2m", "height of a person's head [m]")
+	f.StringVar(&o.habits.Reflection, "reflection", "2.56", "ground-reflection factor: 1 (none), 2.56 (typical ground) or 4 (full)")
 	f.StringVar(&o.cable, "cable", "", "feedline cable (its loss lowers the power at the antenna)")
 	f.StringVar(&o.cableLength, "cable-length", "", "feedline length [m]")
 	f.StringVar(&o.swr, "swr", "1", "SWR at the antenna")
@@ -80,7 +81,7 @@ rules decide.`,
 }
 
 func runExposure(g *globals, o *exposureOptions) error {
-	in := plan.ExposureInput{}
+	in := exposure.Input{}
 	var err error
 	if in.PowerW, err = quantity("power", o.power, units.ParsePowerW); err != nil {
 		return err
@@ -91,58 +92,16 @@ func runExposure(g *globals, o *exposureOptions) error {
 	if in.FreqMHz, err = quantity("freq", o.freq, units.ParseFreqMHz); err != nil {
 		return err
 	}
-	if in.FreqMHz < plan.ExposureMinFreqMHz || in.FreqMHz > plan.ExposureMaxFreqMHz {
+	if in.FreqMHz < exposure.MinFreqMHz || in.FreqMHz > exposure.MaxFreqMHz {
 		return usagef("--freq: %g MHz is outside the 0.3 MHz – 100 GHz range the exposure limits cover", in.FreqMHz)
 	}
-	if in.Mode, err = plan.ParseTxMode(o.mode); err != nil {
-		return usagef("--mode: %v", err)
-	}
-	if o.duty != "" {
-		if in.DutyFactor, err = quantity("duty", o.duty, units.ParseRatio); err != nil {
-			return err
-		}
-		if !(in.DutyFactor > 0 && in.DutyFactor <= 1) {
-			return usagef("--duty: give a duty factor above 0 and up to 100%%")
-		}
-	}
-	if o.txTime != "" {
-		if in.TxFraction, err = quantity("tx-time", o.txTime, units.ParseRatio); err != nil {
-			return err
-		}
-		if !(in.TxFraction > 0 && in.TxFraction <= 1) {
-			return usagef("--tx-time: give a fraction above 0 and up to 100%%")
-		}
-	}
-	if (o.on == "") != (o.off == "") {
-		return usagef("--on and --off go together (a transmit/listen cycle, e.g. --on 2m --off 2m)")
-	}
-	if o.on != "" {
-		if in.OnTime, err = units.ParseDuration(o.on); err != nil {
-			return usagef("--on: %v", err)
-		}
-		if in.OffTime, err = units.ParseDuration(o.off); err != nil {
-			return usagef("--off: %v", err)
-		}
-		if in.OnTime <= 0 {
-			return usagef("--on: the transmit time must be more than 0")
-		}
-	}
-	if in.Standard, err = plan.ParseExposureStandard(o.standard); err != nil {
-		return usagef("--standard: %v", err)
-	}
-	switch o.reflection {
-	case "1", "2.56", "4":
-		fmt.Sscan(o.reflection, &in.ReflectionFactor)
-	default:
-		return usagef("--reflection: %q is not 1, 2.56 or 4", o.reflection)
+	if err := o.habits.Apply(&in); err != nil {
+		return optionUsage(err)
 	}
 	if o.height != "" {
 		if in.AntennaHeightM, err = quantity("height", o.height, units.ParseLengthM); err != nil {
 			return err
 		}
-	}
-	if in.HeadHeightM, err = quantity("head-height", o.headHeight, units.ParseLengthM); err != nil {
-		return err
 	}
 	if o.cable != "" {
 		c, err := feedline.ResolveCable(o.cable)
@@ -165,11 +124,11 @@ func runExposure(g *globals, o *exposureOptions) error {
 		}
 		in.FeedlineLossDB = loss.TotalLossDB
 	}
-	rep, err := plan.EvaluateExposure(in)
+	rep, err := exposure.Evaluate(in)
 	if err != nil {
 		return usagef("%v", err)
 	}
-	out := exposureOutput{ExposureReport: rep}
+	out := exposureOutput{Report: rep}
 	if o.distance != "" {
 		d, err := quantity("distance", o.distance, units.ParseLengthM)
 		if err != nil {
@@ -215,19 +174,19 @@ func runExposure(g *globals, o *exposureOptions) error {
 
 // exposureOutput is the JSON of `mastlink exposure`.
 type exposureOutput struct {
-	plan.ExposureReport
+	exposure.Report
 	DistanceM        *float64 `json:"distance_m,omitempty"`         // --distance
 	ExemptAtDistance *bool    `json:"exempt_at_distance,omitempty"` // exempt from routine evaluation at DistanceM
 }
 
-var standardNames = map[plan.ExposureStandard]string{
-	plan.StandardFCC:        "US FCC, 47 CFR § 1.1310",
-	plan.StandardICNIRP2020: "ICNIRP 2020 reference levels",
-	plan.StandardICNIRP1998: "ICNIRP 1998 reference levels",
+var standardNames = map[exposure.Standard]string{
+	exposure.StandardFCC:        "US FCC, 47 CFR § 1.1310",
+	exposure.StandardICNIRP2020: "ICNIRP 2020 reference levels",
+	exposure.StandardICNIRP1998: "ICNIRP 1998 reference levels",
 }
 
 // renderExposureText writes the exposure result for a briefing.
-func renderExposureText(w io.Writer, r plan.ExposureReport, withHeight, im bool) {
+func renderExposureText(w io.Writer, r exposure.Report, withHeight, im bool) {
 	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak (limits: %s)\n", units.FormatFreq(r.FreqMHz), r.Mode, units.FormatPower(r.EIRPW), standardNames[r.Standard])
 	t := newTable(w)
 	t.row("", "public", "operators")
@@ -273,7 +232,7 @@ func pct(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
 type keepoutSite struct {
 	name string
 	pos  orb.Point
-	rep  plan.ExposureReport
+	rep  exposure.Report
 }
 
 // writeKeepout writes keep-out circles for both tiers as GeoJSON polygons
@@ -296,7 +255,7 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 				if tier.r <= 0 {
 					continue
 				}
-				poly, err := plan.KeepOutCircle(s.pos, tier.r)
+				poly, err := exposure.KeepOutCircle(s.pos, tier.r)
 				if err != nil {
 					return err
 				}
@@ -328,7 +287,7 @@ func keepoutGeoJSON(sites []keepoutSite) (*geojson.FeatureCollection, error) {
 		}{{"public", s.rep.KeepoutPublicM, s.rep.DistancePublicM}, {"occupational", s.rep.KeepoutOccupationalM, s.rep.DistanceOccupationalM}} {
 			var geom orb.Geometry = s.pos
 			if tier.r > 0 {
-				poly, err := plan.KeepOutCircle(s.pos, tier.r)
+				poly, err := exposure.KeepOutCircle(s.pos, tier.r)
 				if err != nil {
 					return nil, err
 				}

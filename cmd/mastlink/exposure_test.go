@@ -108,7 +108,7 @@ func TestExposureErrors(t *testing.T) {
 		{[]string{"--power", "5W", "--freq", "146", "--mode", "am"}, "--mode"},
 		{[]string{"--power", "5W", "--freq", "146", "--standard", "osha"}, "--standard"},
 		{[]string{"--power", "5W", "--freq", "146", "--reflection", "3"}, "--reflection"},
-		{[]string{"--power", "5W", "--freq", "146", "--on", "2m"}, "--on and --off go together"},
+		{[]string{"--power", "5W", "--freq", "146", "--on", "2m"}, "--off: invalid exposure input: on and off go together"},
 		{[]string{"--power", "5W", "--freq", "146", "--tx-time", "0%"}, "--tx-time"},
 		{[]string{"--power", "5W", "--freq", "146", "-o", "x.geojson"}, "--at"},
 	}

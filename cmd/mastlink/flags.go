@@ -80,6 +80,17 @@ func quantity(flag, value string, fn func(string) (float64, error)) (float64, er
 	return v, nil
 }
 
+// optionUsage turns an error of a group of options parsed together
+// (units.OptionError: the requirement, the exposure habits) into a usage
+// error naming the flag, "--tx-time" for the key "tx_time".
+func optionUsage(err error) error {
+	var oe *units.OptionError
+	if errors.As(err, &oe) {
+		return usagef("--%s: %v", strings.ReplaceAll(oe.Option, "_", "-"), oe.Err)
+	}
+	return usageError{err}
+}
+
 // kFactor parses --k (units.ParseKFactor); an error names the flag.
 func kFactor(value string) (float64, error) { return quantity("k", value, units.ParseKFactor) }
 

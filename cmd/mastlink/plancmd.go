@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -186,7 +187,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	}
 	t.flush()
 	fmt.Fprintln(w, "\nCautions:")
-	for _, c := range plan.ExposureCautions() {
+	for _, c := range exposure.Cautions() {
 		fmt.Fprintf(w, "  - %s\n", c)
 	}
 	if len(res.Warnings) > 0 {
@@ -283,7 +284,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 	}
 	var sites []keepoutSite
 	for _, e := range res.Exposure {
-		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.ExposureReport})
+		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
 	}
 	if err := writeKeepout(filepath.Join(dir, "keepout.geojson"), inputs, sites); err != nil {
 		return err

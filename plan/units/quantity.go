@@ -605,3 +605,19 @@ func ParseKFactor(s string) (float64, error) {
 	}
 	return k, nil
 }
+
+// OptionError is an error in one option of a group that is parsed together
+// from text (a link requirement, a station's RF-exposure habits), so that
+// the command line and the plan file share one parser. Option is the key
+// as the plan file spells it ("tx_time", "reliability"); a command turns
+// it into its flag (--tx-time), the plan parser into the field and line.
+type OptionError struct {
+	Option string // the option's key, lower case, words joined by "_"
+	Err    error  // what is wrong: often a *QuantityError
+}
+
+// Error returns "key: what is wrong".
+func (e *OptionError) Error() string { return e.Option + ": " + e.Err.Error() }
+
+// Unwrap returns the cause, so errors.Is(err, ErrRange) works.
+func (e *OptionError) Unwrap() error { return e.Err }
