@@ -11,6 +11,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
@@ -116,9 +117,9 @@ type Plan struct {
 	Path       string // the plan file as given
 	Name       string
 	FreqMHz    float64
-	Terrain    []string // DEM directories or files, resolved against the plan's folder
-	TerrainAt  int      // line of the terrain field, for errors about missing tiles
-	Waypoints  *GPXFile // nil when the plan names none
+	Terrain    []string  // DEM directories or files, resolved against the plan's folder
+	TerrainAt  int       // line of the terrain field, for errors about missing tiles
+	Waypoints  *gpx.File // nil when the plan names none
 	Require    Requirement
 	K          float64 // effective earth-radius factor
 	Model      string  // "terrain" or "free-space"
@@ -352,7 +353,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		g, err := ReadGPX(wp)
+		g, err := gpx.Read(wp)
 		if err != nil {
 			return nil, p.wrap(n, "waypoints", err)
 		}

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 )
 
@@ -79,7 +80,7 @@ func TestBrokenPlans(t *testing.T) {
 		{"empty", "", "plan.yaml: the plan is empty", nil},
 		{"unknown field", base(station + "  - name: x\n    colour: red\n"), "plan.yaml:9: stations[1].colour: unknown field", nil},
 		{"unknown cable", base(strings.Replace(station, "    antenna:", "    feedline: {cable: RG-59X, length: 10m}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].feedline.cable: unknown cable "RG-59X" (known: RG-174`, feedline.ErrUnknownCable},
-		{"unknown waypoint", base(strings.Replace(station, "Wethermoss Saddle", "Wethermos Sadle", 1) + target), `plan.yaml:5: stations[0].at: unknown waypoint "Wethermos Sadle"`, ErrUnknownWaypoint},
+		{"unknown waypoint", base(strings.Replace(station, "Wethermoss Saddle", "Wethermos Sadle", 1) + target), `plan.yaml:5: stations[0].at: unknown waypoint "Wethermos Sadle"`, gpx.ErrUnknownWaypoint},
 		{"negative height", base(strings.Replace(station, "height: 9m", "height: -9m", 1) + target), "plan.yaml:7: stations[0].antenna.height:", units.ErrRange},
 		{"power unit", base(strings.Replace(station, "power: 25W", "power: 25 watts", 1) + target), `plan.yaml:6: stations[0].radio.power: "25 watts": unknown unit`, units.ErrUnit},
 		{"frequency range", "frequency: 146.55THz\n" + station, "plan.yaml:1: frequency:", nil},

@@ -7,12 +7,13 @@ import (
 	"sort"
 
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // SitesRequest is what Env.RankSites ranks: candidate places for a station,
 // its kit, and the targets it must reach from there.
 type SitesRequest struct {
-	Candidates []Place // named candidate sites (GPX waypoints)
+	Candidates []gpx.Place // named candidate sites (GPX waypoints)
 	// Station is the kit set up at each candidate (its Pos is ignored).
 	Station End
 	// Targets are reached in both directions from each candidate.

@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 )
@@ -18,7 +19,7 @@ import (
 // demoSites ranks the example candidates with the example plan.
 func demoSites(t testing.TB, p *Plan, env *Env, mast *MastSweep) *SitesResult {
 	t.Helper()
-	g, err := ReadGPX(filepath.Join("..", "examples", "valley", "candidates.gpx"))
+	g, err := gpx.Read(filepath.Join("..", "examples", "valley", "candidates.gpx"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -164,7 +165,7 @@ func ExampleEnv_RankSites() {
 	station := End{Name: "base", Radio: Radio{PowerW: 25, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 2.15, HeightM: 6}}
 	team := Target{End: End{Name: "team", Pos: orb.Point{7.1, 45}, Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}},
 		Kind: Simplex, FreqMHz: 146.55}
-	cands := []Place{{Name: "near", Pos: orb.Point{7.05, 45}}, {Name: "far", Pos: orb.Point{7, 45}}}
+	cands := []gpx.Place{{Name: "near", Pos: orb.Point{7.05, 45}}, {Name: "far", Pos: orb.Point{7, 45}}}
 	heights, _ := units.ParseLengthRange("2m..12m step 2m")
 	rg58, _ := feedline.LookupCable("RG-58")
 	env := &Env{} // smooth earth

@@ -6,9 +6,9 @@ import (
 	"math"
 	"strings"
 
-	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -246,7 +246,7 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 		}
 		return renderTo(path, inputs, func(w io.Writer) error { return writeJSON(w, fc) })
 	case "gpx":
-		out := plan.GPXOutput{Name: "RF-exposure keep-out"}
+		out := gpx.Output{Name: "RF-exposure keep-out"}
 		for _, s := range sites {
 			for _, tier := range []struct {
 				name string
@@ -259,16 +259,16 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 				if err != nil {
 					return err
 				}
-				rt := plan.Track{Name: fmt.Sprintf("%s keep-out (%s) %.1f m", s.name, tier.name, up(tier.r))}
+				rt := gpx.Track{Name: fmt.Sprintf("%s keep-out (%s) %.1f m", s.name, tier.name, up(tier.r))}
 				for _, p := range poly[0] {
-					rt.Points = append(rt.Points, plan.Place{Pos: p, ElevM: math.NaN()})
+					rt.Points = append(rt.Points, gpx.Place{Pos: p, ElevM: math.NaN()})
 				}
 				out.Routes = append(out.Routes, rt)
 			}
-			out.Waypoints = append(out.Waypoints, plan.Place{Name: s.name + " antenna", Pos: s.pos, ElevM: math.NaN(),
+			out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.name + " antenna", Pos: s.pos, ElevM: math.NaN(),
 				Description: fmt.Sprintf("keep the public %.1f m away while transmitting", up(s.rep.KeepoutPublicM))})
 		}
-		b, err := plan.EncodeGPX(out)
+		b, err := gpx.Encode(out)
 		if err != nil {
 			return err
 		}

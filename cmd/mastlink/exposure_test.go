@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // TestExposureCommand checks the command end to end against the compliance
@@ -147,7 +147,7 @@ func TestExposureKeepoutFiles(t *testing.T) {
 	if _, stderr, code := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146.52", "--height", "3m", "--at", "-48.535,-123.9633", "-o", gp); code != 0 {
 		t.Fatal(stderr)
 	}
-	g, err := plan.ReadGPX(gp)
+	g, err := gpx.Read(gp)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
@@ -97,7 +98,7 @@ func kFactor(value string) (float64, error) { return quantity("k", value, units.
 // pointResolver turns LAT,LON or a waypoint name into a position.
 type pointResolver struct {
 	file string // --waypoints
-	gpx  *plan.GPXFile
+	gpx  *gpx.File
 }
 
 func (r *pointResolver) resolve(flag, value string) (orb.Point, string, error) {
@@ -112,7 +113,7 @@ func (r *pointResolver) resolve(flag, value string) (orb.Point, string, error) {
 		return orb.Point{}, "", usagef("%s: %q is not LAT,LON; to use a waypoint name, give its GPX file with --waypoints", flag, value)
 	}
 	if r.gpx == nil {
-		g, err := plan.ReadGPX(r.file)
+		g, err := gpx.Read(r.file)
 		if err != nil {
 			return orb.Point{}, "", fmt.Errorf("--waypoints: %w", err)
 		}

@@ -12,6 +12,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/exposure"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -330,10 +331,10 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 // worst margins, for a GPS.
 func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResult) error {
 	now := time.Now().UTC().Truncate(time.Second)
-	out := plan.GPXOutput{Name: res.Name}
+	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
 		sum := res.Stations[i]
-		out.Waypoints = append(out.Waypoints, plan.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
 			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", units.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
 	}
 	for _, t := range p.Targets {
@@ -347,10 +348,10 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 				parts = append(parts, fmt.Sprintf("%s %+.1f dB", l.Direction, l.MarginDB))
 			}
 		}
-		out.Waypoints = append(out.Waypoints, plan.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
 			Description: fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))})
 	}
-	b, err := plan.EncodeGPX(out)
+	b, err := gpx.Encode(out)
 	if err != nil {
 		return err
 	}

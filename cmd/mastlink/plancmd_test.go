@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 )
 
@@ -110,7 +111,7 @@ func TestPlanOutputs(t *testing.T) {
 			t.Errorf("%s: %v %+v", name, err, fc.Type)
 		}
 	}
-	g, err := plan.ReadGPX(filepath.Join(dir, "plan.gpx"))
+	g, err := gpx.Read(filepath.Join(dir, "plan.gpx"))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
@@ -175,7 +176,7 @@ func (o *reachOptions) readTargets(r *reach) ([]plan.Target, error) {
 	if freq <= 0 {
 		return nil, usagef("--freq: give the frequency to reach the targets of --targets on")
 	}
-	gf, err := plan.ReadGPX(o.targets)
+	gf, err := gpx.Read(o.targets)
 	if err != nil {
 		return nil, fmt.Errorf("--targets: %w", err)
 	}

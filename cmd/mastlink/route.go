@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -77,7 +78,7 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 			return err
 		}
 	}
-	gf, err := plan.ReadGPX(trackFile)
+	gf, err := gpx.Read(trackFile)
 	if err != nil {
 		return err
 	}
@@ -119,9 +120,9 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 }
 
 // pickTrack returns the track or route called name, or the first.
-func pickTrack(g *globals, gf *plan.GPXFile, name string) (plan.Track, error) {
+func pickTrack(g *globals, gf *gpx.File, name string) (gpx.Track, error) {
 	if len(gf.Tracks) == 0 {
-		return plan.Track{}, fmt.Errorf("%s has no track or route: record the walk as a GPX track", gf.Path)
+		return gpx.Track{}, fmt.Errorf("%s has no track or route: record the walk as a GPX track", gf.Path)
 	}
 	if name == "" {
 		if len(gf.Tracks) > 1 {
@@ -136,7 +137,7 @@ func pickTrack(g *globals, gf *plan.GPXFile, name string) (plan.Track, error) {
 		}
 		names = append(names, fmt.Sprintf("%q", t.Name))
 	}
-	return plan.Track{}, usagef("--track: %s has no track or route %q (it has %s)", gf.Path, name, strings.Join(names, ", "))
+	return gpx.Track{}, usagef("--track: %s has no track or route %q (it has %s)", gf.Path, name, strings.Join(names, ", "))
 }
 
 // renderRouteText writes a route's coverage as a short briefing.
@@ -275,8 +276,8 @@ func routeGeoJSON(r *plan.RouteResult) *geojson.FeatureCollection {
 // writeRouteGPX writes the track with waypoints at the ends of every dead
 // stretch and at the best spots, their margins in the descriptions; times
 // (UTC) are the track's, interpolated along it, where it has them.
-func writeRouteGPX(path string, inputs []string, track plan.Track, r *plan.RouteResult) error {
-	out := plan.GPXOutput{Name: "Coverage along " + r.Name, Tracks: []plan.Track{track}}
+func writeRouteGPX(path string, inputs []string, track gpx.Track, r *plan.RouteResult) error {
+	out := gpx.Output{Name: "Coverage along " + r.Name, Tracks: []gpx.Track{track}}
 	for i, gp := range r.Gaps {
 		for _, end := range []struct {
 			name string
@@ -287,17 +288,17 @@ func writeRouteGPX(path string, inputs []string, track plan.Track, r *plan.Route
 			{fmt.Sprintf("Gap %d end", i+1), gp.EndM, fmt.Sprintf("coverage back after %.1f km", gp.LengthM/1000)},
 		} {
 			lat, lon, tm := r.PositionAt(end.d)
-			out.Waypoints = append(out.Waypoints, plan.Place{Name: end.name, Pos: orb.Point{lon, lat}, ElevM: math.NaN(), Time: tm, Symbol: "Danger Area",
+			out.Waypoints = append(out.Waypoints, gpx.Place{Name: end.name, Pos: orb.Point{lon, lat}, ElevM: math.NaN(), Time: tm, Symbol: "Danger Area",
 				Description: fmt.Sprintf("%s at %.2f km along the track", end.desc, end.d/1000)})
 		}
 	}
 	for _, s := range r.BestSpots {
 		_, _, tm := r.PositionAt(s.DistanceM)
-		out.Waypoints = append(out.Waypoints, plan.Place{Name: "Call " + s.Target, Pos: orb.Point{s.Lon, s.Lat}, ElevM: s.ElevationM, Time: tm, Symbol: "Flag",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: "Call " + s.Target, Pos: orb.Point{s.Lon, s.Lat}, ElevM: s.ElevationM, Time: tm, Symbol: "Flag",
 			Description: fmt.Sprintf("best spot %s the dead stretch %.2f–%.2f km: margin %+.1f dB to %s, at %.2f km along the track",
 				s.Side, s.GapStartM/1000, s.GapEndM/1000, s.MarginDB, s.Target, s.DistanceM/1000)})
 	}
-	b, err := plan.EncodeGPX(out)
+	b, err := gpx.Encode(out)
 	if err != nil {
 		return err
 	}

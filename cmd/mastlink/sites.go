@@ -6,6 +6,7 @@ import (
 	"io"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -60,7 +61,7 @@ func runSites(cmd *cobra.Command, g *globals, o *reachOptions, candFile string) 
 			return err
 		}
 	}
-	gf, err := plan.ReadGPX(candFile)
+	gf, err := gpx.Read(candFile)
 	if err != nil {
 		return err
 	}
