@@ -8,6 +8,7 @@ import (
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
 
@@ -157,7 +158,7 @@ func runLink(g *globals, o *linkOptions) error {
 	out := linkOutput{SigmaDB: env.SigmaDB}
 	fromName, toName := "transmitter", "receiver"
 	if o.profile != "" {
-		pc, err := plan.ReadProfileCSV(o.profile)
+		pc, err := terrain.ReadProfileCSV(o.profile)
 		if err != nil {
 			return fmt.Errorf("--profile: %w", err)
 		}

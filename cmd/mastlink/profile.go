@@ -5,7 +5,6 @@ import (
 	"io"
 	"strings"
 
-	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/report"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
@@ -178,7 +177,7 @@ func runProfile(g *globals, o *profileOptions) error {
 		err := renderTo(g.out, inputs, func(w io.Writer) error {
 			ext := extension(g.out)
 			if ext == "csv" {
-				return plan.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM)
+				return terrain.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM)
 			}
 			opts := append([]report.ProfileOption{report.WithTitle(fmt.Sprintf("Terrain from %s to %s", fromName, toName))}, chartOpts...)
 			if g.imperial() {
@@ -198,7 +197,7 @@ func runProfile(g *globals, o *profileOptions) error {
 	case "json":
 		return writeJSON(g.stdout, out)
 	case "csv":
-		return plan.WriteProfileCSV(g.stdout, p.DistM, p.Lat, p.Lon, p.ElevM)
+		return terrain.WriteProfileCSV(g.stdout, p.DistM, p.Lat, p.Lon, p.ElevM)
 	}
 	renderProfileText(g.stdout, out, g.out, g.imperial())
 	return nil

@@ -16,7 +16,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/terrain"
 )
 
 // profileJSON is the part of `mastlink profile --format json` the tests read.
@@ -217,7 +217,7 @@ func TestProfileCSVRoundTrip(t *testing.T) {
 	if !strings.Contains(stderr, "wrote the profile") {
 		t.Errorf("stderr %q does not say where the profile went", stderr)
 	}
-	pc, err := plan.ReadProfileCSV(file)
+	pc, err := terrain.ReadProfileCSV(file)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -490,7 +490,7 @@ func TestProfileOverwrite(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	pc, err := plan.ReadProfileCSV(file)
+	pc, err := terrain.ReadProfileCSV(file)
 	if err != nil {
 		t.Fatalf("the rewritten file does not read back: %v", err)
 	}
