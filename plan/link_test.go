@@ -10,6 +10,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -56,7 +57,7 @@ func TestKnifeEdgeRidge(t *testing.T) {
 	a, b := orb.Point{10.1, 0}, orb.Point{10.2, 0}
 	// Distance along the equator: a·Δλ exactly (WGS84 a = 6 378 137 m).
 	d := 6378137 * 0.1 * math.Pi / 180
-	env := Env{Terrain: ts, Vertical: false, StepM: d/120 + 1e-6}
+	env := Env{Terrain: ts, Polarization: propagation.Horizontal, StepM: d/120 + 1e-6}
 	var g Geometry
 	if err := env.Measure(a, b, &g); err != nil {
 		t.Fatal(err)

@@ -21,7 +21,7 @@ func TestSweepProperties(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	env := &Env{Terrain: ts, Vertical: true}
+	env := &Env{Terrain: ts}
 	st := Station{End: End{Name: "s", Pos: orb.Point{7.1, 45.1}, Radio: Radio{PowerW: 25, SensitivityDBm: -119}, Antenna: Antenna{GainDBi: 2.15}}}
 	tg := Target{End: End{Name: "t", Pos: orb.Point{7.35, 45.3}, Radio: Radio{PowerW: 5, SensitivityDBm: -119}, Antenna: Antenna{HeightM: 1.5}}, FreqMHz: 146.55}
 	var g Geometry

@@ -4,8 +4,10 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -47,108 +49,6 @@ func (e *PlanError) Error() string {
 
 // Unwrap returns both ErrPlanFile and the underlying cause.
 func (e *PlanError) Unwrap() []error { return []error{ErrPlanFile, e.Err} }
-
-// Requirement is what every required link must meet.
-type Requirement struct {
-	MarginDB    float64 // fade margin over the receiver sensitivity, dB
-	Reliability float64 // fraction of locations, 0 when not asked
-	SigmaDB     float64 // location variability σ used with Reliability, dB
-}
-
-// NeededMarginDB returns the margin a link needs: the larger of MarginDB and
-// the margin that gives Reliability with a log-normal location variability
-// of SigmaDB (ITU-R P.1812-8 §4.8, eq. 69: M = σ·I(1 − p)).
-func (r Requirement) NeededMarginDB() float64 {
-	m := r.MarginDB
-	if r.Reliability > 0 && r.SigmaDB > 0 {
-		if need := propagation.MarginForReliabilityDB(r.Reliability, r.SigmaDB); need > m {
-			m = need
-		}
-	}
-	return m
-}
-
-// Station is a place the team sets up: its kit and exposure habits.
-type Station struct {
-	End
-	// Exposure holds the station's operating habits for the RF-exposure
-	// evaluation (mode, time on the air, standard, head height, ground
-	// reflection); power, gain, feedline, frequency and height are filled
-	// in from the station when it is evaluated.
-	Exposure exposure.Input
-	line     int
-}
-
-// TargetKind says how a target's links are checked.
-type TargetKind int
-
-// Kinds of target.
-const (
-	// Simplex targets talk and listen on one frequency; checked both ways.
-	Simplex TargetKind = iota
-	// Repeater targets listen on one frequency and transmit on another:
-	// talk-in is checked on ListenMHz with the station transmitting,
-	// talk-out on TransmitMHz with the repeater transmitting.
-	Repeater
-)
-
-// Target is a place the stations must reach.
-type Target struct {
-	End
-	Kind        TargetKind
-	FreqMHz     float64 // simplex frequency
-	ListenMHz   float64 // repeater input (the station transmits here)
-	TransmitMHz float64 // repeater output (the station listens here)
-	Optional    bool    // reported but not part of the requirement
-	line        int
-}
-
-// MastSweep asks for the lowest mast and lightest cable that meet the
-// requirement.
-type MastSweep struct {
-	Heights units.LengthRange
-	Cables  []feedline.Cable // from the catalog, or described by the user
-	RunM    float64          // cable from the mast foot to the radio, metres
-	SlackM  float64          // extra cable for drip loops and the mast head, metres
-}
-
-// Plan is a parsed, validated plan file with every name resolved.
-type Plan struct {
-	Path       string // the plan file as given
-	Name       string
-	FreqMHz    float64
-	Terrain    []string  // DEM directories or files, resolved against the plan's folder
-	TerrainAt  int       // line of the terrain field, for errors about missing tiles
-	Waypoints  *gpx.File // nil when the plan names none
-	Require    Requirement
-	K          float64 // effective earth-radius factor
-	Model      string  // "terrain" or "free-space"
-	Vertical   bool    // polarization
-	Sea        bool    // ground constants
-	Stations   []Station
-	Targets    []Target
-	Mast       *MastSweep
-	Routes     []string // GPX files with tracks, resolved
-	Sites      []string // GPX files with candidate waypoints, resolved
-	InputFiles []string // every file the plan reads, for output guards
-
-	// Defaults is the kit under `defaults:` (a handheld: 0 dBi at 1.5 m
-	// unless the plan says otherwise; no radio unless it gives one), the
-	// kit carried along routes. Its Name and Pos are empty.
-	Defaults End
-}
-
-// Defaults used where a plan file does not say.
-const (
-	DefaultK       = 4.0 / 3.0 // ITU-R P.530-19 §2.2 (median, no local data)
-	DefaultSigmaDB = 5.5       // ITU-R P.1812-8 Table 6 location variability
-)
-
-// LineOf returns the plan-file line where the station was defined.
-func (s Station) LineOf() int { return s.line }
-
-// LineOf returns the plan-file line where the target was defined.
-func (t Target) LineOf() int { return t.line }
 
 // ReadPlan reads and validates the plan file at path. Every error is a
 // *PlanError naming the file, line and field and saying what would fix it.
@@ -323,7 +223,8 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	pl := &Plan{Path: p.file, K: DefaultK, Model: "terrain", Vertical: true, InputFiles: []string{p.file}}
+	pl := &Plan{Path: p.file, K: propagation.DefaultKFactor, Model: propagation.Terrain{}, Polarization: propagation.Vertical,
+		Ground: propagation.Land, InputFiles: []string{p.file}}
 	p.plan = pl
 	pl.Require.SigmaDB = DefaultSigmaDB
 
@@ -371,23 +272,31 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 	}
 	if n := f["model"]; n != nil {
-		if pl.Model, err = p.choice(n, "model", "terrain", "free-space"); err != nil {
+		name, err := p.scalar(n, "model")
+		if err != nil {
 			return nil, err
+		}
+		if pl.Model, err = propagation.ModelByName(name); err != nil {
+			return nil, p.wrap(n, "model", err)
 		}
 	}
 	if n := f["polarization"]; n != nil {
-		v, err := p.choice(n, "polarization", "vertical", "horizontal")
+		s, err := p.scalar(n, "polarization")
 		if err != nil {
 			return nil, err
 		}
-		pl.Vertical = v == "vertical"
+		if pl.Polarization, err = ParsePolarization(s); err != nil {
+			return nil, p.wrap(n, "polarization", err)
+		}
 	}
 	if n := f["ground"]; n != nil {
-		v, err := p.choice(n, "ground", "land", "sea")
+		s, err := p.scalar(n, "ground")
 		if err != nil {
 			return nil, err
 		}
-		pl.Sea = v == "sea"
+		if pl.Ground, err = ParseGround(s); err != nil {
+			return nil, p.wrap(n, "ground", err)
+		}
 	}
 	def := kit{antenna: Antenna{GainDBi: 0, HeightM: 1.5}} // a handheld at chest height; radios must be given
 	if n := f["defaults"]; n != nil {
@@ -500,33 +409,45 @@ func (p *planParser) choice(n *yaml.Node, field string, options ...string) (stri
 	return "", p.errf(n, field, "%q is not one of %s", s, strings.Join(options, ", "))
 }
 
+// require reads require: with RequirementOptions, the parser the commands
+// use too.
 func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 	f, err := p.fields(n, "require", "margin", "reliability", "sigma")
 	if err != nil {
 		return err
 	}
-	if c := f["margin"]; c != nil {
-		if r.MarginDB, err = p.quantity(c, "require.margin", units.ParseLossDB); err != nil {
-			return err
-		}
+	text, err := p.texts(f, "require")
+	if err != nil {
+		return err
 	}
-	if c := f["reliability"]; c != nil {
-		if r.Reliability, err = p.quantity(c, "require.reliability", units.ParseRatio); err != nil {
-			return err
+	o := RequirementOptions{Margin: text["margin"], Reliability: text["reliability"], Sigma: text["sigma"]}
+	return p.options(n, "require", f, o.Apply(r))
+}
+
+// texts returns the scalar text of every value in f, by key.
+func (p *planParser) texts(f map[string]*yaml.Node, field string) (map[string]string, error) {
+	text := make(map[string]string, len(f))
+	for _, key := range slices.Sorted(maps.Keys(f)) { // the same error first every time
+		s, err := p.scalar(f[key], joinField(field, key))
+		if err != nil {
+			return nil, err
 		}
-		if !(r.Reliability > 0 && r.Reliability < 1) {
-			return p.errf(c, "require.reliability", "must be above 0%% and below 100%% (e.g. 90%%)")
-		}
+		text[key] = s
 	}
-	if c := f["sigma"]; c != nil {
-		if r.SigmaDB, err = p.quantity(c, "require.sigma", units.ParseLossDB); err != nil {
-			return err
-		}
-		if !(r.SigmaDB > 0) {
-			return p.errf(c, "require.sigma", "must be more than 0 dB (5.5 to 8 dB is usual at VHF/UHF)")
-		}
+	return text, nil
+}
+
+// options turns an error of a group of options parsed together
+// (units.OptionError) into a *PlanError at the option's own line.
+func (p *planParser) options(n *yaml.Node, field string, f map[string]*yaml.Node, err error) error {
+	if err == nil {
+		return nil
 	}
-	return nil
+	var oe *units.OptionError
+	if errors.As(err, &oe) {
+		return p.wrap(orNode(f[oe.Option], n), joinField(field, oe.Option), oe.Err)
+	}
+	return p.wrap(n, field, err)
 }
 
 // kit is the radio, antenna and feedline an end uses.
@@ -651,7 +572,7 @@ func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, erro
 	if err != nil {
 		return Station{}, err
 	}
-	st := Station{line: n.Line}
+	st := Station{}
 	if err := p.end(n, f, field, def, &st.End, true); err != nil {
 		return Station{}, err
 	}
@@ -700,7 +621,7 @@ func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error)
 	if err != nil {
 		return Target{}, err
 	}
-	t := Target{line: n.Line}
+	t := Target{}
 	if err := p.end(n, f, field, def, &t.End, true); err != nil {
 		return Target{}, err
 	}
@@ -747,23 +668,14 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *exposure.Input) err
 	if err != nil {
 		return err
 	}
-	text := map[string]string{}
-	for key, c := range f {
-		if text[key], err = p.scalar(c, joinField(field, key)); err != nil {
-			return err
-		}
+	text, err := p.texts(f, field)
+	if err != nil {
+		return err
 	}
 	o := exposure.Options{Mode: text[exposure.OptMode], Duty: text[exposure.OptDuty], TxTime: text[exposure.OptTxTime],
 		On: text[exposure.OptOn], Off: text[exposure.OptOff], Standard: text[exposure.OptStandard],
 		HeadHeight: text[exposure.OptHeadHeight], Reflection: text[exposure.OptReflection]}
-	if err := o.Apply(e); err != nil {
-		var oe *units.OptionError
-		if errors.As(err, &oe) {
-			return p.wrap(orNode(f[oe.Option], n), joinField(field, oe.Option), oe.Err)
-		}
-		return p.wrap(n, field, err)
-	}
-	return nil
+	return p.options(n, field, f, o.Apply(e))
 }
 
 func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {

@@ -1,6 +1,7 @@
 package plan
 
 import (
+	"context"
 	"errors"
 	"math"
 	"os"
@@ -8,9 +9,11 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 )
 
 const examplePlan = "../examples/valley/plan.yaml"
@@ -47,6 +50,39 @@ func TestReadExamplePlan(t *testing.T) {
 	}
 	if p.Mast == nil || len(p.Mast.Cables) != 4 || p.Mast.Heights.Len() != 11 || p.Mast.RunM != 10 {
 		t.Errorf("mast = %+v", p.Mast)
+	}
+}
+
+// TestPlanRadioClimate: the model, polarization, ground and k of a plan
+// file arrive in the link environment as propagation's own values.
+func TestPlanRadioClimate(t *testing.T) {
+	doc := "model: Free-Space\npolarization: horizontal\nground: sea\nk: 1\nstations: [{name: a, at: '1,2', radio: {power: 5W, sensitivity: -120dBm}}]\n" +
+		"targets: [{name: b, at: '1.1,2', frequency: 146, radio: {power: 5W, sensitivity: -120dBm}}]\n"
+	p, err := ParsePlan([]byte(doc), "plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	env := p.NewEnv(nil)
+	if _, ok := env.Model.(propagation.FreeSpace); !ok || env.Polarization != propagation.Horizontal || env.Ground != propagation.Sea || env.K != 1 {
+		t.Errorf("env = %+v", env)
+	}
+	res, err := EvaluatePlan(context.Background(), p, env, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range res.Links {
+		if l.Model != "free-space" || l.ExcessLossDB != 0 {
+			t.Errorf("%s → %s ran %q with %v dB excess, want free space", l.From, l.To, l.Model, l.ExcessLossDB)
+		}
+	}
+	// Without those fields: the terrain model, vertical, land, k = 4/3
+	// (ITU-R P.530-19 §2.2).
+	q, err := ParsePlan([]byte(doc[strings.Index(doc, "stations:"):]), "plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, ok := q.Model.(propagation.Terrain); !ok || q.Polarization != propagation.Vertical || q.Ground != propagation.Land || q.K != 4.0/3 {
+		t.Errorf("defaults: %+v", q)
 	}
 }
 
@@ -91,6 +127,15 @@ func TestBrokenPlans(t *testing.T) {
 		{"no targets", base(station), "the plan has no targets", nil},
 		{"repeater half", base(station + "targets:\n  - name: r\n    at: Corvane Peak\n    radio: {power: 50W, sensitivity: -122dBm}\n    listen: 147.78MHz\n"), "plan.yaml:9: targets[0]: a repeater needs both listen and transmit", nil},
 		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", units.ErrRange},
+		// The model comes from the propagation registry, whose names the error lists.
+		{"unknown model", base("model: okumura\n" + station + target), `plan.yaml:3: model: propagation: unknown model "okumura" (known: terrain, free-space`, propagation.ErrUnknownModel},
+		{"bad polarization", base("polarization: circular\n" + station + target), `plan.yaml:3: polarization: "circular" is not vertical or horizontal`, nil},
+		{"bad ground", base("ground: swamp\n" + station + target), `plan.yaml:3: ground: "swamp" is not land or sea`, nil},
+		{"bad k", base("k: 20\n" + station + target), `plan.yaml:3: k: "20": k-factor 20 is outside 0.5 to 10`, units.ErrRange},
+		{"reliability 100 %", base("require: {margin: 10dB, reliability: 100%}\n" + station + target), "plan.yaml:3: require.reliability: must be above 0% and below 100%", nil},
+		{"sigma 0 with a reliability", base("require: {reliability: 90%, sigma: 0dB}\n" + station + target), "plan.yaml:3: require.sigma: must be more than 0 dB with a reliability", nil},
+		{"exposure mode", base(strings.Replace(station, "    antenna:", "    exposure: {mode: am}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].exposure.mode: invalid exposure input: unknown mode "am"`, exposure.ErrInput},
+		{"exposure cycle half", base(strings.Replace(station, "    antenna:", "    exposure: {on: 2min}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].exposure.off: invalid exposure input: on and off go together`, exposure.ErrInput},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

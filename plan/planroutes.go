@@ -61,7 +61,7 @@ func (p *Plan) ReachTargets(exclude string) []Target {
 		if strings.EqualFold(strings.TrimSpace(s.Name), strings.TrimSpace(exclude)) {
 			continue
 		}
-		out = append(out, Target{End: s.End, Kind: Simplex, FreqMHz: p.FreqMHz, line: s.line})
+		out = append(out, Target{End: s.End, Kind: Simplex, FreqMHz: p.FreqMHz})
 	}
 	return out
 }

@@ -345,7 +345,7 @@ func (r *RouteResult) summarise(legs []targetLegs, window float64) {
 		tl := &legs[t]
 		rt := RouteTarget{Name: tl.target.Name, Optional: tl.target.Optional, BestMarginDB: math.Inf(-1)}
 		for _, l := range tl.legs {
-			rt.Directions = append(rt.Directions, l.dir)
+			rt.Directions = append(rt.Directions, l.name)
 		}
 		ok := func(k int) bool { return pts[k].MarginsDB[t] >= need }
 		m := func(k int) float64 { return pts[k].MarginsDB[t] }

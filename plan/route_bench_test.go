@@ -95,7 +95,7 @@ func BenchmarkRoute1s(b *testing.B) {
 	}
 	tr := serpentine("bench", lat0, lon0, 10000, 50, 20000, 20000.0/25)
 	walker := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
-	env := &Env{Terrain: ts, Vertical: true}
+	env := &Env{Terrain: ts}
 	req := RouteRequest{Track: tr, Walker: walker, Targets: benchTargets(lat0, lon0), NeededMarginDB: 10, SpacingM: 50}
 	var paths int
 	b.ReportAllocs()

@@ -152,7 +152,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 			for k, l := range tl.legs {
 				if own[i*2+k] < s.WorstMarginDB {
 					s.WorstMarginDB = own[i*2+k]
-					s.WorstLink = fmt.Sprintf("%s (%s)", tl.target.Name, l.dir)
+					s.WorstLink = fmt.Sprintf("%s (%s)", tl.target.Name, l.name)
 				}
 			}
 		}
@@ -197,16 +197,4 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		res.Sites[i].Rank = i + 1
 	}
 	return res, nil
-}
-
-// mastFeedline is the station's line rebuilt for a mast of heightM metres
-// with cable c: as long as the mast plus the run and slack of m, with the
-// station's SWR, connectors and connector loss (as Env.SweepMast builds it).
-func mastFeedline(station feedline.Line, c feedline.Cable, heightM float64, m *MastSweep) feedline.Line {
-	fl := feedline.NewLine(c, heightM+m.RunM+m.SlackM)
-	fl.SWR, fl.Connectors = station.SWR, station.Connectors
-	if station.ConnectorLossDB > 0 {
-		fl.ConnectorLossDB = station.ConnectorLossDB
-	}
-	return fl
 }

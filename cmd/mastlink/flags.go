@@ -30,7 +30,7 @@ func addEnvFlags(cmd *cobra.Command, e *envFlags) {
 
 // env builds the link environment from the flags (terrain not yet set).
 func (e *envFlags) env() (*plan.Env, error) {
-	env := &plan.Env{Vertical: true}
+	env := &plan.Env{}
 	var err error
 	if env.K, err = kFactor(e.k); err != nil {
 		return nil, err
@@ -38,17 +38,11 @@ func (e *envFlags) env() (*plan.Env, error) {
 	if env.Model, err = propagation.ModelByName(e.model); err != nil {
 		return nil, usagef("--model: %q is not a model (use %s)", e.model, strings.Join(propagation.ModelNames(), " or "))
 	}
-	switch e.polarization {
-	case "vertical", "horizontal":
-		env.Vertical = e.polarization == "vertical"
-	default:
-		return nil, usagef("--polarization: %q is not vertical or horizontal", e.polarization)
+	if env.Polarization, err = plan.ParsePolarization(e.polarization); err != nil {
+		return nil, usagef("--polarization: %v", err)
 	}
-	switch e.ground {
-	case "land", "sea":
-		env.Sea = e.ground == "sea"
-	default:
-		return nil, usagef("--ground: %q is not land or sea", e.ground)
+	if env.Ground, err = plan.ParseGround(e.ground); err != nil {
+		return nil, usagef("--ground: %v", err)
 	}
 	if env.StepM, err = e.stepM(); err != nil {
 		return nil, err

@@ -8,6 +8,7 @@ import (
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
@@ -240,11 +241,6 @@ func linkCSVRow(r plan.LinkResult) []string {
 		opt(r.WorstClearanceF1, f2), opt(r.Probability, f4), meets}
 }
 
-var modelNames = map[string]string{
-	"terrain":    "ITU-R P.526-16 diffraction over the terrain (delta-Bullington)",
-	"free-space": "free space (ITU-R P.525), terrain ignored",
-}
-
 // renderLinkText writes one link budget in plain trade words.
 func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	r := o.LinkResult
@@ -258,7 +254,7 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 		terr = "the profile file"
 	}
 	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, units.FormatHeight(r.TxGroundM, im), units.FormatHeight(r.RxGroundM, im))
-	fmt.Fprintf(w, "  model: %s\n", modelNames[r.Model])
+	fmt.Fprintf(w, "  model: %s\n", propagation.ModelDescription(r.Model))
 	fmt.Fprintf(w, "  path: %s\n\n", pathSummary(r, im))
 	t := newTable(w)
 	t.row("  transmitter power", units.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))

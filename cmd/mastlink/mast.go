@@ -158,7 +158,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		}
 	} else {
 		var err error
-		env = &plan.Env{Vertical: true}
+		env = &plan.Env{}
 		if o.link.from == "" || o.link.to == "" || o.freq == "" {
 			return usagef("give --plan FILE, or --from, --to and --freq")
 		}

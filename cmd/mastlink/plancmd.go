@@ -14,6 +14,7 @@ import (
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
@@ -141,11 +142,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	if env.Terrain != nil {
 		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), strings.Join(relPaths(p.Terrain), ", "))
 	}
-	model := "ITU-R P.526-16 delta-Bullington diffraction"
-	if p.Model == "free-space" {
-		model = "free space (ITU-R P.525), terrain ignored"
-	}
-	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, model)
+	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
 
 	for _, s := range res.Stations {
 		cable := "no feedline given"
