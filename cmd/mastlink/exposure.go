@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
@@ -14,8 +15,6 @@ import (
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newExposureCmd) }
 
 type exposureOptions struct {
 	power, gain, freq, height string
@@ -50,7 +49,7 @@ rules decide.`,
 			"  mastlink exposure --power 25W --gain 2.15dBi --freq 146.94 --height 9m --at -48.53,-123.61 -o keepout.geojson",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runExposure(g, o)
+			return runExposure(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
@@ -80,7 +79,7 @@ rules decide.`,
 	return cmd
 }
 
-func runExposure(g *globals, o *exposureOptions) error {
+func runExposure(ctx context.Context, g *globals, o *exposureOptions, args []string) error {
 	in := exposure.Input{}
 	var err error
 	if in.PowerW, err = quantity("power", o.power, units.ParsePowerW); err != nil {
@@ -152,24 +151,22 @@ func runExposure(g *globals, o *exposureOptions) error {
 		}
 		fmt.Fprintf(g.stderr, "mastlink: wrote the keep-out circles to %s\n", g.out)
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
-		return writeCSV(g.stdout, []string{"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
+	return g.emit(out, func(w io.Writer) error {
+		return writeCSV(w, []string{"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
 			"limit_public_w_m2", "limit_occupational_w_m2", "distance_public_m", "distance_occupational_m", "keepout_public_m", "keepout_occupational_m"},
 			[][]string{{string(rep.Standard), f4(rep.FreqMHz), f2(rep.EIRPW), f2(rep.DutyFactor), f2(rep.AvgPowerPublicW), f2(rep.AvgPowerOccupationalW),
 				f4(rep.LimitPublicWM2), f4(rep.LimitOccupationalWM2), f2(rep.DistancePublicM), f2(rep.DistanceOccupationalM), f2(rep.KeepoutPublicM), f2(rep.KeepoutOccupationalM)}})
-	}
-	renderExposureText(g.stdout, rep, o.height != "", g.imperial())
-	if out.DistanceM != nil {
-		verdict := "is exempt from routine evaluation"
-		if !*out.ExemptAtDistance {
-			verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
+	}, func(w io.Writer) error {
+		renderExposureText(w, rep, o.height != "", g.imperial())
+		if out.DistanceM != nil {
+			verdict := "is exempt from routine evaluation"
+			if !*out.ExemptAtDistance {
+				verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
+			}
+			fmt.Fprintf(w, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", units.FormatLength(*out.DistanceM, g.imperial()), verdict)
 		}
-		fmt.Fprintf(g.stdout, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", units.FormatLength(*out.DistanceM, g.imperial()), verdict)
-	}
-	return nil
+		return nil
+	})
 }
 
 // exposureOutput is the JSON of `mastlink exposure`.
@@ -191,7 +188,7 @@ func renderExposureText(w io.Writer, r exposure.Report, withHeight, im bool) {
 	t := newTable(w)
 	t.row("", "public", "operators")
 	t.row("  averaging window", fmt.Sprintf("%.0f min", r.AveragingPublicS/60), fmt.Sprintf("%.0f min", r.AveragingOccupationalS/60))
-	t.row("  worst-case time on the air", pct(r.TxFractionPublic), pct(r.TxFractionOccupational))
+	t.row("  worst-case time on the air", percent(r.TxFractionPublic), percent(r.TxFractionOccupational))
 	t.row("  average transmitter power", units.FormatPower(r.AvgPowerPublicW), units.FormatPower(r.AvgPowerOccupationalW))
 	t.row("  limit", fmt.Sprintf("%.2f W/m²", r.LimitPublicWM2), fmt.Sprintf("%.2f W/m²", r.LimitOccupationalWM2))
 	t.row("  distance from the antenna", units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
@@ -221,12 +218,6 @@ func renderExposureText(w io.Writer, r exposure.Report, withHeight, im bool) {
 		fmt.Fprintf(w, "  - %s\n", c)
 	}
 }
-
-// up rounds a safety distance up to the next 0.1 m (so a keep-out is never
-// shown shorter than computed).
-func up(m float64) float64 { return math.Ceil(m*10-1e-9) / 10 }
-
-func pct(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
 
 // keepoutSite is a station whose keep-out circles are written.
 type keepoutSite struct {
@@ -306,5 +297,3 @@ func keepoutGeoJSON(sites []keepoutSite) (*geojson.FeatureCollection, error) {
 	}
 	return fc, nil
 }
-
-func round2(v float64) float64 { return math.Round(v*100) / 100 }

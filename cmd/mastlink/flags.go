@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
@@ -32,7 +33,7 @@ func addEnvFlags(cmd *cobra.Command, e *envFlags) {
 func (e *envFlags) env() (*plan.Env, error) {
 	env := &plan.Env{}
 	var err error
-	if env.K, err = kFactor(e.k); err != nil {
+	if env.K, err = quantity("k", e.k, units.ParseKFactor); err != nil {
 		return nil, err
 	}
 	if env.Model, err = propagation.ModelByName(e.model); err != nil {
@@ -86,9 +87,6 @@ func optionUsage(err error) error {
 	return usageError{err}
 }
 
-// kFactor parses --k (units.ParseKFactor); an error names the flag.
-func kFactor(value string) (float64, error) { return quantity("k", value, units.ParseKFactor) }
-
 // pointResolver turns LAT,LON or a waypoint name into a position.
 type pointResolver struct {
 	file string // --waypoints
@@ -124,10 +122,21 @@ func addWaypointsFlag(cmd *cobra.Command, r *pointResolver) {
 	cmd.Flags().StringVar(&r.file, "waypoints", "", "GPX file whose waypoint names may stand for points")
 }
 
+// endFlags are the kit flags of one end of a link. The flags are named
+// prefix+"power", prefix+"gain", …; the sensitivity flag has its own name
+// (--rx-sens, --sens, --to-sens), kept in sensFlag so errors name it.
+type endFlags struct {
+	prefix                                             string // "" or "to-"
+	power, gain, height, cable, cableLength, swr, sens string
+	sensFlag                                           string // the sensitivity flag, without "--"; "" when the end has none
+	connectors                                         int
+}
+
 // addKitFlags registers the antenna and feedline flags of one end of a link:
 // prefix is "" or "to-", what ("transmitting ", "receiving " or "") words
 // the help. With power, the end's transmitter power too.
 func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power bool) {
+	e.prefix = prefix
 	f := cmd.Flags()
 	if power {
 		f.StringVar(&e.power, prefix+"power", "5W", "transmitter power [W]")
@@ -138,4 +147,70 @@ func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power boo
 	f.StringVar(&e.cableLength, prefix+"cable-length", "", what+"feedline length [m]")
 	f.IntVar(&e.connectors, prefix+"connectors", 0, "mated connector pairs in the "+what+"feedline")
 	f.StringVar(&e.swr, prefix+"swr", "1", "SWR at the "+what+"antenna")
+}
+
+// addSensFlag registers the receiver-sensitivity flag of an end.
+func addSensFlag(cmd *cobra.Command, e *endFlags, name, help string) {
+	e.sensFlag = name
+	cmd.Flags().StringVar(&e.sens, name, "0.25uV", help)
+}
+
+// end builds one end of a link from its flags, named name. A flag left
+// empty leaves its part of the kit at zero (no power, no sensitivity, 0 m);
+// without --cable there is no feedline, but --swr and --connectors still
+// apply to the line a mast sweep gives the end. Errors name the flag.
+func (e *endFlags) end(name string) (plan.End, error) {
+	out := plan.End{Name: name}
+	p := e.prefix
+	var err error
+	if e.power != "" {
+		if out.Radio.PowerW, err = quantity(p+"power", e.power, units.ParsePowerW); err != nil {
+			return out, err
+		}
+	}
+	if e.sens != "" {
+		if out.Radio.SensitivityDBm, err = quantity(e.sensFlag, e.sens, units.ParseSensitivityDBm); err != nil {
+			return out, err
+		}
+	}
+	if e.gain != "" {
+		if out.Antenna.GainDBi, err = quantity(p+"gain", e.gain, units.ParseGainDBi); err != nil {
+			return out, err
+		}
+	}
+	if e.height != "" {
+		if out.Antenna.HeightM, err = quantity(p+"height", e.height, units.ParseLengthM); err != nil {
+			return out, err
+		}
+	}
+	if e.connectors < 0 {
+		return out, usagef("--%sconnectors: give 0 or more", p)
+	}
+	swr := 1.0
+	if e.swr != "" {
+		if swr, err = quantity(p+"swr", e.swr, units.ParseSWR); err != nil {
+			return out, err
+		}
+	}
+	if e.cable == "" {
+		if e.cableLength != "" {
+			return out, usagef("--%scable-length needs --%scable", p, p)
+		}
+		out.Feedline = feedline.Line{SWR: swr, Connectors: e.connectors}
+		return out, nil
+	}
+	c, err := feedline.ResolveCable(e.cable)
+	if err != nil {
+		return out, usagef("--%scable: %v", p, err)
+	}
+	if e.cableLength == "" {
+		return out, usagef("--%scable needs --%scable-length", p, p)
+	}
+	l, err := quantity(p+"cable-length", e.cableLength, units.ParseLengthM)
+	if err != nil {
+		return out, err
+	}
+	out.Feedline = feedline.NewLine(c, l)
+	out.Feedline.SWR, out.Feedline.Connectors = swr, e.connectors
+	return out, nil
 }

@@ -1,32 +1,25 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
 
 	"github.com/mastlink/mastlink/plan"
-	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
 
-func init() { commandConstructors = append(commandConstructors, newLinkCmd) }
-
-// endFlags are the kit flags of one end of a link.
-type endFlags struct {
-	power, gain, height, cable, cableLength, swr, sens string
-	connectors                                         int
-}
-
 type linkOptions struct {
 	from, to, freq string
 	tx, rx         endFlags
 	envFlags
-	sigma, reliability, profile, margin string
-	points                              pointResolver
+	req     plan.RequirementOptions // --margin, --reliability, --sigma
+	profile string
+	points  pointResolver
 }
 
 func newLinkCmd(g *globals) *cobra.Command {
@@ -48,7 +41,7 @@ smooth earth. --profile takes the terrain from a CSV file instead.`,
 			"    --to-gain 6dBi --to-height 20m --rx-sens -122dBm",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runLink(g, o)
+			return runLink(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
@@ -57,65 +50,15 @@ smooth earth. --profile takes the terrain from a CSV file instead.`,
 	f.StringVar(&o.freq, "freq", "", "frequency [MHz] (required)")
 	addKitFlags(cmd, &o.tx, "", "transmitting ", true)
 	addKitFlags(cmd, &o.rx, "to-", "receiving ", false)
-	f.StringVar(&o.rx.sens, "rx-sens", "0.25uV", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
-	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] for the probability of working")
-	f.StringVar(&o.reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: gives the margin needed")
-	f.StringVar(&o.margin, "margin", "", "wanted fade margin [dB]")
+	addSensFlag(cmd, &o.rx, "rx-sens", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
+	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] for the probability of working")
+	f.StringVar(&o.req.Reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: gives the margin needed")
+	f.StringVar(&o.req.Margin, "margin", "", "wanted fade margin [dB]")
 	f.StringVar(&o.profile, "profile", "", "terrain profile CSV (distance_m or distance_km, elevation_m, optional clutter_m) instead of elevation data")
 	addEnvFlags(cmd, &o.envFlags)
 	addWaypointsFlag(cmd, &o.points)
 	_ = cmd.MarkFlagRequired("freq")
 	return cmd
-}
-
-// end builds one end of the link from its flags; prefix names the flags
-// ("" or "to-").
-func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
-	var out plan.End
-	out.Name = name
-	var err error
-	if withPower {
-		if out.Radio.PowerW, err = quantity(prefix+"power", e.power, units.ParsePowerW); err != nil {
-			return out, err
-		}
-	}
-	if e.sens != "" {
-		if out.Radio.SensitivityDBm, err = quantity("rx-sens", e.sens, units.ParseSensitivityDBm); err != nil {
-			return out, err
-		}
-	}
-	if out.Antenna.GainDBi, err = quantity(prefix+"gain", e.gain, units.ParseGainDBi); err != nil {
-		return out, err
-	}
-	if out.Antenna.HeightM, err = quantity(prefix+"height", e.height, units.ParseLengthM); err != nil {
-		return out, err
-	}
-	if e.cable == "" {
-		if e.cableLength != "" {
-			return out, usagef("--%scable-length needs --%scable", prefix, prefix)
-		}
-		return out, nil
-	}
-	c, err := feedline.ResolveCable(e.cable)
-	if err != nil {
-		return out, usagef("--%scable: %v", prefix, err)
-	}
-	if e.cableLength == "" {
-		return out, usagef("--%scable needs --%scable-length", prefix, prefix)
-	}
-	l, err := quantity(prefix+"cable-length", e.cableLength, units.ParseLengthM)
-	if err != nil {
-		return out, err
-	}
-	out.Feedline = feedline.NewLine(c, l)
-	out.Feedline.Connectors = e.connectors
-	if e.connectors < 0 {
-		return out, usagef("--%sconnectors: give 0 or more", prefix)
-	}
-	if out.Feedline.SWR, err = quantity(prefix+"swr", e.swr, units.ParseSWR); err != nil {
-		return out, err
-	}
-	return out, nil
 }
 
 // linkOutput is the JSON of `mastlink link`.
@@ -129,7 +72,7 @@ type linkOutput struct {
 	SMeter  string  `json:"s_meter"`
 }
 
-func runLink(g *globals, o *linkOptions) error {
+func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) error {
 	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
@@ -138,23 +81,11 @@ func runLink(g *globals, o *linkOptions) error {
 	if err != nil {
 		return err
 	}
-	if env.SigmaDB, err = quantity("sigma", o.sigma, units.ParseLossDB); err != nil {
-		return err
+	var req plan.Requirement
+	if err := o.req.Apply(&req); err != nil {
+		return optionUsage(err)
 	}
-	req := plan.Requirement{SigmaDB: env.SigmaDB}
-	if o.reliability != "" {
-		if req.Reliability, err = quantity("reliability", o.reliability, units.ParseRatio); err != nil {
-			return err
-		}
-		if !(req.Reliability > 0 && req.Reliability < 1) {
-			return usagef("--reliability: give a fraction above 0%% and below 100%%")
-		}
-	}
-	if o.margin != "" {
-		if req.MarginDB, err = quantity("margin", o.margin, units.ParseLossDB); err != nil {
-			return err
-		}
-	}
+	env.SigmaDB = req.SigmaDB
 	var geo *plan.Geometry
 	out := linkOutput{SigmaDB: env.SigmaDB}
 	fromName, toName := "transmitter", "receiver"
@@ -192,12 +123,11 @@ func runLink(g *globals, o *linkOptions) error {
 		}
 		g.warnMissing(env.Terrain)
 	}
-	tx, err := o.tx.end(fromName, "", true)
+	tx, err := o.tx.end(fromName)
 	if err != nil {
 		return err
 	}
-	o.rx.power = ""
-	rx, err := o.rx.end(toName, "to-", false)
+	rx, err := o.rx.end(toName)
 	if err != nil {
 		return err
 	}
@@ -205,21 +135,15 @@ func runLink(g *globals, o *linkOptions) error {
 	if err != nil {
 		return err
 	}
-	if o.margin != "" || o.reliability != "" {
+	if o.req.Margin != "" || o.req.Reliability != "" {
 		need := req.NeededMarginDB()
 		ok := r.MarginDB >= need
 		r.NeededMarginDB, r.MeetsRequirement = &need, &ok
 	}
 	out.LinkResult = r
 	out.SMeter = units.SMeter(r.RxPowerDBm)
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
-		return writeCSV(g.stdout, linkCSVHeader, [][]string{linkCSVRow(r)})
-	}
-	renderLinkText(g.stdout, out, tx, rx, g.imperial())
-	return nil
+	return g.emit(out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
+		func(w io.Writer) error { renderLinkText(w, out, tx, rx, g.imperial()); return nil })
 }
 
 var linkCSVHeader = []string{"from", "to", "direction", "freq_mhz", "distance_m", "azimuth_deg", "model", "free_space_loss_db", "excess_loss_db", "path_loss_db",
@@ -318,26 +242,4 @@ func verdict(r plan.LinkResult) string {
 	default:
 		return fmt.Sprintf("Not expected to work: %.1f dB below the receiver's sensitivity.", -r.MarginDB)
 	}
-}
-
-func dbm(v float64) string { return signed(v) + " dBm" }
-func db(v float64) string  { return signed(v) + " dB" }
-func dbi(v float64) string { return signed(v) + " dBi" }
-
-// signed formats v with one decimal and a sign, never as "-0.0".
-func signed(v float64) string {
-	if math.Abs(v) < 0.05 {
-		return "0.0"
-	}
-	return fmt.Sprintf("%+.1f", v)
-}
-
-func probability(p float64) string {
-	switch {
-	case p > 0.999:
-		return "over 99.9 %"
-	case p < 0.001:
-		return "under 0.1 %"
-	}
-	return fmt.Sprintf("%.1f %%", 100*p)
 }

@@ -20,9 +20,12 @@ import (
 	"github.com/spf13/cobra"
 )
 
-func init() { commandConstructors = append(commandConstructors, newPlanCmd) }
+// planOptions are the plan command's own options: none yet, as the plan
+// file says everything; the struct keeps the shape every command has.
+type planOptions struct{}
 
 func newPlanCmd(g *globals) *cobra.Command {
+	o := &planOptions{}
 	cmd := &cobra.Command{
 		Use:   "plan FILE.yaml [-o DIR]",
 		Short: "Evaluate a whole deployment plan: every link both ways, mast sweep, RF exposure",
@@ -39,7 +42,7 @@ sites.geojson when the plan has routes and sites.`,
 		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runPlan(cmd.Context(), g, args[0])
+			return runPlan(cmd.Context(), g, o, args)
 		},
 	}
 	return cmd
@@ -61,10 +64,8 @@ func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
 	return p, p.NewEnv(ts), nil
 }
 
-func runPlan(ctx context.Context, g *globals, path string) error {
-	if ctx == nil {
-		ctx = context.Background()
-	}
+func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) error {
+	path := args[0]
 	p, env, err := loadPlan(g, path)
 	if err != nil {
 		return err
@@ -93,14 +94,8 @@ func runPlan(ctx context.Context, g *globals, path string) error {
 			return err
 		}
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, res)
-	case "csv":
-		return writeLinksCSV(g.stdout, res.Links)
-	}
-	renderPlanText(g.stdout, p, env, res, g.imperial())
-	return nil
+	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
+		func(w io.Writer) error { renderPlanText(w, p, env, res, g.imperial()); return nil })
 }
 
 // planWarnings points out what a briefing should not miss.

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"strings"
@@ -10,8 +11,6 @@ import (
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newProfileCmd) }
 
 type profileOptions struct {
 	from, to, step   string
@@ -81,7 +80,7 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 			"    --height 9m --to-height 20m -o saddle-peak.png",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runProfile(g, o)
+			return runProfile(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
@@ -97,7 +96,7 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 	return cmd
 }
 
-func runProfile(g *globals, o *profileOptions) error {
+func runProfile(ctx context.Context, g *globals, o *profileOptions, args []string) error {
 	inputs := append(g.demPaths(), o.points.file)
 	if g.out != "" {
 		if err := checkNotInput("--out", g.out, inputs); err != nil {
@@ -135,7 +134,7 @@ func runProfile(g *globals, o *profileOptions) error {
 		if h1 < 0 || h2 < 0 {
 			return usagef("--height, --to-height: give heights of 0 m or more")
 		}
-		k, err := kFactor(o.k)
+		k, err := quantity("k", o.k, units.ParseKFactor)
 		if err != nil {
 			return err
 		}
@@ -193,14 +192,8 @@ func runProfile(g *globals, o *profileOptions) error {
 		}
 		fmt.Fprintf(g.stderr, "mastlink: wrote the profile (%d samples) to %s\n", p.Len(), g.out)
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
-		return terrain.WriteProfileCSV(g.stdout, p.DistM, p.Lat, p.Lon, p.ElevM)
-	}
-	renderProfileText(g.stdout, out, g.out, g.imperial())
-	return nil
+	return g.emit(out, func(w io.Writer) error { return terrain.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM) },
+		func(w io.Writer) error { renderProfileText(w, out, g.out, g.imperial()); return nil })
 }
 
 // demPaths lists the paths given with --dem (the inputs not to overwrite).
@@ -293,15 +286,6 @@ func shownSamples(n, every int) []int {
 		idx = idx[:k]
 	}
 	return append(idx, n-1)
-}
-
-// distance renders a distance along a path in km (or mi) with 2 decimals,
-// so a column of them lines up.
-func distance(m float64, im bool) string {
-	if im {
-		return fmt.Sprintf("%.2f mi", m/units.MetresPerMile)
-	}
-	return fmt.Sprintf("%.2f km", m/1000)
 }
 
 // ordinal writes 2nd, 3rd, 4th, 21st, …

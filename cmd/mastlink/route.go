@@ -15,8 +15,6 @@ import (
 	"github.com/spf13/cobra"
 )
 
-func init() { commandConstructors = append(commandConstructors, newRouteCmd) }
-
 type routeOptions struct {
 	reachOptions
 	spacing, track string
@@ -48,7 +46,7 @@ F.csv (every checked point).`,
 			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runRoute(cmd, g, o, args[0])
+			return runRoute(cmd.Context(), g, o, args)
 		},
 	}
 	addReachFlags(cmd, &o.reachOptions, plan.HandheldName)
@@ -57,14 +55,7 @@ F.csv (every checked point).`,
 	return cmd
 }
 
-func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string) error {
-	ctx := cmd.Context()
-	if ctx == nil {
-		ctx = context.Background()
-	}
-	if o.freq != "" && o.targets == "" {
-		return usagef("--freq is the frequency of the targets of --targets; give that file too")
-	}
+func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) error {
 	spacing, err := quantity("spacing", o.spacing, units.ParseLengthM)
 	if err != nil {
 		return err
@@ -72,51 +63,28 @@ func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string)
 	if !(spacing > 0) {
 		return usagef("--spacing: give a distance above 0 m")
 	}
-	var outKind string
-	if g.out != "" {
-		if outKind, err = outputKind(g.out, "geojson", "gpx", "csv"); err != nil {
+	var track gpx.Track
+	return runReach(ctx, g, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
+		outKinds: []string{"geojson", "gpx", "csv"},
+		check: func(gf *gpx.File) error {
+			track, err = pickTrack(g, gf, o.track)
 			return err
-		}
-	}
-	gf, err := gpx.Read(trackFile)
-	if err != nil {
-		return err
-	}
-	track, err := pickTrack(g, gf, o.track)
-	if err != nil {
-		return err
-	}
-	r, err := o.resolve(cmd, g, false)
-	if err != nil {
-		return err
-	}
-	inputs := append([]string{trackFile}, r.inputs...)
-	if g.out != "" {
-		if err := checkNotInput("--out", g.out, inputs); err != nil {
-			return err
-		}
-	}
-	bar := newProgress(g, "paths")
-	res, err := r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, bar.update)
-	bar.done()
-	if err != nil {
-		return err
-	}
-	g.warnMissing(r.env.Terrain)
-	switch outKind {
-	case "geojson":
-		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
-	case "gpx":
-		err = writeRouteGPX(g.out, inputs, track, res)
-	case "csv":
-		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
-	}
-	if err != nil {
-		return err
-	}
-	g.wrote()
-	return g.emit(res, func(w io.Writer) error { return writeRouteCSV(w, res) },
-		func(w io.Writer) { renderRouteText(w, res, g.imperial()) })
+		},
+		compute: func(ctx context.Context, r *reach, _ *gpx.File, progress plan.Progress) (*plan.RouteResult, error) {
+			return r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, progress)
+		},
+		write: func(kind string, inputs []string, res *plan.RouteResult) error {
+			switch kind {
+			case "geojson":
+				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
+			case "gpx":
+				return writeRouteGPX(g.out, inputs, track, res)
+			}
+			return renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
+		},
+		csv:  writeRouteCSV,
+		text: func(w io.Writer, res *plan.RouteResult) error { renderRouteText(w, res, g.imperial()); return nil },
+	})
 }
 
 // pickTrack returns the track or route called name, or the first.
@@ -188,8 +156,6 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 	}
 	fmt.Fprintln(w)
 }
-
-func percent(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
 
 // writeRouteCSV writes one row per checked point.
 func writeRouteCSV(w io.Writer, r *plan.RouteResult) error {

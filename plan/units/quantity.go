@@ -73,6 +73,8 @@ const (
 	MetresPerFoot = 0.3048   // exact
 	MetresPerInch = 0.0254   // exact
 	MetresPerMile = 1609.344 // exact: 5280 ft
+
+	KilogramsPerPound = 0.45359237 // exact
 )
 
 // Upper limits of the range checks.
