@@ -11,7 +11,7 @@ func TestLinkBudget(t *testing.T) {
 	// Worked by hand [calc]: 5 W (36.99 dBm) through 1.5 dB of line into a
 	// 2.15 dBi antenna → EIRP 37.64 dBm; 120 dB path, 6 dBi and 2 dB of line
 	// at the far end → −78.36 dBm; against 0.25 µV (−119.03 dBm by P = V²/R,
-	// REFERENCES §6) → margin 40.67 dB.
+	// 50 Ω) → margin 40.67 dB.
 	b := LinkBudget{
 		TxPowerDBm:       units.DBmFromW(5),
 		TxFeedlineLossDB: 1.5,

@@ -16,7 +16,7 @@ import (
 )
 
 // writeHGT writes a 3″ SRTM tile (1201×1201 big-endian int16, rows from the
-// north edge; REFERENCES §9) whose height at (row, col) is h(row, col).
+// north edge; NASA SRTM Topography documentation, 2003) whose height at (row, col) is h(row, col).
 func writeHGT(t testing.TB, dir, name string, h func(row, col int) int16) string {
 	t.Helper()
 	const n = 1201

@@ -30,7 +30,7 @@ func TestReadExamplePlan(t *testing.T) {
 	if st.Name != "Valley Base" || st.Antenna.HeightM != 9 || st.Feedline.Cable.Name != "RG-8X" || st.Feedline.Connectors != 2 {
 		t.Errorf("station = %+v", st)
 	}
-	// 0.25 µV across 50 Ω = −119.0 dBm (REFERENCES §6, P = V²/R).
+	// 0.25 µV across 50 Ω = −119.0 dBm (P = V²/R, computed).
 	if math.Abs(st.Radio.SensitivityDBm-(-119.04)) > 0.01 {
 		t.Errorf("sensitivity %v dBm", st.Radio.SensitivityDBm)
 	}
@@ -44,7 +44,7 @@ func TestReadExamplePlan(t *testing.T) {
 	if !p.Targets[4].Optional {
 		t.Errorf("hut should be optional")
 	}
-	// σ 5.5 dB and 90 % need 7.05 dB (REFERENCES §5); the 10 dB margin is larger.
+	// σ 5.5 dB and 90 % need 7.05 dB (ITU-R P.1812-8 eq. 69, computed); the 10 dB margin is larger.
 	if got := p.Require.NeededMarginDB(); got != 10 {
 		t.Errorf("needed margin %v", got)
 	}
@@ -88,7 +88,7 @@ func TestPlanRadioClimate(t *testing.T) {
 
 func TestRequirementReliability(t *testing.T) {
 	// ITU-R P.1812-8 eq. 69 with σ = 8 dB: 90 % needs 10.25 dB, 95 % 13.16 dB
-	// (REFERENCES §5, computed from the published formula).
+	// (computed from the published formula).
 	r := Requirement{MarginDB: 3, Reliability: 0.95, SigmaDB: 8}
 	if got := r.NeededMarginDB(); math.Abs(got-13.16) > 0.01 {
 		t.Errorf("needed margin %v, want 13.16", got)

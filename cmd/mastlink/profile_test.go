@@ -407,7 +407,8 @@ func groundTopPx(img image.Image, x, y0, y1 int) int {
 	return y1
 }
 
-// TestProfileJSONFields: the field names scripts rely on (DESIGN.md).
+// TestProfileJSONFields: the field names scripts rely on (the profile
+// command's JSON contract in its help and the README).
 func TestProfileJSONFields(t *testing.T) {
 	out, _, code := runCmd(t, "--dem", exampleTerrain, "--format", "json", "profile", "--from=-48.5,-123.95", "--to=-48.45,-123.95")
 	if code != 0 {

@@ -22,7 +22,7 @@ import (
 //     averaging, worked examples).
 //   - 47 CFR § 1.1307(b)(3)(i)(C) (exemption thresholds).
 //   - ICNIRP 2020 Table 5 and ICNIRP 1998 Tables 6–7: FROM MEMORY, NOT READ
-//     IN THE PUBLISHED TEXT; to be verified (REFERENCES.md §8 [mem: verify]).
+//     IN THE PUBLISHED TEXT; to be verified.
 // [calc] marks a figure computed by hand from the cited formula.
 
 func TestExposureLimitFor(t *testing.T) {
@@ -42,7 +42,7 @@ func TestExposureLimitFor(t *testing.T) {
 		{"fcc occ 2 MHz: 100 mW/cm²", fcc, occ, 2, 1000, 1e-12, 6 * time.Minute},
 		{"fcc occ 10 MHz: 900/f² = 9 mW/cm²", fcc, occ, 10, 90, 1e-12, 6 * time.Minute},
 		{"fcc occ 146 MHz: 1.0 mW/cm²", fcc, occ, 146, 10, 1e-12, 6 * time.Minute},
-		{"fcc occ 446 MHz: f/300 = 1.487 mW/cm²", fcc, occ, 446, 14.87, 5e-4, 6 * time.Minute}, // REFERENCES §8 check [calc]
+		{"fcc occ 446 MHz: f/300 = 1.487 mW/cm²", fcc, occ, 446, 14.87, 5e-4, 6 * time.Minute}, // 47 CFR § 1.1310 Table 1 [calc]
 		{"fcc occ 2400 MHz: 5 mW/cm²", fcc, occ, 2400, 50, 1e-12, 6 * time.Minute},
 		{"fcc occ 100 GHz: 5 mW/cm²", fcc, occ, 100000, 50, 1e-12, 6 * time.Minute},
 		// 47 CFR § 1.1310(e)(1) Table 1 (B) general population/uncontrolled, 30 min.
@@ -50,12 +50,12 @@ func TestExposureLimitFor(t *testing.T) {
 		{"fcc pub 2 MHz: 180/f² = 45 mW/cm²", fcc, pub, 2, 450, 1e-12, 30 * time.Minute},
 		{"fcc pub 28 MHz: 180/f² = 0.2296 mW/cm²", fcc, pub, 28, 2.296, 5e-4, 30 * time.Minute},
 		{"fcc pub 146 MHz: 0.2 mW/cm²", fcc, pub, 146, 2, 1e-12, 30 * time.Minute},
-		{"fcc pub 446 MHz: f/1500 = 0.2973 mW/cm²", fcc, pub, 446, 2.973, 5e-4, 30 * time.Minute}, // REFERENCES §8 check [calc]
+		{"fcc pub 446 MHz: f/1500 = 0.2973 mW/cm²", fcc, pub, 446, 2.973, 5e-4, 30 * time.Minute}, // 47 CFR § 1.1310 Table 1 [calc]
 		{"fcc pub 1296 MHz: f/1500 = 0.864 mW/cm²", fcc, pub, 1296, 8.64, 1e-12, 30 * time.Minute},
 		{"fcc pub 5800 MHz: 1.0 mW/cm²", fcc, pub, 5800, 10, 1e-12, 30 * time.Minute},
 		// ICNIRP 2020 Table 5, 30 min [from memory, to verify].
 		{"icnirp2020 pub 146 MHz: 2 W/m²", i20, pub, 146, 2, 1e-12, 30 * time.Minute},
-		{"icnirp2020 pub 446 MHz: f/200 = 2.23 W/m²", i20, pub, 446, 2.23, 1e-12, 30 * time.Minute}, // REFERENCES §8 [mem]
+		{"icnirp2020 pub 446 MHz: f/200 = 2.23 W/m²", i20, pub, 446, 2.23, 1e-12, 30 * time.Minute}, // ICNIRP 2020 Table 5 [from memory]
 		{"icnirp2020 pub 2400 MHz: 10 W/m²", i20, pub, 2400, 10, 1e-12, 30 * time.Minute},
 		// [calc] E = 300/10^0.7 = 59.86 V/m → E²/Z0 = 9.51 W/m² (H = 0.22 A/m → 18.2 W/m²).
 		{"icnirp2020 pub 10 MHz: E²/Z0 of 300/f^0.7 V/m", i20, pub, 10, 9.51, 2e-3, 30 * time.Minute},
@@ -186,7 +186,7 @@ func TestWorstCaseOnAirFraction(t *testing.T) {
 		on, off, wind time.Duration
 		want, tol     float64
 	}{
-		// OET Bulletin 65 Supplement B worked examples, worst-case window (REFERENCES §8).
+		// OET Bulletin 65 Supplement B worked examples, worst-case window.
 		{"7 on 7 off, 6 min: all on", 7 * time.Minute, 7 * time.Minute, 6 * time.Minute, 1, 1e-12},
 		{"7 on 7 off, 30 min: 16 of 30", 7 * time.Minute, 7 * time.Minute, 30 * time.Minute, 16.0 / 30, 1e-12},
 		{"15 s every 2 min, 6 min", 15 * time.Second, 105 * time.Second, 6 * time.Minute, 0.125, 1e-12},
@@ -240,7 +240,7 @@ func TestWorstCaseOnAirFraction(t *testing.T) {
 }
 
 func TestEvaluateExposureAveraging(t *testing.T) {
-	// OET Bulletin 65 Supplement B worked examples (REFERENCES §8), 0 dBi and
+	// OET Bulletin 65 Supplement B (ed. 97-01) worked examples, 0 dBi and
 	// no feedline loss, so the EIRP does not matter here.
 	tests := []struct {
 		name             string
@@ -278,7 +278,7 @@ func TestEvaluateExposureAveraging(t *testing.T) {
 }
 
 func TestEvaluateExposureDistances(t *testing.T) {
-	// REFERENCES §8 check [calc], continuous FM, F = 2.56, FCC limits,
+	// Computed [calc], continuous FM, F = 2.56, 47 CFR § 1.1310 Table 1 limits,
 	// R = √(2.56·EIRP/(4π·S)) (OET Bulletin 65 eq. 6); figures rounded to cm.
 	tests := []struct {
 		name             string
@@ -338,7 +338,7 @@ func TestEvaluateExposureFeedlineAndReflection(t *testing.T) {
 }
 
 func TestICNIRPComparison446(t *testing.T) {
-	// REFERENCES §8: at 446 MHz the ICNIRP 2020 public level f/200 = 2.23 W/m²
+	// At 446 MHz the ICNIRP 2020 Table 5 public level f/200 = 2.23 W/m²
 	// [mem: verify] is stricter than the FCC's f/1500 mW/cm² = 2.97 W/m², so
 	// its distance is longer by √(2.973/2.23) = 1.1547 [calc].
 	in := Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 446, Mode: ModeFM}
@@ -363,7 +363,7 @@ func TestICNIRPComparison446(t *testing.T) {
 }
 
 func TestExemptionThresholdERPW(t *testing.T) {
-	// 47 CFR § 1.1307(b)(3)(i)(C) table; checks from REFERENCES §8 [calc].
+	// 47 CFR § 1.1307(b)(3)(i)(C) table; checks computed from it [calc].
 	tests := []struct {
 		name             string
 		freqMHz, distM   float64
@@ -607,7 +607,8 @@ func TestEvaluateExposureInvalid(t *testing.T) {
 }
 
 func TestExposureReportJSON(t *testing.T) {
-	// The `exposure` JSON contract of DESIGN.md, plus the exemption fields.
+	// The JSON field names `mastlink exposure --format json` promises
+	// scripts, plus the exemption fields.
 	contract := []string{
 		"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
 		"limit_public_w_m2", "limit_occupational_w_m2", "distance_public_m", "distance_occupational_m",

@@ -6,7 +6,7 @@ import (
 )
 
 func TestMicrovoltsDBm(t *testing.T) {
-	// REFERENCES §6 [calc]: dBm = 20 log10(µV) − 106.99, P = V²/R across 50 Ω.
+	// Computed [calc]: dBm = 20 log10(µV) − 106.99, P = V²/R across 50 Ω.
 	// The figures are given to 0.1 dB, hence the tolerance.
 	cases := []struct {
 		name     string
@@ -38,7 +38,7 @@ func TestMicrovoltsDBm(t *testing.T) {
 	if got := DBmFromMicrovolts(1); math.Abs(got-(-106.9897)) > 5e-5 {
 		t.Errorf("1 µV = %.5f dBm, want -106.9897", got)
 	}
-	// EMF figures are 6.02 dB higher than pd (REFERENCES §6, from memory;
+	// EMF figures are 6.02 dB higher than pd (from memory;
 	// 20 log10 2 for a matched source).
 	if got := DBmFromMicrovolts(0.5) - DBmFromMicrovoltsEMF(0.5); math.Abs(got-6.02) > 0.005 {
 		t.Errorf("EMF offset %.4f dB, want 6.02", got)
@@ -69,7 +69,7 @@ func TestPowerDBm(t *testing.T) {
 }
 
 func TestDipoleGain(t *testing.T) {
-	// dBd = dBi − 2.15, half-wave dipole 1.64 (FCC OET Bulletin 65, REFERENCES §6).
+	// dBd = dBi − 2.15, half-wave dipole 1.64 (FCC OET Bulletin 65, ed. 97-01).
 	if got := DBdFromDBi(2.15); got != 0 {
 		t.Errorf("a dipole is %v dBd, want 0", got)
 	}
@@ -111,7 +111,7 @@ func TestSMeter(t *testing.T) {
 }
 
 func TestThermalNoise(t *testing.T) {
-	// −174 dBm/Hz + 10 log10(B) + NF (kT0, T0 = 290 K), REFERENCES §6 [calc],
+	// −174 dBm/Hz + 10 log10(B) + NF (kT0, T0 = 290 K) [calc],
 	// figures to 0.1 dB before noise figure.
 	cases := []struct {
 		name         string

@@ -143,10 +143,10 @@ func TestParseSensitivityDBm(t *testing.T) {
 	runParseTable(t, KindSensitivity, ParseSensitivityDBm, []parseCase{
 		{name: "dBm", in: "-120dBm", want: -120, tol: 0},
 		{name: "bare number is dBm", in: "-122", want: -122, tol: 0},
-		{name: "uV", in: "0.25uV", want: -119.0, tol: 0.05},         // REFERENCES §6 [calc], P = V²/R, 50 Ω
+		{name: "uV", in: "0.25uV", want: -119.0, tol: 0.05},         // computed, P = V²/R, 50 Ω
 		{name: "micro sign", in: "0.25µV", want: -119.0, tol: 0.05}, // same, U+00B5
 		{name: "greek mu", in: "0.25μV", want: -119.0, tol: 0.05},   // same, U+03BC
-		{name: "1 uV", in: "1 uV", want: -107.0, tol: 0.05},         // REFERENCES §6 [calc]
+		{name: "1 uV", in: "1 uV", want: -107.0, tol: 0.05},         // computed, P = V²/R
 		{name: "zero microvolts", in: "0uV", err: ErrRange, msg: `"0uV": microvolts must be more than 0`},
 		{name: "positive dBm", in: "10dBm", err: ErrRange, msg: `"10dBm": sensitivity must be between -200 and 0 dBm`},
 		{name: "unknown unit", in: "-120dBu", err: ErrUnit, msg: `"-120dBu": unknown unit "dBu" (use dBm or uV)`},
