@@ -466,7 +466,6 @@ func (p *planParser) defaults(n *yaml.Node, k *kit) error {
 }
 
 func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
-	var err error
 	if c := f["radio"]; c != nil {
 		rf, err := p.fields(c, joinField(field, "radio"), "power", "sensitivity")
 		if err != nil {
@@ -540,7 +539,6 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			}
 		}
 	}
-	_ = err
 	return nil
 }
 

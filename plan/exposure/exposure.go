@@ -375,16 +375,6 @@ func WorstCaseOnAirFraction(on, off, window time.Duration) (float64, error) {
 	return float64(onTime) / float64(window), nil
 }
 
-// FarFieldPowerDensityWM2 returns the far-field power density in W/m² at
-// distance distanceM (m, > 0) from an antenna radiating eirpW (W, EIRP in
-// the direction of interest), with ground-reflection factor reflection
-// (1, 2.56 or 4): S = F·EIRP/(4πR²), FCC OET Bulletin 65 (ed. 97-01)
-// eqs. (3)–(6). Within about λ/2π of the antenna (NearFieldBoundaryM) the
-// formula overestimates and is not reliable.
-func FarFieldPowerDensityWM2(eirpW, distanceM, reflection float64) float64 {
-	return reflection * eirpW / (4 * math.Pi * distanceM * distanceM)
-}
-
 // ComplianceDistanceM returns the distance in metres at which the far-field
 // power density of an antenna radiating eirpAvgW (W, time-averaged EIRP)
 // falls to limitWM2 (W/m², > 0) with ground-reflection factor reflection
@@ -464,22 +454,6 @@ func ExemptionThresholdERPW(freqMHz, distanceM float64) (float64, error) {
 		return 0, fmt.Errorf("%w: distance %g m is inside λ/2π = %.3g m at %g MHz, where § 1.1307(b)(3)(i)(C) does not apply; give a distance of at least %.3g m", ErrInput, distanceM, nf, freqMHz, nf)
 	}
 	return exemptionCoefficient(freqMHz) * distanceM * distanceM, nil
-}
-
-// ExemptAt reports whether a source of erpW watts (the greater of its
-// time-averaged ERP and available power) at freqMHz is exempt from routine
-// evaluation under 47 CFR § 1.1307(b)(3)(i)(C) for people no closer than
-// distanceM metres. Errors are those of ExemptionThresholdERPW, or a
-// negative power.
-func ExemptAt(freqMHz, erpW, distanceM float64) (bool, error) {
-	if math.IsNaN(erpW) || erpW < 0 {
-		return false, fmt.Errorf("%w: ERP %g W is negative; give 0 W or more", ErrInput, erpW)
-	}
-	threshold, err := ExemptionThresholdERPW(freqMHz, distanceM)
-	if err != nil {
-		return false, err
-	}
-	return erpW <= threshold, nil
 }
 
 // ExemptBeyondM returns the smallest distance in metres at which a source

@@ -304,7 +304,7 @@ func TestEvaluateExposureDistances(t *testing.T) {
 			}
 			// The density at the compliance distance is the limit (OET 65 eq. 6).
 			avgEIRP := rep.EIRPW * rep.DutyFactor * rep.TxFractionPublic
-			if s := FarFieldPowerDensityWM2(avgEIRP, rep.DistancePublicM, rep.ReflectionFactor); math.Abs(s-rep.LimitPublicWM2) > 1e-9 {
+			if s := farFieldPowerDensityWM2(avgEIRP, rep.DistancePublicM, rep.ReflectionFactor); math.Abs(s-rep.LimitPublicWM2) > 1e-9 {
 				t.Errorf("density at the public distance = %g W/m², want the limit %g W/m²", s, rep.LimitPublicWM2)
 			}
 		})
@@ -427,12 +427,12 @@ func TestExemptAtAndBeyond(t *testing.T) {
 			}
 			// Exempt at that distance and beyond; not just inside it when
 			// the power, not λ/2π, sets it.
-			if ok, err := ExemptAt(tc.freqMHz, tc.erpW, got*(1+1e-9)); err != nil || !ok {
-				t.Errorf("ExemptAt(%.4f m) = %v, %v; want true", got, ok, err)
+			if ok, err := exemptAt(tc.freqMHz, tc.erpW, got*(1+1e-9)); err != nil || !ok {
+				t.Errorf("exemptAt(%.4f m) = %v, %v; want true", got, ok, err)
 			}
 			if got > NearFieldBoundaryM(tc.freqMHz)*1.001 {
-				if ok, err := ExemptAt(tc.freqMHz, tc.erpW, got*0.999); err != nil || ok {
-					t.Errorf("ExemptAt(%.4f m) = %v, %v; want false", got*0.999, ok, err)
+				if ok, err := exemptAt(tc.freqMHz, tc.erpW, got*0.999); err != nil || ok {
+					t.Errorf("exemptAt(%.4f m) = %v, %v; want false", got*0.999, ok, err)
 				}
 			}
 		})
@@ -440,8 +440,8 @@ func TestExemptAtAndBeyond(t *testing.T) {
 	if _, err := ExemptBeyondM(146, -1); !errors.Is(err, ErrInput) {
 		t.Errorf("negative ERP: err = %v, want ErrInput", err)
 	}
-	if _, err := ExemptAt(146, -1, 5); !errors.Is(err, ErrInput) {
-		t.Errorf("ExemptAt negative ERP: err = %v, want ErrInput", err)
+	if _, err := exemptAt(146, -1, 5); !errors.Is(err, ErrInput) {
+		t.Errorf("exemptAt negative ERP: err = %v, want ErrInput", err)
 	}
 	if _, err := ExemptBeyondM(0.1, 1); !errors.Is(err, ErrInput) {
 		t.Errorf("0.1 MHz: err = %v, want ErrInput", err)
@@ -489,14 +489,14 @@ func TestNearFieldBoundaryM(t *testing.T) {
 	}
 }
 
-func TestFarFieldPowerDensityWM2(t *testing.T) {
+func TestFarFieldPowerDensity(t *testing.T) {
 	// [calc] S = F·EIRP/(4πR²), OET Bulletin 65 eqs. 3–6.
 	for _, tc := range []struct{ eirpW, distM, f, want float64 }{
 		{100, 10, 1, 0.0795775},
 		{100, 10, 2.56, 0.2037183},
 		{1000, 3, 4, 35.367765},
 	} {
-		if got := FarFieldPowerDensityWM2(tc.eirpW, tc.distM, tc.f); math.Abs(got-tc.want) > 1e-6*tc.want {
+		if got := farFieldPowerDensityWM2(tc.eirpW, tc.distM, tc.f); math.Abs(got-tc.want) > 1e-6*tc.want {
 			t.Errorf("S(%g W, %g m, F=%g) = %.7f W/m², want %.7f", tc.eirpW, tc.distM, tc.f, got, tc.want)
 		}
 	}
@@ -826,4 +826,33 @@ func BenchmarkEvaluateExposure(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// The forward formulas below are kept in the tests as independent checks
+// of the solved forms the package exports.
+
+// farFieldPowerDensityWM2 returns the far-field power density in W/m² at
+// distance distanceM (m, > 0) from an antenna radiating eirpW (W, EIRP in
+// the direction of interest), with ground-reflection factor reflection
+// (1, 2.56 or 4): S = F·EIRP/(4πR²), FCC OET Bulletin 65 (ed. 97-01)
+// eqs. (3)–(6). Within about λ/2π of the antenna (NearFieldBoundaryM) the
+// formula overestimates and is not reliable.
+func farFieldPowerDensityWM2(eirpW, distanceM, reflection float64) float64 {
+	return reflection * eirpW / (4 * math.Pi * distanceM * distanceM)
+}
+
+// exemptAt reports whether a source of erpW watts (the greater of its
+// time-averaged ERP and available power) at freqMHz is exempt from routine
+// evaluation under 47 CFR § 1.1307(b)(3)(i)(C) for people no closer than
+// distanceM metres. Errors are those of ExemptionThresholdERPW, or a
+// negative power.
+func exemptAt(freqMHz, erpW, distanceM float64) (bool, error) {
+	if math.IsNaN(erpW) || erpW < 0 {
+		return false, fmt.Errorf("%w: ERP %g W is negative; give 0 W or more", ErrInput, erpW)
+	}
+	threshold, err := ExemptionThresholdERPW(freqMHz, distanceM)
+	if err != nil {
+		return false, err
+	}
+	return erpW <= threshold, nil
 }

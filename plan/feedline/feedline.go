@@ -408,10 +408,6 @@ func MismatchLossDB(swr float64) float64 {
 	return -10 * math.Log10(1-g*g)
 }
 
-// ReturnLossDB returns the return loss −20 log10 |Γ| in dB at an SWR ≥ 1
-// (+Inf at SWR 1).
-func ReturnLossDB(swr float64) float64 { return -20 * math.Log10(ReflectionCoefficient(swr)) }
-
 // SWRTotalLossDB returns the total loss in dB of a line with matched loss
 // matchedLossDB terminated in a load of the given SWR (the usual
 // transmission-line-handbook formula):

@@ -1,8 +1,8 @@
 package units
 
 // Decibel arithmetic of the radio trade: dBm and watts, microvolts across a
-// 50 Ω receiver input, dBi and dBd, S-meter readings and the thermal noise
-// floor.
+// 50 Ω receiver input, dBi and dBd, and S-meter readings.
+
 import (
 	"fmt"
 	"math"
@@ -16,9 +16,6 @@ const DipoleGainDBi = 2.15
 // DBiFromDBd converts a gain referred to a half-wave dipole (dBd) to one
 // referred to an isotropic radiator (dBi): dBi = dBd + 2.15 (OET Bulletin 65).
 func DBiFromDBd(dBd float64) float64 { return dBd + DipoleGainDBi }
-
-// DBdFromDBi converts a gain in dBi to dBd: dBd = dBi − 2.15 (OET Bulletin 65).
-func DBdFromDBi(dBi float64) float64 { return dBi - DipoleGainDBi }
 
 // DBmFromW converts watts to dBm, 10 log10(P / 1 mW). Zero gives −Inf,
 // a negative power NaN.
@@ -44,17 +41,6 @@ func DBmFromMicrovolts(uV float64) float64 { return 20*math.Log10(uV) + microvol
 // the inverse of DBmFromMicrovolts.
 func MicrovoltsFromDBm(dBm float64) float64 { return math.Pow(10, (dBm-microvoltRefDBm)/20) }
 
-// EMFToPDDB is the difference between a sensitivity quoted as source EMF
-// (open-circuit voltage) and the same signal quoted as the voltage across
-// the matched load: the load sees half the EMF, 20 log10 2 = 6.02 dB.
-var EMFToPDDB = 20 * math.Log10(2)
-
-// DBmFromMicrovoltsEMF converts a sensitivity quoted as EMF of a matched
-// 50 Ω source, in µV, to the power available at the receiver in dBm: half
-// the EMF appears across the load, so the result is 6.02 dB below
-// DBmFromMicrovolts of the same figure.
-func DBmFromMicrovoltsEMF(uV float64) float64 { return DBmFromMicrovolts(uV) - EMFToPDDB }
-
 // S-meter calibration above 30 MHz, IARU Region 1 Technical Recommendation
 // R.1 (from memory): S9 is −93 dBm (5 µV across 50 Ω) and one S-unit is 6 dB.
 const (
@@ -63,10 +49,6 @@ const (
 	s1VHFDBm  = S9VHFDBm - 8*SUnitDB // −141 dBm
 	maxSUnits = 9
 )
-
-// SMeterLevelDBm returns the level in dBm of S-unit n (1..9) on a meter
-// calibrated for use above 30 MHz (IARU Region 1 R.1): −93 − 6 (9 − n).
-func SMeterLevelDBm(n int) float64 { return S9VHFDBm - SUnitDB*float64(maxSUnits-n) }
 
 // SMeter renders a received level in dBm as an S-meter reading above 30 MHz
 // (IARU Region 1 R.1: S9 = −93 dBm, 6 dB per unit). Below S9 the reading is
@@ -87,18 +69,4 @@ func SMeter(dBm float64) string {
 		return "S9"
 	}
 	return fmt.Sprintf("S9+%gdB", over)
-}
-
-// Thermal noise constants: Boltzmann's constant (exact in the 2019 SI) and
-// the standard reference temperature T0 = 290 K.
-const (
-	BoltzmannJPerK = 1.380649e-23
-	T0K            = 290.0
-)
-
-// ThermalNoiseDBm returns the noise floor of a receiver in dBm: k T0 B
-// referred to 1 mW (−173.98 dBm/Hz, the "−174 dBm/Hz" of the trade) plus
-// 10 log10 of the bandwidth in Hz plus the noise figure in dB.
-func ThermalNoiseDBm(bandwidthHz, noiseFigureDB float64) float64 {
-	return DBmFromW(BoltzmannJPerK*T0K*bandwidthHz) + noiseFigureDB
 }

@@ -5,8 +5,8 @@
 // (LAT,LON in decimal degrees on WGS84, returned as orb.Point{lon, lat}).
 // It also holds the decibel arithmetic every other package shares: dBm and
 // watts, microvolts across a 50 Ω receiver input, dBi and dBd, S-meter
-// readings and the thermal noise floor, and the text formatting of lengths,
-// heights, powers and frequencies.
+// readings, and the text formatting of lengths, heights, powers and
+// frequencies.
 //
 // Representation: every parser returns a plain float64 in one fixed unit,
 // and the unit is part of the function name (ParseLengthM returns metres,

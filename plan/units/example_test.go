@@ -55,8 +55,3 @@ func ExampleParsePoint() {
 	fmt.Printf("lat %.2f°, lon %.2f°\n", p.Lat(), p.Lon())
 	// Output: lat 46.25°, lon 7.50°
 }
-
-func ExampleThermalNoiseDBm() {
-	fmt.Printf("12.5 kHz channel, 6 dB noise figure: %.1f dBm\n", units.ThermalNoiseDBm(12.5e3, 6))
-	// Output: 12.5 kHz channel, 6 dB noise figure: -127.0 dBm
-}
