@@ -1,60 +1,6 @@
 package plan
 
-// Link-budget units and arithmetic: dBm, watts and microvolts, antenna gain
-// references, EIRP, received level and margin, S-meter readings and the
-// thermal noise floor.
-
-import (
-	"fmt"
-	"math"
-)
-
-// DipoleGainDBi is the gain of a half-wave dipole over an isotropic
-// radiator, 2.15 dB (numeric gain 1.64), the reference of dBd figures
-// (FCC OET Bulletin 65, ed. 97-01).
-const DipoleGainDBi = 2.15
-
-// DBiFromDBd converts a gain referred to a half-wave dipole (dBd) to one
-// referred to an isotropic radiator (dBi): dBi = dBd + 2.15 (OET Bulletin 65).
-func DBiFromDBd(dBd float64) float64 { return dBd + DipoleGainDBi }
-
-// DBdFromDBi converts a gain in dBi to dBd: dBd = dBi − 2.15 (OET Bulletin 65).
-func DBdFromDBi(dBi float64) float64 { return dBi - DipoleGainDBi }
-
-// DBmFromW converts watts to dBm, 10 log10(P / 1 mW). Zero gives −Inf,
-// a negative power NaN.
-func DBmFromW(w float64) float64 { return 10*math.Log10(w) + 30 }
-
-// WFromDBm converts dBm to watts, 1 mW · 10^(dBm/10).
-func WFromDBm(dBm float64) float64 { return math.Pow(10, (dBm-30)/10) }
-
-// ReceiverInputOhms is the input resistance that microvolt figures of
-// receiver sensitivity refer to, 50 Ω.
-const ReceiverInputOhms = 50
-
-// microvoltRefDBm is the level of 1 µV across ReceiverInputOhms:
-// P = V²/R = (1e-6 V)² / 50 Ω = 2e-14 W = −106.9897 dBm.
-var microvoltRefDBm = DBmFromW(1e-12 / ReceiverInputOhms)
-
-// DBmFromMicrovolts converts a voltage across a 50 Ω receiver input (the
-// potential difference, "pd") in µV to dBm, from P = V²/R:
-// dBm = 20 log10(µV) − 106.99. Zero gives −Inf.
-func DBmFromMicrovolts(uV float64) float64 { return 20*math.Log10(uV) + microvoltRefDBm }
-
-// MicrovoltsFromDBm converts dBm to the voltage across a 50 Ω input in µV,
-// the inverse of DBmFromMicrovolts.
-func MicrovoltsFromDBm(dBm float64) float64 { return math.Pow(10, (dBm-microvoltRefDBm)/20) }
-
-// EMFToPDDB is the difference between a sensitivity quoted as source EMF
-// (open-circuit voltage) and the same signal quoted as the voltage across
-// the matched load: the load sees half the EMF, 20 log10 2 = 6.02 dB.
-var EMFToPDDB = 20 * math.Log10(2)
-
-// DBmFromMicrovoltsEMF converts a sensitivity quoted as EMF of a matched
-// 50 Ω source, in µV, to the power available at the receiver in dBm: half
-// the EMF appears across the load, so the result is 6.02 dB below
-// DBmFromMicrovolts of the same figure.
-func DBmFromMicrovoltsEMF(uV float64) float64 { return DBmFromMicrovolts(uV) - EMFToPDDB }
+// The link budget: EIRP, received level and margin.
 
 // EIRPDBm returns the effective isotropically radiated power in dBm: the
 // transmitter output (dBm) less the whole feedline loss (dB) plus the
@@ -94,52 +40,4 @@ func (b LinkBudget) Levels() LinkLevels {
 	eirp := EIRPDBm(b.TxPowerDBm, b.TxFeedlineLossDB, b.TxGainDBi)
 	rx := eirp - b.PathLossDB + b.RxGainDBi - b.RxFeedlineLossDB
 	return LinkLevels{EIRPDBm: eirp, RxPowerDBm: rx, MarginDB: rx - b.RxSensitivityDBm}
-}
-
-// S-meter calibration above 30 MHz, IARU Region 1 Technical Recommendation
-// R.1 (from memory): S9 is −93 dBm (5 µV across 50 Ω) and one S-unit is 6 dB.
-const (
-	S9VHFDBm  = -93.0
-	SUnitDB   = 6.0
-	s1VHFDBm  = S9VHFDBm - 8*SUnitDB // −141 dBm
-	maxSUnits = 9
-)
-
-// SMeterLevelDBm returns the level in dBm of S-unit n (1..9) on a meter
-// calibrated for use above 30 MHz (IARU Region 1 R.1): −93 − 6 (9 − n).
-func SMeterLevelDBm(n int) float64 { return S9VHFDBm - SUnitDB*float64(maxSUnits-n) }
-
-// SMeter renders a received level in dBm as an S-meter reading above 30 MHz
-// (IARU Region 1 R.1: S9 = −93 dBm, 6 dB per unit). Below S9 the reading is
-// the highest S-unit the level reaches ("S7" from −105 dBm up to just below
-// −99 dBm); from S9 up it is "S9" or "S9+NdB" with N rounded to whole dB;
-// below −141 dBm (S1) it is "below S1". NaN gives "".
-func SMeter(dBm float64) string {
-	switch {
-	case math.IsNaN(dBm):
-		return ""
-	case dBm < s1VHFDBm:
-		return "below S1"
-	case dBm < S9VHFDBm:
-		return fmt.Sprintf("S%d", 1+int(math.Floor((dBm-s1VHFDBm)/SUnitDB)))
-	}
-	over := math.Round(dBm - S9VHFDBm)
-	if over == 0 {
-		return "S9"
-	}
-	return fmt.Sprintf("S9+%gdB", over)
-}
-
-// Thermal noise constants: Boltzmann's constant (exact in the 2019 SI) and
-// the standard reference temperature T0 = 290 K.
-const (
-	BoltzmannJPerK = 1.380649e-23
-	T0K            = 290.0
-)
-
-// ThermalNoiseDBm returns the noise floor of a receiver in dBm: k T0 B
-// referred to 1 mW (−173.98 dBm/Hz, the "−174 dBm/Hz" of the trade) plus
-// 10 log10 of the bandwidth in Hz plus the noise figure in dB.
-func ThermalNoiseDBm(bandwidthHz, noiseFigureDB float64) float64 {
-	return DBmFromW(BoltzmannJPerK*T0K*bandwidthHz) + noiseFigureDB
 }

@@ -5,19 +5,8 @@ import (
 	"fmt"
 	"sort"
 
-	"github.com/mastlink/mastlink/propagation"
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/terrain"
-)
-
-// Link directions. A repeater's talk-in is the station transmitting on the
-// repeater's listen frequency; its talk-out is the repeater transmitting on
-// its transmit frequency. Simplex targets are checked out (station
-// transmitting) and back (target transmitting) on one frequency.
-const (
-	DirTalkIn  = "talk-in"
-	DirTalkOut = "talk-out"
-	DirOut     = "out"
-	DirBack    = "back"
 )
 
 // StationSummary is a station as the plan result lists it.
@@ -42,7 +31,7 @@ type StationExposure struct {
 	Station string  `json:"station"`
 	Lat     float64 `json:"lat"`
 	Lon     float64 `json:"lon"`
-	ExposureReport
+	exposure.Report
 }
 
 // PlanResult is the outcome of a whole plan.
@@ -66,11 +55,7 @@ type Progress func(done, total int)
 // NewEnv returns the link environment a plan asks for over the given
 // terrain (nil for a smooth earth).
 func (p *Plan) NewEnv(ts *terrain.Set) *Env {
-	env := &Env{Terrain: ts, K: p.K, Vertical: p.Vertical, Sea: p.Sea, SigmaDB: p.Require.SigmaDB}
-	if p.Model == "free-space" {
-		env.Model = propagation.FreeSpace{}
-	}
-	return env
+	return &Env{Terrain: ts, Model: p.Model, K: p.K, Polarization: p.Polarization, Ground: p.Ground, SigmaDB: p.Require.SigmaDB}
 }
 
 // EvaluatePlan evaluates every station against every target in both
@@ -147,30 +132,19 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 // (station at g.From): talk-in and talk-out for a repeater, out and back
 // for a simplex target, each judged against the needed margin.
 func (e *Env) targetLinks(g *Geometry, st End, tg Target, needDB float64) ([]LinkResult, error) {
-	type leg struct {
-		dir      string
-		freq     float64
-		stationT bool // the station transmits
-	}
-	var legs []leg
-	if tg.Kind == Repeater {
-		legs = []leg{{DirTalkIn, tg.ListenMHz, true}, {DirTalkOut, tg.TransmitMHz, false}}
-	} else {
-		legs = []leg{{DirOut, tg.FreqMHz, true}, {DirBack, tg.FreqMHz, false}}
-	}
 	out := make([]LinkResult, 0, 2)
-	for _, l := range legs {
+	for _, d := range tg.directions() {
 		var r LinkResult
 		var err error
-		if l.stationT {
-			r, err = e.Evaluate(g, st, tg.End, l.freq, true)
+		if d.nearTx {
+			r, err = e.Evaluate(g, st, tg.End, d.freqMHz, true)
 		} else {
-			r, err = e.Evaluate(g, tg.End, st, l.freq, false)
+			r, err = e.Evaluate(g, tg.End, st, d.freqMHz, false)
 		}
 		if err != nil {
 			return nil, fmt.Errorf("%s → %s: %w", st.Name, tg.Name, err)
 		}
-		r.Direction = l.dir
+		r.Direction = d.name
 		n := needDB
 		ok := r.MarginDB >= n
 		r.NeededMarginDB, r.MeetsRequirement = &n, &ok
@@ -185,11 +159,7 @@ func (e *Env) targetLinks(g *Geometry, st End, tg Target, needDB float64) ([]Lin
 func stationExposure(p *Plan, st Station) (StationExposure, error) {
 	freqs := map[float64]bool{}
 	for _, t := range p.Targets {
-		if t.Kind == Repeater {
-			freqs[t.ListenMHz] = true
-		} else {
-			freqs[t.FreqMHz] = true
-		}
+		freqs[t.directions()[0].freqMHz] = true // the station transmits
 	}
 	if len(freqs) == 0 && p.FreqMHz > 0 {
 		freqs[p.FreqMHz] = true
@@ -199,7 +169,7 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 		list = append(list, f)
 	}
 	sort.Float64s(list)
-	var best ExposureReport
+	var best exposure.Report
 	found := false
 	for _, f := range list {
 		in := st.Exposure
@@ -209,7 +179,7 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 			return StationExposure{}, err
 		}
 		in.FeedlineLossDB = fl.TotalLossDB
-		r, err := EvaluateExposure(in)
+		r, err := exposure.Evaluate(in)
 		if err != nil {
 			return StationExposure{}, err
 		}
@@ -220,5 +190,5 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 	if !found {
 		return StationExposure{}, fmt.Errorf("no transmit frequency: give the plan a frequency")
 	}
-	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), ExposureReport: best}, nil
+	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), Report: best}, nil
 }

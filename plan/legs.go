@@ -3,7 +3,40 @@ package plan
 import (
 	"fmt"
 	"math"
+	"slices"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
+
+// Link directions. A repeater's talk-in is the station transmitting on the
+// repeater's listen frequency; its talk-out is the repeater transmitting on
+// its transmit frequency. Simplex targets are checked out (station
+// transmitting) and back (target transmitting) on one frequency.
+const (
+	DirTalkIn  = "talk-in"
+	DirTalkOut = "talk-out"
+	DirOut     = "out"
+	DirBack    = "back"
+)
+
+// direction is one way of the link between a near end (a station, a
+// walker, a candidate site) and a target.
+type direction struct {
+	name    string  // DirTalkIn, DirTalkOut, DirOut or DirBack
+	freqMHz float64 // MHz
+	nearTx  bool    // the near end transmits
+}
+
+// directions returns the two ways t is checked, in the order every report
+// lists them: talk-in then talk-out for a repeater, out then back for a
+// simplex target. In the first the near end transmits, in the second the
+// target. This is the one place a target's directions are built.
+func (t Target) directions() [2]direction {
+	if t.Kind == Repeater {
+		return [2]direction{{DirTalkIn, t.ListenMHz, true}, {DirTalkOut, t.TransmitMHz, false}}
+	}
+	return [2]direction{{DirOut, t.FreqMHz, true}, {DirBack, t.FreqMHz, false}}
+}
 
 // leg is one direction of the link between a moving or candidate end (the
 // "near" end, at the start of the Geometry) and a target, with every budget
@@ -11,9 +44,7 @@ import (
 // route or a site ranking then cost one profile and one path loss per
 // distinct frequency each.
 type leg struct {
-	dir       string     // DirTalkIn, DirTalkOut, DirOut or DirBack
-	freqMHz   float64    // MHz
-	nearTx    bool       // the near end transmits
+	direction
 	budget    LinkBudget // PathLossDB left 0
 	lossIndex int        // index into targetLegs.freqsMHz
 }
@@ -26,53 +57,38 @@ type targetLegs struct {
 	freqsMHz []float64
 }
 
-// newTargetLegs prepares the legs between near and t as targetLinks
-// orders them: talk-in then talk-out for a repeater, out then back for a
-// simplex target. Feedline losses are computed here once.
+// newTargetLegs prepares the legs between near and t in the order of
+// Target.directions. Feedline losses are computed here once.
 func newTargetLegs(near End, t Target) (targetLegs, error) {
-	type spec struct {
-		dir    string
-		freq   float64
-		nearTx bool
-	}
-	specs := []spec{{DirOut, t.FreqMHz, true}, {DirBack, t.FreqMHz, false}}
-	if t.Kind == Repeater {
-		specs = []spec{{DirTalkIn, t.ListenMHz, true}, {DirTalkOut, t.TransmitMHz, false}}
-	}
 	tl := targetLegs{target: t}
-	for _, s := range specs {
-		if !(s.freq > 0) {
+	for _, d := range t.directions() {
+		if !(d.freqMHz > 0) {
 			return targetLegs{}, fmt.Errorf("%s: no frequency given", t.Name)
 		}
 		tx, rx := near, t.End
-		if !s.nearTx {
+		if !d.nearTx {
 			tx, rx = t.End, near
 		}
-		txFL, err := tx.Feedline.Loss(s.freq)
+		txFL, err := tx.Feedline.Loss(d.freqMHz)
 		if err != nil {
 			return targetLegs{}, fmt.Errorf("%s: feedline: %w", tx.Name, err)
 		}
-		rxFL, err := rx.Feedline.Loss(s.freq)
+		rxFL, err := rx.Feedline.Loss(d.freqMHz)
 		if err != nil {
 			return targetLegs{}, fmt.Errorf("%s: feedline: %w", rx.Name, err)
 		}
-		l := leg{dir: s.dir, freqMHz: s.freq, nearTx: s.nearTx, budget: LinkBudget{
-			TxPowerDBm:       DBmFromW(tx.Radio.PowerW),
+		l := leg{direction: d, budget: LinkBudget{
+			TxPowerDBm:       units.DBmFromW(tx.Radio.PowerW),
 			TxFeedlineLossDB: txFL.TotalLossDB,
 			TxGainDBi:        tx.Antenna.GainDBi,
 			RxGainDBi:        rx.Antenna.GainDBi,
 			RxFeedlineLossDB: rxFL.TotalLossDB,
 			RxSensitivityDBm: rx.Radio.SensitivityDBm,
 		}}
-		l.lossIndex = -1
-		for i, f := range tl.freqsMHz {
-			if f == s.freq {
-				l.lossIndex = i
-			}
-		}
+		l.lossIndex = slices.Index(tl.freqsMHz, d.freqMHz)
 		if l.lossIndex < 0 {
 			l.lossIndex = len(tl.freqsMHz)
-			tl.freqsMHz = append(tl.freqsMHz, s.freq)
+			tl.freqsMHz = append(tl.freqsMHz, d.freqMHz)
 		}
 		tl.legs = append(tl.legs, l)
 	}

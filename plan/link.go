@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
@@ -20,12 +22,15 @@ type Env struct {
 	// Model computes path loss; nil means propagation.Terrain
 	// (ITU-R P.526-16 delta-Bullington).
 	Model propagation.Model
-	// K is the effective earth-radius factor; 0 means 4/3.
+	// K is the effective earth-radius factor; 0 means
+	// propagation.DefaultKFactor (4/3).
 	K float64
-	// Vertical selects vertical polarization (the usual for VHF/UHF FM).
-	Vertical bool
-	// Sea selects sea ground constants instead of land (ITU-R P.1812-8 §4.3.3).
-	Sea bool
+	// Polarization of the wave; the zero value is propagation.Vertical,
+	// the usual for VHF/UHF FM.
+	Polarization propagation.Polarization
+	// Ground holds the ground constants for smooth-earth diffraction; the
+	// zero value means propagation.Land (ITU-R P.1812-8 §4.3.3).
+	Ground propagation.Ground
 	// StepM is the profile sample spacing in metres; 0 follows the DEM.
 	StepM float64
 	// SigmaDB is the location variability σ in dB used for the probability
@@ -183,7 +188,7 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 	}
 	txLine, rxLine := txFL.TotalLossDB, rxFL.TotalLossDB
 	b := LinkBudget{
-		TxPowerDBm:       DBmFromW(tx.Radio.PowerW),
+		TxPowerDBm:       units.DBmFromW(tx.Radio.PowerW),
 		TxFeedlineLossDB: txLine,
 		TxGainDBi:        tx.Antenna.GainDBi,
 		PathLossDB:       loss.PathLossDB,
@@ -243,21 +248,39 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.Result, error) {
 	k := e.K
 	if k == 0 {
-		k = DefaultK
+		k = propagation.DefaultKFactor
 	}
 	prm := propagation.Params{
 		FreqMHz:       freqMHz,
 		TxHeightM:     hFromM,
 		RxHeightM:     hToM,
 		EarthRadiusKM: propagation.EffectiveEarthRadiusKM(k),
-		Polarization:  propagation.Horizontal,
-		Ground:        propagation.Land,
-	}
-	if e.Vertical {
-		prm.Polarization = propagation.Vertical
-	}
-	if e.Sea {
-		prm.Ground = propagation.Sea
+		Polarization:  e.Polarization,
+		Ground:        e.Ground,
 	}
 	return e.model().Loss(g.path, prm)
+}
+
+// ParsePolarization returns the polarization named by s: "vertical" or
+// "horizontal" (case and surrounding space ignored).
+func ParsePolarization(s string) (propagation.Polarization, error) {
+	for _, p := range []propagation.Polarization{propagation.Vertical, propagation.Horizontal} {
+		if strings.EqualFold(strings.TrimSpace(s), p.String()) {
+			return p, nil
+		}
+	}
+	return 0, fmt.Errorf("%q is not vertical or horizontal", s)
+}
+
+// ParseGround returns the ground constants named by s: "land"
+// (propagation.Land) or "sea" (propagation.Sea), the two of ITU-R P.1812-8
+// §4.3.3 (case and surrounding space ignored).
+func ParseGround(s string) (propagation.Ground, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "land":
+		return propagation.Land, nil
+	case "sea":
+		return propagation.Sea, nil
+	}
+	return propagation.Ground{}, fmt.Errorf("%q is not land or sea", s)
 }

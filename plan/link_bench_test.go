@@ -3,6 +3,7 @@ package plan
 import (
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -15,9 +16,9 @@ func BenchmarkLink(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	env := &Env{Terrain: ts, Vertical: true, SigmaDB: 5.5}
-	rg8x, _ := LookupCable("RG-8X")
-	tx := End{Name: "base", Pos: orb.Point{-123.8778833, -48.4966558}, Radio: Radio{PowerW: 25, SensitivityDBm: -119}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: NewFeedline(rg8x, 20)}
+	env := &Env{Terrain: ts, SigmaDB: 5.5}
+	rg8x, _ := feedline.LookupCable("RG-8X")
+	tx := End{Name: "base", Pos: orb.Point{-123.8778833, -48.4966558}, Radio: Radio{PowerW: 25, SensitivityDBm: -119}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: feedline.NewLine(rg8x, 20)}
 	rx := End{Name: "team", Pos: orb.Point{-124.1696065, -48.5115380}, Radio: Radio{PowerW: 5, SensitivityDBm: -119}, Antenna: Antenna{HeightM: 1.5}}
 	var g Geometry
 	if err := env.Measure(tx.Pos, rx.Pos, &g); err != nil { // loads the tiles

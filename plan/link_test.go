@@ -8,12 +8,15 @@ import (
 	"path/filepath"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
 
 // writeHGT writes a 3″ SRTM tile (1201×1201 big-endian int16, rows from the
-// north edge; REFERENCES §9) whose height at (row, col) is h(row, col).
+// north edge; NASA SRTM Topography documentation, 2003) whose height at (row, col) is h(row, col).
 func writeHGT(t testing.TB, dir, name string, h func(row, col int) int16) string {
 	t.Helper()
 	const n = 1201
@@ -54,7 +57,7 @@ func TestKnifeEdgeRidge(t *testing.T) {
 	a, b := orb.Point{10.1, 0}, orb.Point{10.2, 0}
 	// Distance along the equator: a·Δλ exactly (WGS84 a = 6 378 137 m).
 	d := 6378137 * 0.1 * math.Pi / 180
-	env := Env{Terrain: ts, Vertical: false, StepM: d/120 + 1e-6}
+	env := Env{Terrain: ts, Polarization: propagation.Horizontal, StepM: d/120 + 1e-6}
 	var g Geometry
 	if err := env.Measure(a, b, &g); err != nil {
 		t.Fatal(err)
@@ -91,12 +94,12 @@ func TestKnifeEdgeRidge(t *testing.T) {
 // line; margin = received − sensitivity) and the free-space loss of ITU-R
 // P.525 (20 log(4πd/λ)) over the geodesic length.
 func TestEvaluateBudget(t *testing.T) {
-	rg8x, err := LookupCable("RG-8X")
+	rg8x, err := feedline.LookupCable("RG-8X")
 	if err != nil {
 		t.Fatal(err)
 	}
-	tx := End{Name: "a", Pos: orb.Point{10, 45}, Radio: Radio{PowerW: 25}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: NewFeedline(rg8x, 20)}
-	rx := End{Name: "b", Pos: orb.Point{10.1, 45.05}, Radio: Radio{SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 6, HeightM: 20}}
+	tx := End{Name: "a", Pos: orb.Point{10, 45}, Radio: Radio{PowerW: 25}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}, Feedline: feedline.NewLine(rg8x, 20)}
+	rx := End{Name: "b", Pos: orb.Point{10.1, 45.05}, Radio: Radio{SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 6, HeightM: 20}}
 	env := Env{Model: nil, SigmaDB: 5.5}
 	var g Geometry
 	if err := env.Measure(tx.Pos, rx.Pos, &g); err != nil {

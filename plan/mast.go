@@ -3,6 +3,8 @@ package plan
 import (
 	"fmt"
 	"math"
+
+	"github.com/mastlink/mastlink/plan/feedline"
 )
 
 // MastRow is one mast height and cable of a sweep.
@@ -77,17 +79,15 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 				if err != nil {
 					return nil, err
 				}
+				if row.FeedlineLossDB == 0 {
+					// The station transmits in the first direction
+					// (Target.directions): its line at that frequency.
+					row.FeedlineLossDB = links[0].TxFeedlineLossDB
+				}
 				for _, l := range links {
 					if l.MarginDB < row.WorstMarginDB {
 						row.WorstMarginDB = l.MarginDB
 						row.WorstLink = fmt.Sprintf("%s (%s)", t.Name, l.Direction)
-					}
-					if row.FeedlineLossDB == 0 {
-						if l.Direction == DirTalkIn || l.Direction == DirOut {
-							row.FeedlineLossDB = l.TxFeedlineLossDB
-						} else {
-							row.FeedlineLossDB = l.RxFeedlineLossDB
-						}
 					}
 				}
 			}
@@ -117,4 +117,16 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 		}
 	}
 	return res, nil
+}
+
+// mastFeedline is the station's line rebuilt for a mast of heightM metres
+// with cable c: as long as the mast plus the run and slack of m, with the
+// station's SWR, connectors and connector loss (as Env.SweepMast builds it).
+func mastFeedline(station feedline.Line, c feedline.Cable, heightM float64, m *MastSweep) feedline.Line {
+	fl := feedline.NewLine(c, heightM+m.RunM+m.SlackM)
+	fl.SWR, fl.Connectors = station.SWR, station.Connectors
+	if station.ConnectorLossDB > 0 {
+		fl.ConnectorLossDB = station.ConnectorLossDB
+	}
+	return fl
 }

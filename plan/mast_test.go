@@ -4,6 +4,8 @@ import (
 	"math"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -19,7 +21,7 @@ func TestSweepProperties(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	env := &Env{Terrain: ts, Vertical: true}
+	env := &Env{Terrain: ts}
 	st := Station{End: End{Name: "s", Pos: orb.Point{7.1, 45.1}, Radio: Radio{PowerW: 25, SensitivityDBm: -119}, Antenna: Antenna{GainDBi: 2.15}}}
 	tg := Target{End: End{Name: "t", Pos: orb.Point{7.35, 45.3}, Radio: Radio{PowerW: 5, SensitivityDBm: -119}, Antenna: Antenna{HeightM: 1.5}}, FreqMHz: 146.55}
 	var g Geometry
@@ -40,11 +42,11 @@ func TestSweepProperties(t *testing.T) {
 		}
 		prevClear, prevLoss = r.WorstClearanceF1, r.PathLossDB
 	}
-	for _, c := range Cables() {
+	for _, c := range feedline.Cables() {
 		for _, f := range []float64{50, 146, 440, 900} {
 			prev := -1.0
 			for l := 0.0; l <= 100; l += 2.5 {
-				fl := NewFeedline(c, l)
+				fl := feedline.NewLine(c, l)
 				fl.SWR = 1.5
 				loss, err := fl.Loss(f)
 				if err != nil {
@@ -57,9 +59,9 @@ func TestSweepProperties(t *testing.T) {
 			}
 		}
 	}
-	rg58, _ := LookupCable("RG-58")
-	rg213, _ := LookupCable("RG-213")
-	m := &MastSweep{Heights: LengthRange{FromM: 2, ToM: 12, StepM: 2}, Cables: []Cable{rg58, rg213}, RunM: 10, SlackM: 1}
+	rg58, _ := feedline.LookupCable("RG-58")
+	rg213, _ := feedline.LookupCable("RG-213")
+	m := &MastSweep{Heights: units.LengthRange{FromM: 2, ToM: 12, StepM: 2}, Cables: []feedline.Cable{rg58, rg213}, RunM: 10, SlackM: 1}
 	res, err := env.SweepMast(st, []Target{tg}, m, Requirement{MarginDB: 10})
 	if err != nil {
 		t.Fatal(err)

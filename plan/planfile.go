@@ -4,12 +4,17 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
-	"time"
 
+	"github.com/mastlink/mastlink/plan/exposure"
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"go.yaml.in/yaml/v3"
@@ -24,7 +29,7 @@ type PlanError struct {
 	File  string
 	Line  int
 	Field string // e.g. "stations[0].feedline.cable"; "" for the document
-	Err   error  // what is wrong, often a *QuantityError or a catalog error
+	Err   error  // what is wrong, often a *units.QuantityError or a catalog error
 }
 
 // Error renders "plan.yaml:14: feedline.cable: unknown cable …".
@@ -44,108 +49,6 @@ func (e *PlanError) Error() string {
 
 // Unwrap returns both ErrPlanFile and the underlying cause.
 func (e *PlanError) Unwrap() []error { return []error{ErrPlanFile, e.Err} }
-
-// Requirement is what every required link must meet.
-type Requirement struct {
-	MarginDB    float64 // fade margin over the receiver sensitivity, dB
-	Reliability float64 // fraction of locations, 0 when not asked
-	SigmaDB     float64 // location variability σ used with Reliability, dB
-}
-
-// NeededMarginDB returns the margin a link needs: the larger of MarginDB and
-// the margin that gives Reliability with a log-normal location variability
-// of SigmaDB (ITU-R P.1812-8 §4.8, eq. 69: M = σ·I(1 − p)).
-func (r Requirement) NeededMarginDB() float64 {
-	m := r.MarginDB
-	if r.Reliability > 0 && r.SigmaDB > 0 {
-		if need := propagation.MarginForReliabilityDB(r.Reliability, r.SigmaDB); need > m {
-			m = need
-		}
-	}
-	return m
-}
-
-// Station is a place the team sets up: its kit and exposure habits.
-type Station struct {
-	End
-	// Exposure holds the station's operating habits for the RF-exposure
-	// evaluation (mode, time on the air, standard, head height, ground
-	// reflection); power, gain, feedline, frequency and height are filled
-	// in from the station when it is evaluated.
-	Exposure ExposureInput
-	line     int
-}
-
-// TargetKind says how a target's links are checked.
-type TargetKind int
-
-// Kinds of target.
-const (
-	// Simplex targets talk and listen on one frequency; checked both ways.
-	Simplex TargetKind = iota
-	// Repeater targets listen on one frequency and transmit on another:
-	// talk-in is checked on ListenMHz with the station transmitting,
-	// talk-out on TransmitMHz with the repeater transmitting.
-	Repeater
-)
-
-// Target is a place the stations must reach.
-type Target struct {
-	End
-	Kind        TargetKind
-	FreqMHz     float64 // simplex frequency
-	ListenMHz   float64 // repeater input (the station transmits here)
-	TransmitMHz float64 // repeater output (the station listens here)
-	Optional    bool    // reported but not part of the requirement
-	line        int
-}
-
-// MastSweep asks for the lowest mast and lightest cable that meet the
-// requirement.
-type MastSweep struct {
-	Heights LengthRange
-	Cables  []Cable // from the catalog, or described by the user
-	RunM    float64 // cable from the mast foot to the radio, metres
-	SlackM  float64 // extra cable for drip loops and the mast head, metres
-}
-
-// Plan is a parsed, validated plan file with every name resolved.
-type Plan struct {
-	Path       string // the plan file as given
-	Name       string
-	FreqMHz    float64
-	Terrain    []string // DEM directories or files, resolved against the plan's folder
-	TerrainAt  int      // line of the terrain field, for errors about missing tiles
-	Waypoints  *GPXFile // nil when the plan names none
-	Require    Requirement
-	K          float64 // effective earth-radius factor
-	Model      string  // "terrain" or "free-space"
-	Vertical   bool    // polarization
-	Sea        bool    // ground constants
-	Stations   []Station
-	Targets    []Target
-	Mast       *MastSweep
-	Routes     []string // GPX files with tracks, resolved
-	Sites      []string // GPX files with candidate waypoints, resolved
-	InputFiles []string // every file the plan reads, for output guards
-
-	// Defaults is the kit under `defaults:` (a handheld: 0 dBi at 1.5 m
-	// unless the plan says otherwise; no radio unless it gives one), the
-	// kit carried along routes. Its Name and Pos are empty.
-	Defaults End
-}
-
-// Defaults used where a plan file does not say.
-const (
-	DefaultK       = 4.0 / 3.0 // ITU-R P.530-19 §2.2 (median, no local data)
-	DefaultSigmaDB = 5.5       // ITU-R P.1812-8 Table 6 location variability
-)
-
-// LineOf returns the plan-file line where the station was defined.
-func (s Station) LineOf() int { return s.line }
-
-// LineOf returns the plan-file line where the target was defined.
-func (t Target) LineOf() int { return t.line }
 
 // ReadPlan reads and validates the plan file at path. Every error is a
 // *PlanError naming the file, line and field and saying what would fix it.
@@ -320,7 +223,8 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	pl := &Plan{Path: p.file, K: DefaultK, Model: "terrain", Vertical: true, InputFiles: []string{p.file}}
+	pl := &Plan{Path: p.file, K: propagation.DefaultKFactor, Model: propagation.Terrain{}, Polarization: propagation.Vertical,
+		Ground: propagation.Land, InputFiles: []string{p.file}}
 	p.plan = pl
 	pl.Require.SigmaDB = DefaultSigmaDB
 
@@ -330,7 +234,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 	}
 	if n := f["frequency"]; n != nil {
-		if pl.FreqMHz, err = p.quantity(n, "frequency", ParseFreqMHz); err != nil {
+		if pl.FreqMHz, err = p.quantity(n, "frequency", units.ParseFreqMHz); err != nil {
 			return nil, err
 		}
 	}
@@ -350,7 +254,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		g, err := ReadGPX(wp)
+		g, err := gpx.Read(wp)
 		if err != nil {
 			return nil, p.wrap(n, "waypoints", err)
 		}
@@ -363,28 +267,36 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 	}
 	if n := f["k"]; n != nil {
-		if pl.K, err = p.quantity(n, "k", parseK); err != nil {
+		if pl.K, err = p.quantity(n, "k", units.ParseKFactor); err != nil {
 			return nil, err
 		}
 	}
 	if n := f["model"]; n != nil {
-		if pl.Model, err = p.choice(n, "model", "terrain", "free-space"); err != nil {
+		name, err := p.scalar(n, "model")
+		if err != nil {
 			return nil, err
+		}
+		if pl.Model, err = propagation.ModelByName(name); err != nil {
+			return nil, p.wrap(n, "model", err)
 		}
 	}
 	if n := f["polarization"]; n != nil {
-		v, err := p.choice(n, "polarization", "vertical", "horizontal")
+		s, err := p.scalar(n, "polarization")
 		if err != nil {
 			return nil, err
 		}
-		pl.Vertical = v == "vertical"
+		if pl.Polarization, err = ParsePolarization(s); err != nil {
+			return nil, p.wrap(n, "polarization", err)
+		}
 	}
 	if n := f["ground"]; n != nil {
-		v, err := p.choice(n, "ground", "land", "sea")
+		s, err := p.scalar(n, "ground")
 		if err != nil {
 			return nil, err
 		}
-		pl.Sea = v == "sea"
+		if pl.Ground, err = ParseGround(s); err != nil {
+			return nil, p.wrap(n, "ground", err)
+		}
 	}
 	def := kit{antenna: Antenna{GainDBi: 0, HeightM: 1.5}} // a handheld at chest height; radios must be given
 	if n := f["defaults"]; n != nil {
@@ -392,7 +304,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 			return nil, err
 		}
 	}
-	pl.Defaults = End{Radio: def.radio, Antenna: def.antenna, Feedline: def.feedline}
+	pl.Defaults = End{Radio: def.radio, Antenna: def.antenna, Feedline: def.line}
 	n := f["stations"]
 	if n == nil || n.Kind != yaml.SequenceNode || len(n.Content) == 0 {
 		return nil, p.errf(orNode(n, root), "stations", "the plan needs at least one station (a list of name, at, radio, antenna, feedline)")
@@ -497,64 +409,52 @@ func (p *planParser) choice(n *yaml.Node, field string, options ...string) (stri
 	return "", p.errf(n, field, "%q is not one of %s", s, strings.Join(options, ", "))
 }
 
-// parseK parses an effective earth-radius factor: a number such as 1.333 or
-// a fraction such as 4/3, between 0.5 and 10.
-func parseK(s string) (float64, error) {
-	var k float64
-	if a, b, ok := strings.Cut(s, "/"); ok {
-		x, e1 := strconv.ParseFloat(strings.TrimSpace(a), 64)
-		y, e2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
-		if e1 != nil || e2 != nil || y == 0 {
-			return 0, fmt.Errorf("%q is not a k-factor (write e.g. 4/3 or 1.333)", s)
-		}
-		k = x / y
-	} else {
-		x, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			return 0, fmt.Errorf("%q is not a k-factor (write e.g. 4/3 or 1.333)", s)
-		}
-		k = x
-	}
-	if !(k >= 0.5 && k <= 10) {
-		return 0, fmt.Errorf("k-factor %g is outside 0.5 to 10 (4/3 is the usual median)", k)
-	}
-	return k, nil
-}
-
+// require reads require: with RequirementOptions, the parser the commands
+// use too.
 func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 	f, err := p.fields(n, "require", "margin", "reliability", "sigma")
 	if err != nil {
 		return err
 	}
-	if c := f["margin"]; c != nil {
-		if r.MarginDB, err = p.quantity(c, "require.margin", ParseLossDB); err != nil {
-			return err
-		}
+	text, err := p.texts(f, "require")
+	if err != nil {
+		return err
 	}
-	if c := f["reliability"]; c != nil {
-		if r.Reliability, err = p.quantity(c, "require.reliability", ParseRatio); err != nil {
-			return err
+	o := RequirementOptions{Margin: text["margin"], Reliability: text["reliability"], Sigma: text["sigma"]}
+	return p.options(n, "require", f, o.Apply(r))
+}
+
+// texts returns the scalar text of every value in f, by key.
+func (p *planParser) texts(f map[string]*yaml.Node, field string) (map[string]string, error) {
+	text := make(map[string]string, len(f))
+	for _, key := range slices.Sorted(maps.Keys(f)) { // the same error first every time
+		s, err := p.scalar(f[key], joinField(field, key))
+		if err != nil {
+			return nil, err
 		}
-		if !(r.Reliability > 0 && r.Reliability < 1) {
-			return p.errf(c, "require.reliability", "must be above 0%% and below 100%% (e.g. 90%%)")
-		}
+		text[key] = s
 	}
-	if c := f["sigma"]; c != nil {
-		if r.SigmaDB, err = p.quantity(c, "require.sigma", ParseLossDB); err != nil {
-			return err
-		}
-		if !(r.SigmaDB > 0) {
-			return p.errf(c, "require.sigma", "must be more than 0 dB (5.5 to 8 dB is usual at VHF/UHF)")
-		}
+	return text, nil
+}
+
+// options turns an error of a group of options parsed together
+// (units.OptionError) into a *PlanError at the option's own line.
+func (p *planParser) options(n *yaml.Node, field string, f map[string]*yaml.Node, err error) error {
+	if err == nil {
+		return nil
 	}
-	return nil
+	var oe *units.OptionError
+	if errors.As(err, &oe) {
+		return p.wrap(orNode(f[oe.Option], n), joinField(field, oe.Option), oe.Err)
+	}
+	return p.wrap(n, field, err)
 }
 
 // kit is the radio, antenna and feedline an end uses.
 type kit struct {
-	radio    Radio
-	antenna  Antenna
-	feedline Feedline
+	radio   Radio
+	antenna Antenna
+	line    feedline.Line
 }
 
 func (p *planParser) defaults(n *yaml.Node, k *kit) error {
@@ -566,19 +466,18 @@ func (p *planParser) defaults(n *yaml.Node, k *kit) error {
 }
 
 func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
-	var err error
 	if c := f["radio"]; c != nil {
 		rf, err := p.fields(c, joinField(field, "radio"), "power", "sensitivity")
 		if err != nil {
 			return err
 		}
 		if v := rf["power"]; v != nil {
-			if k.radio.PowerW, err = p.quantity(v, joinField(field, "radio.power"), ParsePowerW); err != nil {
+			if k.radio.PowerW, err = p.quantity(v, joinField(field, "radio.power"), units.ParsePowerW); err != nil {
 				return err
 			}
 		}
 		if v := rf["sensitivity"]; v != nil {
-			if k.radio.SensitivityDBm, err = p.quantity(v, joinField(field, "radio.sensitivity"), ParseSensitivityDBm); err != nil {
+			if k.radio.SensitivityDBm, err = p.quantity(v, joinField(field, "radio.sensitivity"), units.ParseSensitivityDBm); err != nil {
 				return err
 			}
 		}
@@ -589,12 +488,12 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			return err
 		}
 		if v := af["gain"]; v != nil {
-			if k.antenna.GainDBi, err = p.quantity(v, joinField(field, "antenna.gain"), ParseGainDBi); err != nil {
+			if k.antenna.GainDBi, err = p.quantity(v, joinField(field, "antenna.gain"), units.ParseGainDBi); err != nil {
 				return err
 			}
 		}
 		if v := af["height"]; v != nil {
-			if k.antenna.HeightM, err = p.quantity(v, joinField(field, "antenna.height"), ParseLengthM); err != nil {
+			if k.antenna.HeightM, err = p.quantity(v, joinField(field, "antenna.height"), units.ParseLengthM); err != nil {
 				return err
 			}
 		}
@@ -609,17 +508,17 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			if err != nil {
 				return err
 			}
-			c, err := ResolveCable(name)
+			c, err := feedline.ResolveCable(name)
 			if err != nil {
 				return p.wrap(v, joinField(field, "feedline.cable"), err)
 			}
-			k.feedline.Cable = c
-			if k.feedline.ConnectorLossDB == 0 {
-				k.feedline.ConnectorLossDB = DefaultConnectorLossDB
+			k.line.Cable = c
+			if k.line.ConnectorLossDB == 0 {
+				k.line.ConnectorLossDB = feedline.DefaultConnectorLossDB
 			}
 		}
 		if v := ff["length"]; v != nil {
-			if k.feedline.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), ParseLengthM); err != nil {
+			if k.line.LengthM, err = p.quantity(v, joinField(field, "feedline.length"), units.ParseLengthM); err != nil {
 				return err
 			}
 		}
@@ -632,15 +531,14 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 			if e != nil || c < 0 || c > 20 {
 				return p.errf(v, joinField(field, "feedline.connectors"), "%q is not a number of connector pairs from 0 to 20", s)
 			}
-			k.feedline.Connectors = c
+			k.line.Connectors = c
 		}
 		if v := ff["swr"]; v != nil {
-			if k.feedline.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), ParseSWR); err != nil {
+			if k.line.SWR, err = p.quantity(v, joinField(field, "feedline.swr"), units.ParseSWR); err != nil {
 				return err
 			}
 		}
 	}
-	_ = err
 	return nil
 }
 
@@ -650,11 +548,11 @@ func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
 	if err != nil {
 		return orb.Point{}, err
 	}
-	pt, perr := ParsePoint(s)
+	pt, perr := units.ParsePoint(s)
 	if perr == nil {
 		return pt, nil
 	}
-	if !errors.Is(perr, ErrSyntax) {
+	if !errors.Is(perr, units.ErrSyntax) {
 		return orb.Point{}, p.wrap(n, field, perr)
 	}
 	if p.plan.Waypoints == nil {
@@ -672,11 +570,11 @@ func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, erro
 	if err != nil {
 		return Station{}, err
 	}
-	st := Station{line: n.Line}
+	st := Station{}
 	if err := p.end(n, f, field, def, &st.End, true); err != nil {
 		return Station{}, err
 	}
-	st.Exposure = ExposureInput{Mode: ModeFM, TxFraction: 0.5, Standard: StandardFCC, HeadHeightM: DefaultHeadHeightM, ReflectionFactor: ReflectionGround}
+	st.Exposure = exposure.Input{Mode: exposure.ModeFM, TxFraction: 0.5, Standard: exposure.StandardFCC, HeadHeightM: exposure.DefaultHeadHeightM, ReflectionFactor: exposure.ReflectionGround}
 	if c := f["exposure"]; c != nil {
 		if err := p.exposure(c, joinField(field, "exposure"), &st.Exposure); err != nil {
 			return Station{}, err
@@ -709,7 +607,7 @@ func (p *planParser) end(n *yaml.Node, f map[string]*yaml.Node, field string, de
 	if needRadio && (k.radio.PowerW == 0 || k.radio.SensitivityDBm == 0) {
 		return p.errf(n, joinField(field, "radio"), "missing: give radio: {power: 5W, sensitivity: 0.25uV} here or under defaults")
 	}
-	e.Radio, e.Antenna, e.Feedline = k.radio, k.antenna, k.feedline
+	e.Radio, e.Antenna, e.Feedline = k.radio, k.antenna, k.line
 	if e.Feedline.Cable.Name != "" && e.Feedline.LengthM == 0 {
 		return p.errf(orNode(f["feedline"], n), joinField(field, "feedline.length"), "missing: a cable needs a length (e.g. length: 15m)")
 	}
@@ -721,7 +619,7 @@ func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error)
 	if err != nil {
 		return Target{}, err
 	}
-	t := Target{line: n.Line}
+	t := Target{}
 	if err := p.end(n, f, field, def, &t.End, true); err != nil {
 		return Target{}, err
 	}
@@ -735,14 +633,14 @@ func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error)
 			return Target{}, p.errf(fr, joinField(field, "frequency"), "give either frequency (simplex) or listen and transmit (repeater), not both")
 		}
 		t.Kind = Repeater
-		if t.ListenMHz, err = p.quantity(l, joinField(field, "listen"), ParseFreqMHz); err != nil {
+		if t.ListenMHz, err = p.quantity(l, joinField(field, "listen"), units.ParseFreqMHz); err != nil {
 			return Target{}, err
 		}
-		if t.TransmitMHz, err = p.quantity(tx, joinField(field, "transmit"), ParseFreqMHz); err != nil {
+		if t.TransmitMHz, err = p.quantity(tx, joinField(field, "transmit"), units.ParseFreqMHz); err != nil {
 			return Target{}, err
 		}
 	case fr != nil:
-		if t.FreqMHz, err = p.quantity(fr, joinField(field, "frequency"), ParseFreqMHz); err != nil {
+		if t.FreqMHz, err = p.quantity(fr, joinField(field, "frequency"), units.ParseFreqMHz); err != nil {
 			return Target{}, err
 		}
 	default:
@@ -761,84 +659,21 @@ func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error)
 	return t, nil
 }
 
-var exposureModes = []string{"fm", "ssb", "ssb-processed", "cw", "digital", "carrier"}
-
-func (p *planParser) exposure(n *yaml.Node, field string, e *ExposureInput) error {
-	f, err := p.fields(n, field, "mode", "duty", "tx_time", "on", "off", "standard", "head_height", "reflection")
+// exposure reads a station's exposure: habits with exposure.Options, the
+// parser the exposure command uses too.
+func (p *planParser) exposure(n *yaml.Node, field string, e *exposure.Input) error {
+	f, err := p.fields(n, field, exposure.OptionKeys...)
 	if err != nil {
 		return err
 	}
-	if c := f["mode"]; c != nil {
-		m, err := p.choice(c, joinField(field, "mode"), exposureModes...)
-		if err != nil {
-			return err
-		}
-		e.Mode = TxMode(m)
+	text, err := p.texts(f, field)
+	if err != nil {
+		return err
 	}
-	if c := f["duty"]; c != nil {
-		if e.DutyFactor, err = p.quantity(c, joinField(field, "duty"), ParseRatio); err != nil {
-			return err
-		}
-		if !(e.DutyFactor > 0 && e.DutyFactor <= 1) {
-			return p.errf(c, joinField(field, "duty"), "give a duty factor above 0 and up to 100%%")
-		}
-	}
-	on, off := f["on"], f["off"]
-	if c := f["tx_time"]; c != nil {
-		if on != nil || off != nil {
-			return p.errf(c, joinField(field, "tx_time"), "give either tx_time or an on/off cycle, not both")
-		}
-		if e.TxFraction, err = p.quantity(c, joinField(field, "tx_time"), ParseRatio); err != nil {
-			return err
-		}
-		if !(e.TxFraction > 0 && e.TxFraction <= 1) {
-			return p.errf(c, joinField(field, "tx_time"), "give a fraction above 0 and up to 100%% of the time")
-		}
-	}
-	if on != nil || off != nil {
-		if on == nil || off == nil {
-			return p.errf(n, field, "a transmit cycle needs both on and off (e.g. on: 2min, off: 2min)")
-		}
-		for _, pair := range []struct {
-			n   *yaml.Node
-			key string
-			dst *time.Duration
-		}{{on, "on", &e.OnTime}, {off, "off", &e.OffTime}} {
-			s, err := p.scalar(pair.n, joinField(field, pair.key))
-			if err != nil {
-				return err
-			}
-			d, err := ParseDuration(s)
-			if err != nil {
-				return p.wrap(pair.n, joinField(field, pair.key), err)
-			}
-			*pair.dst = d
-		}
-		if e.OnTime <= 0 {
-			return p.errf(on, joinField(field, "on"), "the transmit time must be more than 0")
-		}
-		e.TxFraction = 0
-	}
-	if c := f["standard"]; c != nil {
-		v, err := p.choice(c, joinField(field, "standard"), "fcc", "icnirp2020", "icnirp1998")
-		if err != nil {
-			return err
-		}
-		e.Standard = ExposureStandard(v)
-	}
-	if c := f["head_height"]; c != nil {
-		if e.HeadHeightM, err = p.quantity(c, joinField(field, "head_height"), ParseLengthM); err != nil {
-			return err
-		}
-	}
-	if c := f["reflection"]; c != nil {
-		s, err := p.choice(c, joinField(field, "reflection"), "1", "2.56", "4")
-		if err != nil {
-			return err
-		}
-		e.ReflectionFactor, _ = strconv.ParseFloat(s, 64)
-	}
-	return nil
+	o := exposure.Options{Mode: text[exposure.OptMode], Duty: text[exposure.OptDuty], TxTime: text[exposure.OptTxTime],
+		On: text[exposure.OptOn], Off: text[exposure.OptOff], Standard: text[exposure.OptStandard],
+		HeadHeight: text[exposure.OptHeadHeight], Reflection: text[exposure.OptReflection]}
+	return p.options(n, field, f, o.Apply(e))
 }
 
 func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
@@ -855,7 +690,7 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 	if err != nil {
 		return nil, err
 	}
-	if m.Heights, err = ParseLengthRange(s); err != nil {
+	if m.Heights, err = units.ParseLengthRange(s); err != nil {
 		return nil, p.wrap(c, "mast.heights", err)
 	}
 	c = f["cables"]
@@ -871,19 +706,19 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 		if err != nil {
 			return nil, err
 		}
-		c, err := ResolveCable(name)
+		c, err := feedline.ResolveCable(name)
 		if err != nil {
 			return nil, p.wrap(cc, fld, err)
 		}
 		m.Cables = append(m.Cables, c)
 	}
 	if c := f["run"]; c != nil {
-		if m.RunM, err = p.quantity(c, "mast.run", ParseLengthM); err != nil {
+		if m.RunM, err = p.quantity(c, "mast.run", units.ParseLengthM); err != nil {
 			return nil, err
 		}
 	}
 	if c := f["slack"]; c != nil {
-		if m.SlackM, err = p.quantity(c, "mast.slack", ParseLengthM); err != nil {
+		if m.SlackM, err = p.quantity(c, "mast.slack", units.ParseLengthM); err != nil {
 			return nil, err
 		}
 	}

@@ -1,12 +1,19 @@
 package plan
 
 import (
+	"context"
 	"errors"
 	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/mastlink/mastlink/plan/exposure"
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 )
 
 const examplePlan = "../examples/valley/plan.yaml"
@@ -23,7 +30,7 @@ func TestReadExamplePlan(t *testing.T) {
 	if st.Name != "Valley Base" || st.Antenna.HeightM != 9 || st.Feedline.Cable.Name != "RG-8X" || st.Feedline.Connectors != 2 {
 		t.Errorf("station = %+v", st)
 	}
-	// 0.25 µV across 50 Ω = −119.0 dBm (REFERENCES §6, P = V²/R).
+	// 0.25 µV across 50 Ω = −119.0 dBm (P = V²/R, computed).
 	if math.Abs(st.Radio.SensitivityDBm-(-119.04)) > 0.01 {
 		t.Errorf("sensitivity %v dBm", st.Radio.SensitivityDBm)
 	}
@@ -37,7 +44,7 @@ func TestReadExamplePlan(t *testing.T) {
 	if !p.Targets[4].Optional {
 		t.Errorf("hut should be optional")
 	}
-	// σ 5.5 dB and 90 % need 7.05 dB (REFERENCES §5); the 10 dB margin is larger.
+	// σ 5.5 dB and 90 % need 7.05 dB (ITU-R P.1812-8 eq. 69, computed); the 10 dB margin is larger.
 	if got := p.Require.NeededMarginDB(); got != 10 {
 		t.Errorf("needed margin %v", got)
 	}
@@ -46,9 +53,42 @@ func TestReadExamplePlan(t *testing.T) {
 	}
 }
 
+// TestPlanRadioClimate: the model, polarization, ground and k of a plan
+// file arrive in the link environment as propagation's own values.
+func TestPlanRadioClimate(t *testing.T) {
+	doc := "model: Free-Space\npolarization: horizontal\nground: sea\nk: 1\nstations: [{name: a, at: '1,2', radio: {power: 5W, sensitivity: -120dBm}}]\n" +
+		"targets: [{name: b, at: '1.1,2', frequency: 146, radio: {power: 5W, sensitivity: -120dBm}}]\n"
+	p, err := ParsePlan([]byte(doc), "plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	env := p.NewEnv(nil)
+	if _, ok := env.Model.(propagation.FreeSpace); !ok || env.Polarization != propagation.Horizontal || env.Ground != propagation.Sea || env.K != 1 {
+		t.Errorf("env = %+v", env)
+	}
+	res, err := EvaluatePlan(context.Background(), p, env, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range res.Links {
+		if l.Model != "free-space" || l.ExcessLossDB != 0 {
+			t.Errorf("%s → %s ran %q with %v dB excess, want free space", l.From, l.To, l.Model, l.ExcessLossDB)
+		}
+	}
+	// Without those fields: the terrain model, vertical, land, k = 4/3
+	// (ITU-R P.530-19 §2.2).
+	q, err := ParsePlan([]byte(doc[strings.Index(doc, "stations:"):]), "plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, ok := q.Model.(propagation.Terrain); !ok || q.Polarization != propagation.Vertical || q.Ground != propagation.Land || q.K != 4.0/3 {
+		t.Errorf("defaults: %+v", q)
+	}
+}
+
 func TestRequirementReliability(t *testing.T) {
 	// ITU-R P.1812-8 eq. 69 with σ = 8 dB: 90 % needs 10.25 dB, 95 % 13.16 dB
-	// (REFERENCES §5, computed from the published formula).
+	// (computed from the published formula).
 	r := Requirement{MarginDB: 3, Reliability: 0.95, SigmaDB: 8}
 	if got := r.NeededMarginDB(); math.Abs(got-13.16) > 0.01 {
 		t.Errorf("needed margin %v, want 13.16", got)
@@ -75,10 +115,10 @@ func TestBrokenPlans(t *testing.T) {
 		{"bad yaml", "stations: [\n  - name: x\n", "plan.yaml:", nil},
 		{"empty", "", "plan.yaml: the plan is empty", nil},
 		{"unknown field", base(station + "  - name: x\n    colour: red\n"), "plan.yaml:9: stations[1].colour: unknown field", nil},
-		{"unknown cable", base(strings.Replace(station, "    antenna:", "    feedline: {cable: RG-59X, length: 10m}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].feedline.cable: unknown cable "RG-59X" (known: RG-174`, ErrUnknownCable},
-		{"unknown waypoint", base(strings.Replace(station, "Wethermoss Saddle", "Wethermos Sadle", 1) + target), `plan.yaml:5: stations[0].at: unknown waypoint "Wethermos Sadle"`, ErrUnknownWaypoint},
-		{"negative height", base(strings.Replace(station, "height: 9m", "height: -9m", 1) + target), "plan.yaml:7: stations[0].antenna.height:", ErrRange},
-		{"power unit", base(strings.Replace(station, "power: 25W", "power: 25 watts", 1) + target), `plan.yaml:6: stations[0].radio.power: "25 watts": unknown unit`, ErrUnit},
+		{"unknown cable", base(strings.Replace(station, "    antenna:", "    feedline: {cable: RG-59X, length: 10m}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].feedline.cable: unknown cable "RG-59X" (known: RG-174`, feedline.ErrUnknownCable},
+		{"unknown waypoint", base(strings.Replace(station, "Wethermoss Saddle", "Wethermos Sadle", 1) + target), `plan.yaml:5: stations[0].at: unknown waypoint "Wethermos Sadle"`, gpx.ErrUnknownWaypoint},
+		{"negative height", base(strings.Replace(station, "height: 9m", "height: -9m", 1) + target), "plan.yaml:7: stations[0].antenna.height:", units.ErrRange},
+		{"power unit", base(strings.Replace(station, "power: 25W", "power: 25 watts", 1) + target), `plan.yaml:6: stations[0].radio.power: "25 watts": unknown unit`, units.ErrUnit},
 		{"frequency range", "frequency: 146.55THz\n" + station, "plan.yaml:1: frequency:", nil},
 		{"target without radio", base(station + "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n"), "plan.yaml:9: targets[0].radio: missing: give radio:", nil},
 		{"target radio from defaults", base("defaults: {radio: {power: 5W, sensitivity: 0.25uV}}\n" + station + "targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n"), "", nil},
@@ -86,7 +126,16 @@ func TestBrokenPlans(t *testing.T) {
 		{"no stations", base(target), "plan.yaml:1: stations: the plan needs at least one station", nil},
 		{"no targets", base(station), "the plan has no targets", nil},
 		{"repeater half", base(station + "targets:\n  - name: r\n    at: Corvane Peak\n    radio: {power: 50W, sensitivity: -122dBm}\n    listen: 147.78MHz\n"), "plan.yaml:9: targets[0]: a repeater needs both listen and transmit", nil},
-		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", ErrRange},
+		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", units.ErrRange},
+		// The model comes from the propagation registry, whose names the error lists.
+		{"unknown model", base("model: okumura\n" + station + target), `plan.yaml:3: model: propagation: unknown model "okumura" (known: terrain, free-space`, propagation.ErrUnknownModel},
+		{"bad polarization", base("polarization: circular\n" + station + target), `plan.yaml:3: polarization: "circular" is not vertical or horizontal`, nil},
+		{"bad ground", base("ground: swamp\n" + station + target), `plan.yaml:3: ground: "swamp" is not land or sea`, nil},
+		{"bad k", base("k: 20\n" + station + target), `plan.yaml:3: k: "20": k-factor 20 is outside 0.5 to 10`, units.ErrRange},
+		{"reliability 100 %", base("require: {margin: 10dB, reliability: 100%}\n" + station + target), "plan.yaml:3: require.reliability: must be above 0% and below 100%", nil},
+		{"sigma 0 with a reliability", base("require: {reliability: 90%, sigma: 0dB}\n" + station + target), "plan.yaml:3: require.sigma: must be more than 0 dB with a reliability", nil},
+		{"exposure mode", base(strings.Replace(station, "    antenna:", "    exposure: {mode: am}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].exposure.mode: invalid exposure input: unknown mode "am"`, exposure.ErrInput},
+		{"exposure cycle half", base(strings.Replace(station, "    antenna:", "    exposure: {on: 2min}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].exposure.off: invalid exposure input: on and off go together`, exposure.ErrInput},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"strings"
+
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // HandheldName names the plan's default kit (`defaults:`) when it is
@@ -59,7 +61,7 @@ func (p *Plan) ReachTargets(exclude string) []Target {
 		if strings.EqualFold(strings.TrimSpace(s.Name), strings.TrimSpace(exclude)) {
 			continue
 		}
-		out = append(out, Target{End: s.End, Kind: Simplex, FreqMHz: p.FreqMHz, line: s.line})
+		out = append(out, Target{End: s.End, Kind: Simplex, FreqMHz: p.FreqMHz})
 	}
 	return out
 }
@@ -79,7 +81,7 @@ func EvaluatePlanRoutes(ctx context.Context, p *Plan, env *Env, progress Progres
 	targets := p.ReachTargets(walker.Name)
 	var out []RouteResult
 	for _, file := range p.Routes {
-		g, err := ReadGPX(file)
+		g, err := gpx.Read(file)
 		if err != nil {
 			return nil, fmt.Errorf("routes: %w", err)
 		}
@@ -109,9 +111,9 @@ func EvaluatePlanSites(ctx context.Context, p *Plan, env *Env, progress Progress
 	if err != nil {
 		return nil, fmt.Errorf("sites: %w", err)
 	}
-	var cands []Place
+	var cands []gpx.Place
 	for _, file := range p.Sites {
-		g, err := ReadGPX(file)
+		g, err := gpx.Read(file)
 		if err != nil {
 			return nil, fmt.Errorf("sites: %w", err)
 		}

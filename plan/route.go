@@ -8,6 +8,7 @@ import (
 	"sort"
 	"time"
 
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 )
@@ -38,8 +39,8 @@ var ErrNoTargets = errors.New("no required targets")
 // RouteRequest is what Env.Route checks: a track walked with a radio, and
 // the targets to reach from every point of it.
 type RouteRequest struct {
-	Track  Track // a GPX track or route; its points in order
-	Walker End   // the kit carried along the track (Pos is ignored)
+	Track  gpx.Track // a GPX track or route; its points in order
+	Walker End       // the kit carried along the track (Pos is ignored)
 	// Targets are reached in both directions from every point: talk-in
 	// and talk-out for repeaters, out and back for simplex targets.
 	Targets        []Target
@@ -344,7 +345,7 @@ func (r *RouteResult) summarise(legs []targetLegs, window float64) {
 		tl := &legs[t]
 		rt := RouteTarget{Name: tl.target.Name, Optional: tl.target.Optional, BestMarginDB: math.Inf(-1)}
 		for _, l := range tl.legs {
-			rt.Directions = append(rt.Directions, l.dir)
+			rt.Directions = append(rt.Directions, l.name)
 		}
 		ok := func(k int) bool { return pts[k].MarginsDB[t] >= need }
 		m := func(k int) float64 { return pts[k].MarginsDB[t] }

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -42,8 +44,8 @@ func write1sHGT(tb testing.TB, dir, name string, h func(row, col int) int16) {
 // rows widthM long, rowGapM apart, starting at (lat0, lon0) and going
 // north; positions from a local flat approximation (111 320 m per degree
 // of latitude; common practice), which is all a test track needs.
-func serpentine(name string, lat0, lon0 float64, n int, stepM, widthM, rowGapM float64) Track {
-	tr := Track{Name: name, Points: make([]Place, 0, n)}
+func serpentine(name string, lat0, lon0 float64, n int, stepM, widthM, rowGapM float64) gpx.Track {
+	tr := gpx.Track{Name: name, Points: make([]gpx.Place, 0, n)}
 	perRow := int(widthM / stepM)
 	mPerDegLat := 111320.0
 	mPerDegLon := mPerDegLat * math.Cos(lat0*math.Pi/180)
@@ -54,7 +56,7 @@ func serpentine(name string, lat0, lon0 float64, n int, stepM, widthM, rowGapM f
 			x = widthM - x
 		}
 		y := float64(row) * rowGapM
-		tr.Points = append(tr.Points, Place{Pos: orb.Point{lon0 + x/mPerDegLon, lat0 + y/mPerDegLat}, ElevM: math.NaN()})
+		tr.Points = append(tr.Points, gpx.Place{Pos: orb.Point{lon0 + x/mPerDegLon, lat0 + y/mPerDegLat}, ElevM: math.NaN()})
 	}
 	return tr
 }
@@ -63,7 +65,7 @@ func serpentine(name string, lat0, lon0 float64, n int, stepM, widthM, rowGapM f
 // a repeater on a mast in the middle (two frequencies) and four simplex
 // handhelds at the corners, so paths run up to about 30 km.
 func benchTargets(lat0, lon0 float64) []Target {
-	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	dLat, dLon := 20000/111320.0, 20000/(111320*math.Cos(lat0*math.Pi/180))
 	ts := []Target{{End: End{Name: "repeater", Pos: orb.Point{lon0 + dLon/2, lat0 + dLat/2},
 		Radio: Radio{PowerW: 50, SensitivityDBm: -122}, Antenna: Antenna{GainDBi: 6, HeightM: 20}},
@@ -92,8 +94,8 @@ func BenchmarkRoute1s(b *testing.B) {
 		b.Fatal(err)
 	}
 	tr := serpentine("bench", lat0, lon0, 10000, 50, 20000, 20000.0/25)
-	walker := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
-	env := &Env{Terrain: ts, Vertical: true}
+	walker := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	env := &Env{Terrain: ts}
 	req := RouteRequest{Track: tr, Walker: walker, Targets: benchTargets(lat0, lon0), NeededMarginDB: 10, SpacingM: 50}
 	var paths int
 	b.ReportAllocs()
@@ -123,7 +125,7 @@ func BenchmarkRankSitesDemo(b *testing.B) {
 // over the example's 3″ terrain.
 func BenchmarkRouteDemo(b *testing.B) {
 	p, env := demoPlan(b)
-	g, err := ReadGPX(filepath.Join("..", "examples", "valley", "hike.gpx"))
+	g, err := gpx.Read(filepath.Join("..", "examples", "valley", "hike.gpx"))
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -12,6 +12,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
@@ -34,7 +36,7 @@ func demoPlan(t testing.TB) (*Plan, *Env) {
 // demoRoute checks the example hike with the example plan's handheld.
 func demoRoute(t testing.TB, p *Plan, env *Env) *RouteResult {
 	t.Helper()
-	g, err := ReadGPX(filepath.Join("..", "examples", "valley", "hike.gpx"))
+	g, err := gpx.Read(filepath.Join("..", "examples", "valley", "hike.gpx"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -97,7 +99,7 @@ func TestRouteAgreesWithEvaluate(t *testing.T) {
 func TestRouteResampling(t *testing.T) {
 	p, env := demoPlan(t)
 	r := demoRoute(t, p, env)
-	g, _ := ReadGPX(filepath.Join("..", "examples", "valley", "hike.gpx"))
+	g, _ := gpx.Read(filepath.Join("..", "examples", "valley", "hike.gpx"))
 	pts := g.Tracks[0].Points
 	// The track length is the sum of the geodesic segment lengths (Karney 2013).
 	length := 0.0
@@ -225,12 +227,12 @@ func TestRouteRidgeGap(t *testing.T) {
 		cellDeg  = 1.0 / 3600 // 1″
 	)
 	ts := ridgeWorld(t, r0, r1, 3000)
-	env := &Env{Terrain: ts, Vertical: true}
-	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	env := &Env{Terrain: ts}
+	hand := End{Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	tg := Target{End: hand, Kind: Simplex, FreqMHz: 146.55}
 	tg.Name, tg.Pos, tg.Antenna = "mast", orb.Point{10.05, 0.5}, Antenna{GainDBi: 6, HeightM: 150}
 	hand.Name = "walker"
-	track := Track{Name: "meridian", Points: []Place{{Pos: orb.Point{trackLon, 0.40}}, {Pos: orb.Point{trackLon, 0.60}}}}
+	track := gpx.Track{Name: "meridian", Points: []gpx.Place{{Pos: orb.Point{trackLon, 0.40}}, {Pos: orb.Point{trackLon, 0.60}}}}
 	const need = 27.0
 	r, err := env.Route(context.Background(), RouteRequest{Track: track, Walker: hand, Targets: []Target{tg}, NeededMarginDB: need, SpacingM: spacingM}, nil)
 	if err != nil {
@@ -316,11 +318,11 @@ func TestRouteDeterministic(t *testing.T) {
 // run may allocate only a small summary per point.
 func TestRouteBoundedMemory(t *testing.T) {
 	tr := serpentine("long", 45, 7, 100_000, 5, 1000, 1000.0/500)
-	gpx, err := EncodeGPX(GPXOutput{Tracks: []Track{tr}})
+	doc, err := gpx.Encode(gpx.Output{Tracks: []gpx.Track{tr}})
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := DecodeGPX(gpx, "long.gpx")
+	f, err := gpx.Decode(doc, "long.gpx")
 	if err != nil || len(f.Tracks[0].Points) != 100_000 {
 		t.Fatalf("%v, %d points", err, len(f.Tracks[0].Points))
 	}
@@ -355,7 +357,7 @@ func TestRouteErrors(t *testing.T) {
 	tg.Name, tg.Pos = "t", orb.Point{7.01, 45.01}
 	opt := tg
 	opt.Optional = true
-	line := Track{Name: "l", Points: []Place{{Pos: orb.Point{7, 45}}, {Pos: orb.Point{7.001, 45}}}}
+	line := gpx.Track{Name: "l", Points: []gpx.Place{{Pos: orb.Point{7, 45}}, {Pos: orb.Point{7.001, 45}}}}
 	cases := []struct {
 		name string
 		req  RouteRequest
@@ -363,8 +365,8 @@ func TestRouteErrors(t *testing.T) {
 	}{
 		{"no targets", RouteRequest{Track: line, Walker: hand}, "no required targets"},
 		{"all optional", RouteRequest{Track: line, Walker: hand, Targets: []Target{opt}}, "every target is optional"},
-		{"one point", RouteRequest{Track: Track{Name: "p", Points: line.Points[:1]}, Walker: hand, Targets: []Target{tg}}, "at least two"},
-		{"no length", RouteRequest{Track: Track{Name: "z", Points: []Place{line.Points[0], line.Points[0]}}, Walker: hand, Targets: []Target{tg}}, "no length"},
+		{"one point", RouteRequest{Track: gpx.Track{Name: "p", Points: line.Points[:1]}, Walker: hand, Targets: []Target{tg}}, "at least two"},
+		{"no length", RouteRequest{Track: gpx.Track{Name: "z", Points: []gpx.Place{line.Points[0], line.Points[0]}}, Walker: hand, Targets: []Target{tg}}, "no length"},
 		{"negative spacing", RouteRequest{Track: line, Walker: hand, Targets: []Target{tg}, SpacingM: -1}, "spacing"},
 		{"tiny spacing", RouteRequest{Track: line, Walker: hand, Targets: []Target{tg}, SpacingM: 1e-6}, "longer spacing"},
 		{"no radio", RouteRequest{Track: line, Walker: End{Name: "w"}, Targets: []Target{tg}}, "power and a sensitivity"},
@@ -388,11 +390,11 @@ func TestRouteErrors(t *testing.T) {
 // ExampleEnv_Route checks a 2 km walk due east on a smooth earth against a
 // repeater 5 km to the north.
 func ExampleEnv_Route() {
-	hand := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
+	hand := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
 	rpt := Target{End: End{Name: "repeater", Pos: orb.Point{7.01, 45.045}, Radio: Radio{PowerW: 50, SensitivityDBm: -122}, Antenna: Antenna{GainDBi: 6, HeightM: 20}},
 		Kind: Repeater, ListenMHz: 147.78, TransmitMHz: 147.18}
-	walk := Track{Name: "walk", Points: []Place{{Pos: orb.Point{7, 45}}, {Pos: orb.Point{7.025, 45}}}}
-	env := &Env{} // no elevation data: a smooth earth, ITU-R P.526-16
+	walk := gpx.Track{Name: "walk", Points: []gpx.Place{{Pos: orb.Point{7, 45}}, {Pos: orb.Point{7.025, 45}}}}
+	env := &Env{} // no elevation data: a smooth earth, ITU-R P.526-16; vertical polarization over land (the zero values)
 	r, err := env.Route(context.Background(), RouteRequest{Track: walk, Walker: hand, Targets: []Target{rpt}, NeededMarginDB: 10}, nil)
 	if err != nil {
 		fmt.Println(err)
@@ -402,7 +404,7 @@ func ExampleEnv_Route() {
 	fmt.Printf("margin at the start %.1f dB, at the end %.1f dB\n", r.Points[0].WorstMarginDB, r.Points[len(r.Points)-1].WorstMarginDB)
 	// Output:
 	// 1971 m in 41 points, 100 % covered, 0 gaps
-	// margin at the start 47.0 dB, at the end 46.7 dB
+	// margin at the start 47.1 dB, at the end 46.9 dB
 }
 
 // FuzzRouteTrack feeds Route tracks decoded from arbitrary GPX documents
@@ -419,7 +421,7 @@ func FuzzRouteTrack(f *testing.F) {
 	tg.Name = "t"
 	env := &Env{Model: propagation.FreeSpace{}, StepM: 500}
 	f.Fuzz(func(t *testing.T, data []byte) {
-		g, err := DecodeGPX(data, "fuzz.gpx")
+		g, err := gpx.Decode(data, "fuzz.gpx")
 		if err != nil || len(g.Tracks) == 0 || len(g.Tracks[0].Points) > 2000 {
 			return
 		}

@@ -5,12 +5,15 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // SitesRequest is what Env.RankSites ranks: candidate places for a station,
 // its kit, and the targets it must reach from there.
 type SitesRequest struct {
-	Candidates []Place // named candidate sites (GPX waypoints)
+	Candidates []gpx.Place // named candidate sites (GPX waypoints)
 	// Station is the kit set up at each candidate (its Pos is ignored).
 	Station End
 	// Targets are reached in both directions from each candidate.
@@ -43,7 +46,7 @@ type SiteResult struct {
 	// requirement on every required link: from the sweep when one is
 	// given, else the station's own height; null when none does.
 	MastM *float64 `json:"mast_m"`
-	// Cable is the lightest cable that meets it at MastM (sweep only).
+	// feedline.Cable is the lightest cable that meets it at MastM (sweep only).
 	Cable   string       `json:"cable,omitempty"`
 	Targets []SiteTarget `json:"targets"`
 }
@@ -81,7 +84,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	}
 	type config struct {
 		heightM float64
-		cable   Cable
+		cable   feedline.Cable
 		massKg  float64
 		legs    []targetLegs
 	}
@@ -149,7 +152,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 			for k, l := range tl.legs {
 				if own[i*2+k] < s.WorstMarginDB {
 					s.WorstMarginDB = own[i*2+k]
-					s.WorstLink = fmt.Sprintf("%s (%s)", tl.target.Name, l.dir)
+					s.WorstLink = fmt.Sprintf("%s (%s)", tl.target.Name, l.name)
 				}
 			}
 		}
@@ -194,16 +197,4 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		res.Sites[i].Rank = i + 1
 	}
 	return res, nil
-}
-
-// mastFeedline is the station's line rebuilt for a mast of heightM metres
-// with cable c: as long as the mast plus the run and slack of m, with the
-// station's SWR, connectors and connector loss (as Env.SweepMast builds it).
-func mastFeedline(station Feedline, c Cable, heightM float64, m *MastSweep) Feedline {
-	fl := NewFeedline(c, heightM+m.RunM+m.SlackM)
-	fl.SWR, fl.Connectors = station.SWR, station.Connectors
-	if station.ConnectorLossDB > 0 {
-		fl.ConnectorLossDB = station.ConnectorLossDB
-	}
-	return fl
 }

@@ -10,13 +10,16 @@ import (
 	"runtime"
 	"testing"
 
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 )
 
 // demoSites ranks the example candidates with the example plan.
 func demoSites(t testing.TB, p *Plan, env *Env, mast *MastSweep) *SitesResult {
 	t.Helper()
-	g, err := ReadGPX(filepath.Join("..", "examples", "valley", "candidates.gpx"))
+	g, err := gpx.Read(filepath.Join("..", "examples", "valley", "candidates.gpx"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -159,15 +162,15 @@ func TestPlanRoutesAndSites(t *testing.T) {
 // station (6 m antenna) reaching a team 4 km and 8 km away, with
 // masts of 2 to 12 m.
 func ExampleEnv_RankSites() {
-	station := End{Name: "base", Radio: Radio{PowerW: 25, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 2.15, HeightM: 6}}
-	team := Target{End: End{Name: "team", Pos: orb.Point{7.1, 45}, Radio: Radio{PowerW: 5, SensitivityDBm: DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}},
+	station := End{Name: "base", Radio: Radio{PowerW: 25, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{GainDBi: 2.15, HeightM: 6}}
+	team := Target{End: End{Name: "team", Pos: orb.Point{7.1, 45}, Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}},
 		Kind: Simplex, FreqMHz: 146.55}
-	cands := []Place{{Name: "near", Pos: orb.Point{7.05, 45}}, {Name: "far", Pos: orb.Point{7, 45}}}
-	heights, _ := ParseLengthRange("2m..12m step 2m")
-	rg58, _ := LookupCable("RG-58")
-	env := &Env{} // smooth earth
+	cands := []gpx.Place{{Name: "near", Pos: orb.Point{7.05, 45}}, {Name: "far", Pos: orb.Point{7, 45}}}
+	heights, _ := units.ParseLengthRange("2m..12m step 2m")
+	rg58, _ := feedline.LookupCable("RG-58")
+	env := &Env{} // smooth earth; vertical polarization over land (the zero values)
 	r, err := env.RankSites(context.Background(), SitesRequest{Candidates: cands, Station: station, Targets: []Target{team}, NeededMarginDB: 20,
-		Mast: &MastSweep{Heights: heights, Cables: []Cable{rg58}, RunM: 5}}, nil)
+		Mast: &MastSweep{Heights: heights, Cables: []feedline.Cable{rg58}, RunM: 5}}, nil)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -180,6 +183,6 @@ func ExampleEnv_RankSites() {
 		fmt.Printf("%d. %s: worst margin %.1f dB, mast %s\n", s.Rank, s.Name, s.WorstMarginDB, mast)
 	}
 	// Output:
-	// 1. near: worst margin 34.9 dB, mast 2 m
-	// 2. far: worst margin 22.1 dB, mast 8 m
+	// 1. near: worst margin 35.1 dB, mast 2 m
+	// 2. far: worst margin 22.3 dB, mast 6 m
 }

@@ -6,6 +6,7 @@ import (
 	"sort"
 	"time"
 
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/terrain"
 )
 
@@ -13,7 +14,7 @@ import (
 // points, measured once, so that positions at any distance along it are
 // cheap to find.
 type trackLine struct {
-	points []Place
+	points []gpx.Place
 	cumM   []float64 // distance along the track at each point, metres
 	aziDeg []float64 // azimuth at point i towards point i+1, degrees
 }
@@ -21,7 +22,7 @@ type trackLine struct {
 // newTrackLine measures tr along the geodesics between its points
 // (Karney's inverse solution, terrain.Inverse). It needs at least two
 // distinct points.
-func newTrackLine(tr Track) (*trackLine, error) {
+func newTrackLine(tr gpx.Track) (*trackLine, error) {
 	if len(tr.Points) < 2 {
 		return nil, fmt.Errorf("track %q has %d point(s): a route needs at least two", tr.Name, len(tr.Points))
 	}

@@ -6,7 +6,8 @@ import (
 )
 
 // dbullSet is one antenna/frequency set of the ITU-R SG3 delta-Bullington
-// validation examples (REFERENCES §3).
+// validation examples (ITU-R Study Group 3, "Validation examples for the
+// delta Bullington diffraction prediction method").
 type dbullSet struct {
 	name     string
 	txM, rxM float64
@@ -34,7 +35,7 @@ func dbullParams(s dbullSet) Params {
 
 func TestDeltaBullingtonValidation(t *testing.T) {
 	// Expected L (dB), ITU-R SG3 delta-Bullington validation examples
-	// (REFERENCES §3 table). The suggested tolerance is 0.1 dB; we hold
+	// (ITU-R SG3 validation examples). The suggested tolerance is 0.1 dB; we hold
 	// 0.005 dB.
 	expected := map[string][5]float64{
 		"dbull1.csv": {34.4430, 42.3293, 36.3461, 27.6974, 42.9907},
@@ -63,7 +64,7 @@ func TestDeltaBullingtonValidation(t *testing.T) {
 
 func TestDeltaBullingtonIntermediateSetE(t *testing.T) {
 	// ITU-R SG3 delta-Bullington validation examples, set E intermediate
-	// values (REFERENCES §3).
+	// values (ITU-R SG3 validation examples).
 	cases := []struct {
 		file                string
 		lba, lbs, lsph, tol float64
@@ -96,7 +97,7 @@ func TestDeltaBullingtonIntermediateSetE(t *testing.T) {
 }
 
 // p1812Params: ΔN = 45 → a_e = 8930.776786 km, c = 2.998e8 m/s, horizontal
-// (ITU-R WP 3K P.1812 validation conditions, REFERENCES §3).
+// (ITU-R WP 3K P.1812 validation conditions).
 func p1812Params(t *testing.T, sg sg3Profile) Params {
 	k, err := KFactorFromDeltaN(sg.DeltaN)
 	if err != nil {
@@ -109,7 +110,7 @@ func p1812Params(t *testing.T, sg sg3Profile) Params {
 }
 
 func TestP1812Validation(t *testing.T) {
-	// ITU-R WP 3K validation results for P.1812 (REFERENCES §3).
+	// ITU-R WP 3K validation results for P.1812.
 	cases := []struct {
 		file        string
 		lbfs, lba   float64
@@ -123,7 +124,7 @@ func TestP1812Validation(t *testing.T) {
 		t.Run(c.file, func(t *testing.T) {
 			sg := readSG3(t, c.file)
 			// The measurement rows must carry the published geometry
-			// (REFERENCES §3: f 95.3 MHz, Tx 60 m, Rx 7 m, ΔN 45).
+			// (ITU-R WP 3K: f 95.3 MHz, Tx 60 m, Rx 7 m, ΔN 45).
 			if sg.FreqMHz != 95.3 || sg.TxHeightM != 60 || sg.RxHeightM != 7 || sg.DeltaN != 45 {
 				t.Fatalf("file gives f %v MHz, Tx %v m, Rx %v m, ΔN %v; want 95.3, 60, 7, 45", sg.FreqMHz, sg.TxHeightM, sg.RxHeightM, sg.DeltaN)
 			}

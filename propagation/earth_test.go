@@ -12,7 +12,7 @@ func TestRadioHorizonKM(t *testing.T) {
 		h1, h2, want float64 // m, m, km
 		tol          float64
 	}{
-		// REFERENCES §1 [calc], ITU-R P.526-16 eq. 21 with k = 4/3.
+		// Computed [calc] from ITU-R P.526-16 eq. 21 with k = 4/3.
 		{"2 m", 2, 0, 5.83, 0.005},
 		{"10 m", 10, 0, 13.03, 0.005},
 		{"30 m", 30, 0, 22.58, 0.005},
@@ -36,7 +36,7 @@ func TestEarthBulgeM(t *testing.T) {
 		d1, d2, want float64 // km, km, m
 		tol          float64
 	}{
-		// REFERENCES §1 [calc], term of ITU-R P.526-16 eq. 49, k = 4/3.
+		// Computed [calc] from the term of ITU-R P.526-16 eq. 49, k = 4/3.
 		{"5+5 km", 5, 5, 1.47, 0.005},
 		{"10+10 km", 10, 10, 5.89, 0.005},
 		{"25+25 km", 25, 25, 36.79, 0.005},
@@ -60,7 +60,7 @@ func TestKFactorFromDeltaN(t *testing.T) {
 		wantErr bool
 	}{
 		// ITU-R P.1812-8 eq. 6; ΔN = 45 → a_e = 8930.776786 km (P.1812
-		// validation conditions, REFERENCES §1).
+		// validation conditions of ITU-R WP 3K).
 		{"ΔN 45", 45, 8930.776786, 1e-6, false},
 		// k = 157/(157 − 0) = 1: the geometric earth.
 		{"ΔN 0", 0, 6371, 1e-9, false},

@@ -7,7 +7,7 @@ import (
 )
 
 func TestFresnelRadius(t *testing.T) {
-	// REFERENCES §1 [calc]: 146 MHz, 5 + 5 km → 71.97 m (ITU-R P.526-16
+	// Computed [calc]: 146 MHz, 5 + 5 km → 71.97 m (ITU-R P.526-16
 	// eq. 3), 71.65 m exact from λ (eq. 2, n = 1).
 	if got := FresnelRadiusM(5, 5, 146); math.Abs(got-71.97) > 0.005 {
 		t.Errorf("FresnelRadiusM = %.4f m, want 71.97", got)
@@ -28,7 +28,7 @@ func flatPath(n int, lengthKM float64) Path {
 func TestClearanceFlatHighAntennas(t *testing.T) {
 	// 10 km over flat ground with 100 m antennas at 146 MHz, k = 4/3: the
 	// ray is level at 100 m, the bulge mid-path is 1.47 m and R1 there is
-	// 71.65 m (REFERENCES §1), so the worst clearance is (100 − 1.47)/71.65
+	// 71.65 m (computed from λ), so the worst clearance is (100 − 1.47)/71.65
 	// = 1.375 F1, at the middle point.
 	p := flatPath(101, 10)
 	prm := Params{FreqMHz: 146, TxHeightM: 100, RxHeightM: 100}
@@ -56,7 +56,7 @@ func TestClearanceFlatHighAntennas(t *testing.T) {
 
 func TestClearanceLowAntennasBeyondHorizon(t *testing.T) {
 	// 40 km over flat ground with 2 m antennas: horizon 2 × 5.83 km
-	// (REFERENCES §1), so the bulge cuts the ray.
+	// (computed, ITU-R P.526-16 eq. 49 term), so the bulge cuts the ray.
 	c, err := PathClearance(flatPath(401, 40), Params{FreqMHz: 146, TxHeightM: 2, RxHeightM: 2})
 	if err != nil {
 		t.Fatal(err)

@@ -116,18 +116,56 @@ func baseResult(name string, s *profileScan, rp params) Result {
 	}
 }
 
-// ModelNames returns the names ModelByName accepts, in a new slice.
-func ModelNames() []string { return []string{FreeSpace{}.Name(), Terrain{}.Name()} }
+// Registered is one entry of the model registry: a model value, as
+// ModelByName returns it, and a one-line description for help text and
+// reports.
+type Registered struct {
+	Model       Model
+	Description string // one line, naming the published method
+}
 
-// ModelByName returns the model with the given Name, case-insensitively.
-// An unknown name gives an error wrapping ErrUnknownModel that lists the
-// known ones.
-func ModelByName(name string) (Model, error) {
-	switch strings.ToLower(strings.TrimSpace(name)) {
-	case FreeSpace{}.Name():
-		return FreeSpace{}, nil
-	case Terrain{}.Name():
-		return Terrain{}, nil
+// registry lists every model callers can choose by name, in the order help
+// text lists them. Adding a model is one line here: ModelByName,
+// ModelNames, ModelDescription and therefore the --model flag, the plan
+// file's model: field and every help text pick it up.
+var registry = []Registered{
+	{Terrain{}, "ITU-R P.526-16 diffraction over the terrain (delta-Bullington)"},
+	{FreeSpace{}, "free space (ITU-R P.525-4), terrain ignored"},
+}
+
+// Models returns the registry, in a new slice: every model ModelByName
+// accepts, with its description.
+func Models() []Registered { return append([]Registered(nil), registry...) }
+
+// ModelNames returns the names ModelByName accepts, in registry order, in a
+// new slice.
+func ModelNames() []string {
+	out := make([]string, len(registry))
+	for i, r := range registry {
+		out[i] = r.Model.Name()
 	}
-	return nil, fmt.Errorf("%w %q; use one of: %s", ErrUnknownModel, name, strings.Join(ModelNames(), ", "))
+	return out
+}
+
+// ModelDescription returns the registered description of the model called
+// name (case-insensitive), or "" when no model has the name.
+func ModelDescription(name string) string {
+	for _, r := range registry {
+		if strings.EqualFold(r.Model.Name(), strings.TrimSpace(name)) {
+			return r.Description
+		}
+	}
+	return ""
+}
+
+// ModelByName returns the registered model with the given Name,
+// case-insensitively and ignoring surrounding space. An unknown name gives
+// an error wrapping ErrUnknownModel that lists the known ones.
+func ModelByName(name string) (Model, error) {
+	for _, r := range registry {
+		if strings.EqualFold(r.Model.Name(), strings.TrimSpace(name)) {
+			return r.Model, nil
+		}
+	}
+	return nil, fmt.Errorf("%w %q (known: %s)", ErrUnknownModel, name, strings.Join(ModelNames(), ", "))
 }

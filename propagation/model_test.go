@@ -3,6 +3,7 @@ package propagation
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -13,7 +14,8 @@ func TestModelByName(t *testing.T) {
 	}{
 		{"terrain", "terrain", nil},
 		{" Free-Space ", "free-space", nil},
-		{"itm", "", ErrUnknownModel},
+		{"okumura", "", ErrUnknownModel},
+		{"", "", ErrUnknownModel},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -25,6 +27,44 @@ func TestModelByName(t *testing.T) {
 				t.Errorf("Name() = %q, want %q", m.Name(), c.want)
 			}
 		})
+	}
+}
+
+// TestModelRegistry lists the registry: every model is found by its own
+// name, has a description naming its published method, and appears once.
+// A model added to the registry shows up here and in ModelNames, with no
+// other edit.
+func TestModelRegistry(t *testing.T) {
+	want := []string{"terrain", "free-space"}
+	names := ModelNames()
+	if len(names) < len(want) {
+		t.Fatalf("ModelNames() = %v, want at least %v", names, want)
+	}
+	for i, n := range want {
+		if names[i] != n {
+			t.Errorf("ModelNames()[%d] = %q, want %q", i, names[i], n)
+		}
+	}
+	seen := map[string]bool{}
+	for _, r := range Models() {
+		name := r.Model.Name()
+		if seen[name] {
+			t.Errorf("model %q registered twice", name)
+		}
+		seen[name] = true
+		m, err := ModelByName(strings.ToUpper(name))
+		if err != nil || m.Name() != name {
+			t.Errorf("ModelByName(%q) = %v, %v", name, m, err)
+		}
+		if d := ModelDescription(name); d == "" || d != r.Description {
+			t.Errorf("ModelDescription(%q) = %q, want %q", name, d, r.Description)
+		}
+	}
+	if d := ModelDescription("no such model"); d != "" {
+		t.Errorf("ModelDescription of an unknown name = %q, want empty", d)
+	}
+	if _, err := ModelByName("no such model"); err == nil || !strings.Contains(err.Error(), strings.Join(names, ", ")) {
+		t.Errorf("unknown model error %v does not list %v", err, names)
 	}
 }
 

@@ -7,7 +7,7 @@ import (
 )
 
 // refDeltaBullington is a plain restatement of ITU-R P.526-16 §4.5
-// (eqs. 49–66, as REFERENCES §3 lists the steps), with a loop per maximum
+// (eqs. 49–66, step by step), with a loop per maximum
 // and a square root per point, kept deliberately naive so that the
 // optimised DeltaBullington (single pass, no per-point square root, binary
 // search over the smooth profile) can be checked against it.

@@ -6,7 +6,7 @@ import (
 )
 
 // refFirstTerm writes out the first term of the residue series as
-// REFERENCES §3 restates ITU-R P.526-16 §3.1.1 (eqs. 11a, 12a, 14a, 15a,
+// ITU-R P.526-16 §3.1.1 gives it (eqs. 11a, 12a, 14a, 15a,
 // 16, 17, 18, 13), independently of the package code: the loss is
 // −(F(X) + G(Y1) + G(Y2)) in dB; d km, h m, f MHz, a_e km.
 func refFirstTerm(d, h1, h2, f, ae, eps, sigma float64, vertical bool) float64 {

@@ -12,34 +12,15 @@ import (
 	"testing"
 )
 
-// validationDir returns ../shared/validation relative to the repository
-// root (found by walking up to go.mod). It skips the test when the folder is
-// absent, or fails it when MASTLINK_REQUIRE_CROSSCHECKS=1.
-func validationDir(t testing.TB) string {
+// validationDir returns testdata/sub, where the published validation
+// files sit with a SOURCE note each.
+func validationDir(t testing.TB, sub string) string {
 	t.Helper()
-	dir, err := os.Getwd()
-	if err != nil {
-		t.Fatal(err)
+	dir := filepath.Join("testdata", sub)
+	if _, err := os.Stat(filepath.Join(dir, "SOURCE")); err != nil {
+		t.Fatalf("validation data %s: %v", dir, err)
 	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			break
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Fatal("no go.mod above the test directory")
-		}
-		dir = parent
-	}
-	v := filepath.Join(dir, "..", "shared", "validation")
-	if _, err := os.Stat(v); err != nil {
-		msg := fmt.Sprintf("validation data not found at %s (published ITU-R profiles; CI provides them)", v)
-		if os.Getenv("MASTLINK_REQUIRE_CROSSCHECKS") == "1" {
-			t.Fatal(msg + " and MASTLINK_REQUIRE_CROSSCHECKS=1")
-		}
-		t.Skip(msg)
-	}
-	return v
+	return dir
 }
 
 // errValidationFormat is wrapped by the readers of the validation files.
@@ -49,7 +30,7 @@ var errValidationFormat = errors.New("validation file format")
 // "Distance (km),DEM Height (m AMSL)" then rows of km, m amsl.
 func readDBull(t testing.TB, name string) Path {
 	t.Helper()
-	path := filepath.Join(validationDir(t), "p526-delta-bullington", name)
+	path := filepath.Join(validationDir(t, "p526-delta-bullington"), name)
 	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)
@@ -103,7 +84,7 @@ type sg3Profile struct {
 
 func readSG3(t testing.TB, name string) sg3Profile {
 	t.Helper()
-	path := filepath.Join(validationDir(t), "p1812", name)
+	path := filepath.Join(validationDir(t, "p1812"), name)
 	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)

@@ -11,7 +11,7 @@ func TestMarginForReliabilityDB(t *testing.T) {
 		reliability, sigma float64
 		want, tol          float64
 	}{
-		// REFERENCES §5 [calc]: σ Φ⁻¹(r).
+		// Computed [calc]: σ Φ⁻¹(r), ITU-R P.1812-8 eq. 69.
 		{"σ 5.5 dB 90 %", 0.90, 5.5, 7.05, 0.005},
 		{"σ 5.5 dB 95 %", 0.95, 5.5, 9.05, 0.005},
 		{"σ 8 dB 90 %", 0.90, 8, 10.25, 0.005},

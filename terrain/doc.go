@@ -4,7 +4,8 @@
 // geographic GeoTIFF DEMs, a tile set over directories with a memory-bounded
 // cache, bilinear sampling with void filling, and profiles along WGS84
 // geodesics computed with Karney's algorithm (C. F. F. Karney, "Algorithms
-// for geodesics", J. Geodesy 87, 2013).
+// for geodesics", J. Geodesy 87, 2013), and profiles to and from CSV files
+// (a surveyed profile, or one from another tool).
 //
 // Conventions: latitudes and longitudes are decimal degrees on WGS84;
 // functions taking both take latitude first unless they take an orb.Point

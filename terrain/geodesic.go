@@ -20,11 +20,11 @@ package terrain
 import "math"
 
 // WGS84A is the equatorial radius (semi-major axis) of the WGS84 ellipsoid,
-// in metres (WGS84 defining parameter; REFERENCES §1).
+// in metres (WGS84 defining parameter; NIMA TR8350.2, 3rd ed., Table 3.1).
 const WGS84A = 6378137.0
 
 // WGS84F is the flattening of the WGS84 ellipsoid, dimensionless,
-// 1/298.257223563 (WGS84 defining parameter; REFERENCES §1).
+// 1/298.257223563 (WGS84 defining parameter; NIMA TR8350.2, 3rd ed., Table 3.1).
 const WGS84F = 1 / 298.257223563
 
 const (

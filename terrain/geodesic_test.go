@@ -25,7 +25,7 @@ func TestInverseReference(t *testing.T) {
 		s12, azi1, azi2        float64 // m, degrees
 		tolM, tolDeg           float64
 	}{
-		// GeographicLib GeodSolve 2.1.2 (REFERENCES §1): GeodSolve -i -p 6
+		// GeographicLib GeodSolve 2.1.2: GeodSolve -i -p 6
 		{"references-33km", 45.5, 7.5, 45.6, 7.9, 33153.924063, 70.27069173780, 70.55623715188, 1e-6, 1e-10},
 		// The rows below: GeographicLib GeodSolve 2.1.2, run on this
 		// machine as `GeodSolve -i -p 9` (printed to 1e-9 m and 1e-14°).
@@ -62,7 +62,7 @@ func TestDirectReference(t *testing.T) {
 		lat1, lon1, azi1, s12  float64
 		lat2, lon2, azi2, tolD float64 // degrees
 	}{
-		// GeographicLib GeodSolve 2.1.2 (REFERENCES §1): GeodSolve (direct, -p 3 default)
+		// GeographicLib GeodSolve 2.1.2: GeodSolve (direct, -p 3 default)
 		{"references-20km", 45.5, 7.5, 45, 20000, 45.62709921, 7.68135124, 45.12948989, 6e-9},
 		// The rows below: GeographicLib GeodSolve 2.1.2, run on this
 		// machine as `GeodSolve -p 9` (printed to 1e-14°).

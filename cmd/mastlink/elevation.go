@@ -1,16 +1,15 @@
 package main
 
 import (
+	"context"
 	"fmt"
+	"io"
 	"regexp"
-	"strconv"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newElevationCmd) }
 
 type elevationOptions struct {
 	points pointResolver
@@ -47,7 +46,7 @@ with source "none", and the missing tiles are named on stderr.`,
 			"  mastlink elevation --dem examples/terrain --waypoints examples/valley/points.gpx \"Corvane Peak\" \"Wethermoss Saddle\"",
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runElevation(g, o, args)
+			return runElevation(cmd.Context(), g, o, args)
 		},
 	}
 	addWaypointsFlag(cmd, &o.points)
@@ -64,7 +63,7 @@ with source "none", and the missing tiles are named on stderr.`,
 // flag parser gives for it ("unknown shorthand flag: '4' in -48.5,-123.9").
 var negativePoint = regexp.MustCompile(`in (-[0-9.]+,\S*)$`)
 
-func runElevation(g *globals, o *elevationOptions, args []string) error {
+func runElevation(ctx context.Context, g *globals, o *elevationOptions, args []string) error {
 	if g.out != "" {
 		return usagef("--out: elevation writes its table to stdout; use --format csv or json and redirect it to a file")
 	}
@@ -74,7 +73,7 @@ func runElevation(g *globals, o *elevationOptions, args []string) error {
 		if err != nil {
 			return err
 		}
-		if _, err := plan.ParsePoint(a); err == nil {
+		if _, err := units.ParsePoint(a); err == nil {
 			name = "" // given as coordinates
 		}
 		out.Points[i] = elevationPoint{Name: name, Lat: pos.Lat(), Lon: pos.Lon(), Source: terrain.NoSource}
@@ -105,28 +104,30 @@ func runElevation(g *globals, o *elevationOptions, args []string) error {
 			fmt.Fprintf(g.stderr, "mastlink: warning: %d of the points fall in a void of the elevation data; their height is given as 0 m\n", none)
 		}
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
+	return g.emit(out, func(w io.Writer) error {
 		rows := make([][]string, len(out.Points))
 		for i, p := range out.Points {
 			rows[i] = []string{p.Name, deg(p.Lat), deg(p.Lon), f2(p.ElevationM), p.Source}
 		}
-		return writeCSV(g.stdout, []string{"name", "lat", "lon", "elevation_m", "source"}, rows)
-	}
+		return writeCSV(w, []string{"name", "lat", "lon", "elevation_m", "source"}, rows)
+	}, func(w io.Writer) error { return renderElevationText(w, out, g.imperial()) })
+}
+
+// renderElevationText writes the points as a table, with a name column
+// when any point was given by name.
+func renderElevationText(w io.Writer, out elevationOutput, im bool) error {
 	named := false
 	for _, p := range out.Points {
 		named = named || p.Name != ""
 	}
-	t := newTable(g.stdout)
+	t := newTable(w)
 	head := []string{"lat", "lon", "elevation", "source"}
 	if named {
 		head = append([]string{"point"}, head...)
 	}
 	t.row(head...)
 	for _, p := range out.Points {
-		cells := []string{fmt.Sprintf("%.6f", p.Lat), fmt.Sprintf("%.6f", p.Lon), plan.FormatHeight(p.ElevationM, g.imperial()), p.Source}
+		cells := []string{fmt.Sprintf("%.6f", p.Lat), fmt.Sprintf("%.6f", p.Lon), units.FormatHeight(p.ElevationM, im), p.Source}
 		if named {
 			cells = append([]string{p.Name}, cells...)
 		}
@@ -142,6 +143,3 @@ func pointLabel(p elevationPoint) string {
 	}
 	return deg(p.Lat) + "," + deg(p.Lon)
 }
-
-// deg formats degrees with 7 decimals (about 1 cm).
-func deg(v float64) string { return strconv.FormatFloat(v, 'f', 7, 64) }

@@ -14,7 +14,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // The invented example island (examples/README.md): two 3″ tiles sharing
@@ -88,7 +88,7 @@ func TestElevationWaypoints(t *testing.T) {
 		})
 	}
 	t.Run("every waypoint", func(t *testing.T) {
-		gpx, err := plan.ReadGPX(examplePoints)
+		gpx, err := gpx.Read(examplePoints)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -1,26 +1,28 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
 	"strings"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/exposure"
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 )
 
-func init() { commandConstructors = append(commandConstructors, newExposureCmd) }
-
 type exposureOptions struct {
-	power, gain, freq, mode, duty, txTime, on, off string
-	standard, height, headHeight, reflection       string
-	cable, cableLength, swr                        string
-	connectors                                     int
-	at, distance                                   string
-	points                                         pointResolver
+	power, gain, freq, height string
+	habits                    exposure.Options // --mode, --duty, --tx-time, --on, --off, --standard, --head-height, --reflection
+	cable, cableLength, swr   string
+	connectors                int
+	at, distance              string
+	points                    pointResolver
 }
 
 func newExposureCmd(g *globals) *cobra.Command {
@@ -47,22 +49,22 @@ rules decide.`,
 			"  mastlink exposure --power 25W --gain 2.15dBi --freq 146.94 --height 9m --at -48.53,-123.61 -o keepout.geojson",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runExposure(g, o)
+			return runExposure(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
 	f.StringVar(&o.power, "power", "", "transmitter output, peak envelope power [W] (required)")
 	f.StringVar(&o.gain, "gain", "0dBi", "antenna gain [dBi] (dBd accepted)")
 	f.StringVar(&o.freq, "freq", "", "transmit frequency [MHz] (required)")
-	f.StringVar(&o.mode, "mode", "fm", "emission: fm, ssb, ssb-processed, cw, digital or carrier (sets the duty factor)")
-	f.StringVar(&o.duty, "duty", "", "duty factor to use instead of the mode's, e.g. 50%")
-	f.StringVar(&o.txTime, "tx-time", "", "fraction of time on the air, e.g. 50% (default: continuously)")
-	f.StringVar(&o.on, "on", "", "transmit part of a transmit/listen cycle, e.g. 2m (minutes), 30s")
-	f.StringVar(&o.off, "off", "", "listen part of the cycle, e.g. 2m")
-	f.StringVar(&o.standard, "standard", "fcc", "limits: fcc, icnirp2020 or icnirp1998")
+	f.StringVar(&o.habits.Mode, "mode", "fm", "emission: fm, ssb, ssb-processed, cw, digital or carrier (sets the duty factor)")
+	f.StringVar(&o.habits.Duty, "duty", "", "duty factor to use instead of the mode's, e.g. 50%")
+	f.StringVar(&o.habits.TxTime, "tx-time", "", "fraction of time on the air, e.g. 50% (default: continuously)")
+	f.StringVar(&o.habits.On, "on", "", "transmit part of a transmit/listen cycle, e.g. 2m (minutes), 30s")
+	f.StringVar(&o.habits.Off, "off", "", "listen part of the cycle, e.g. 2m")
+	f.StringVar(&o.habits.Standard, "standard", "fcc", "limits: fcc, icnirp2020 or icnirp1998")
 	f.StringVar(&o.height, "height", "", "antenna height above the ground where people stand [m]")
-	f.StringVar(&o.headHeight, "head-height", "2m", "height of a person's head [m]")
-	f.StringVar(&o.reflection, "reflection", "2.56", "ground-reflection factor: 1 (none), 2.56 (typical ground) or 4 (full)")
+	f.StringVar(&o.habits.HeadHeight, "head-height", "2m", "height of a person's head [m]")
+	f.StringVar(&o.habits.Reflection, "reflection", "2.56", "ground-reflection factor: 1 (none), 2.56 (typical ground) or 4 (full)")
 	f.StringVar(&o.cable, "cable", "", "feedline cable (its loss lowers the power at the antenna)")
 	f.StringVar(&o.cableLength, "cable-length", "", "feedline length [m]")
 	f.StringVar(&o.swr, "swr", "1", "SWR at the antenna")
@@ -77,85 +79,43 @@ rules decide.`,
 	return cmd
 }
 
-func runExposure(g *globals, o *exposureOptions) error {
-	in := plan.ExposureInput{}
+func runExposure(ctx context.Context, g *globals, o *exposureOptions, args []string) error {
+	in := exposure.Input{}
 	var err error
-	if in.PowerW, err = quantity("power", o.power, plan.ParsePowerW); err != nil {
+	if in.PowerW, err = quantity("power", o.power, units.ParsePowerW); err != nil {
 		return err
 	}
-	if in.GainDBi, err = quantity("gain", o.gain, plan.ParseGainDBi); err != nil {
+	if in.GainDBi, err = quantity("gain", o.gain, units.ParseGainDBi); err != nil {
 		return err
 	}
-	if in.FreqMHz, err = quantity("freq", o.freq, plan.ParseFreqMHz); err != nil {
+	if in.FreqMHz, err = quantity("freq", o.freq, units.ParseFreqMHz); err != nil {
 		return err
 	}
-	if in.FreqMHz < plan.ExposureMinFreqMHz || in.FreqMHz > plan.ExposureMaxFreqMHz {
+	if in.FreqMHz < exposure.MinFreqMHz || in.FreqMHz > exposure.MaxFreqMHz {
 		return usagef("--freq: %g MHz is outside the 0.3 MHz – 100 GHz range the exposure limits cover", in.FreqMHz)
 	}
-	if in.Mode, err = plan.ParseTxMode(o.mode); err != nil {
-		return usagef("--mode: %v", err)
-	}
-	if o.duty != "" {
-		if in.DutyFactor, err = quantity("duty", o.duty, plan.ParseRatio); err != nil {
-			return err
-		}
-		if !(in.DutyFactor > 0 && in.DutyFactor <= 1) {
-			return usagef("--duty: give a duty factor above 0 and up to 100%%")
-		}
-	}
-	if o.txTime != "" {
-		if in.TxFraction, err = quantity("tx-time", o.txTime, plan.ParseRatio); err != nil {
-			return err
-		}
-		if !(in.TxFraction > 0 && in.TxFraction <= 1) {
-			return usagef("--tx-time: give a fraction above 0 and up to 100%%")
-		}
-	}
-	if (o.on == "") != (o.off == "") {
-		return usagef("--on and --off go together (a transmit/listen cycle, e.g. --on 2m --off 2m)")
-	}
-	if o.on != "" {
-		if in.OnTime, err = plan.ParseDuration(o.on); err != nil {
-			return usagef("--on: %v", err)
-		}
-		if in.OffTime, err = plan.ParseDuration(o.off); err != nil {
-			return usagef("--off: %v", err)
-		}
-		if in.OnTime <= 0 {
-			return usagef("--on: the transmit time must be more than 0")
-		}
-	}
-	if in.Standard, err = plan.ParseExposureStandard(o.standard); err != nil {
-		return usagef("--standard: %v", err)
-	}
-	switch o.reflection {
-	case "1", "2.56", "4":
-		fmt.Sscan(o.reflection, &in.ReflectionFactor)
-	default:
-		return usagef("--reflection: %q is not 1, 2.56 or 4", o.reflection)
+	if err := o.habits.Apply(&in); err != nil {
+		return optionUsage(err)
 	}
 	if o.height != "" {
-		if in.AntennaHeightM, err = quantity("height", o.height, plan.ParseLengthM); err != nil {
+		if in.AntennaHeightM, err = quantity("height", o.height, units.ParseLengthM); err != nil {
 			return err
 		}
 	}
-	if in.HeadHeightM, err = quantity("head-height", o.headHeight, plan.ParseLengthM); err != nil {
-		return err
-	}
 	if o.cable != "" {
-		c, err := plan.ResolveCable(o.cable)
+		c, err := feedline.ResolveCable(o.cable)
 		if err != nil {
 			return usagef("--cable: %v", err)
 		}
-		l, err := quantity("cable-length", o.cableLength, plan.ParseLengthM)
+		l, err := quantity("cable-length", o.cableLength, units.ParseLengthM)
 		if err != nil {
 			return err
 		}
-		swr, err := quantity("swr", o.swr, plan.ParseSWR)
+		swr, err := quantity("swr", o.swr, units.ParseSWR)
 		if err != nil {
 			return err
 		}
-		fl := plan.NewFeedline(c, l)
+		fl := feedline.NewLine(c, l)
 		fl.SWR, fl.Connectors = swr, o.connectors
 		loss, err := fl.Loss(in.FreqMHz)
 		if err != nil {
@@ -163,13 +123,13 @@ func runExposure(g *globals, o *exposureOptions) error {
 		}
 		in.FeedlineLossDB = loss.TotalLossDB
 	}
-	rep, err := plan.EvaluateExposure(in)
+	rep, err := exposure.Evaluate(in)
 	if err != nil {
 		return usagef("%v", err)
 	}
-	out := exposureOutput{ExposureReport: rep}
+	out := exposureOutput{Report: rep}
 	if o.distance != "" {
-		d, err := quantity("distance", o.distance, plan.ParseLengthM)
+		d, err := quantity("distance", o.distance, units.ParseLengthM)
 		if err != nil {
 			return err
 		}
@@ -191,87 +151,79 @@ func runExposure(g *globals, o *exposureOptions) error {
 		}
 		fmt.Fprintf(g.stderr, "mastlink: wrote the keep-out circles to %s\n", g.out)
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
-		return writeCSV(g.stdout, []string{"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
+	return g.emit(out, func(w io.Writer) error {
+		return writeCSV(w, []string{"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
 			"limit_public_w_m2", "limit_occupational_w_m2", "distance_public_m", "distance_occupational_m", "keepout_public_m", "keepout_occupational_m"},
 			[][]string{{string(rep.Standard), f4(rep.FreqMHz), f2(rep.EIRPW), f2(rep.DutyFactor), f2(rep.AvgPowerPublicW), f2(rep.AvgPowerOccupationalW),
 				f4(rep.LimitPublicWM2), f4(rep.LimitOccupationalWM2), f2(rep.DistancePublicM), f2(rep.DistanceOccupationalM), f2(rep.KeepoutPublicM), f2(rep.KeepoutOccupationalM)}})
-	}
-	renderExposureText(g.stdout, rep, o.height != "", g.imperial())
-	if out.DistanceM != nil {
-		verdict := "is exempt from routine evaluation"
-		if !*out.ExemptAtDistance {
-			verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
+	}, func(w io.Writer) error {
+		renderExposureText(w, rep, o.height != "", g.imperial())
+		if out.DistanceM != nil {
+			verdict := "is exempt from routine evaluation"
+			if !*out.ExemptAtDistance {
+				verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
+			}
+			fmt.Fprintf(w, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", units.FormatLength(*out.DistanceM, g.imperial()), verdict)
 		}
-		fmt.Fprintf(g.stdout, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", plan.FormatLength(*out.DistanceM, g.imperial()), verdict)
-	}
-	return nil
+		return nil
+	})
 }
 
 // exposureOutput is the JSON of `mastlink exposure`.
 type exposureOutput struct {
-	plan.ExposureReport
+	exposure.Report
 	DistanceM        *float64 `json:"distance_m,omitempty"`         // --distance
 	ExemptAtDistance *bool    `json:"exempt_at_distance,omitempty"` // exempt from routine evaluation at DistanceM
 }
 
-var standardNames = map[plan.ExposureStandard]string{
-	plan.StandardFCC:        "US FCC, 47 CFR § 1.1310",
-	plan.StandardICNIRP2020: "ICNIRP 2020 reference levels",
-	plan.StandardICNIRP1998: "ICNIRP 1998 reference levels",
+var standardNames = map[exposure.Standard]string{
+	exposure.StandardFCC:        "US FCC, 47 CFR § 1.1310",
+	exposure.StandardICNIRP2020: "ICNIRP 2020 reference levels",
+	exposure.StandardICNIRP1998: "ICNIRP 1998 reference levels",
 }
 
 // renderExposureText writes the exposure result for a briefing.
-func renderExposureText(w io.Writer, r plan.ExposureReport, withHeight, im bool) {
-	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak (limits: %s)\n", plan.FormatFreq(r.FreqMHz), r.Mode, plan.FormatPower(r.EIRPW), standardNames[r.Standard])
+func renderExposureText(w io.Writer, r exposure.Report, withHeight, im bool) {
+	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak (limits: %s)\n", units.FormatFreq(r.FreqMHz), r.Mode, units.FormatPower(r.EIRPW), standardNames[r.Standard])
 	t := newTable(w)
 	t.row("", "public", "operators")
 	t.row("  averaging window", fmt.Sprintf("%.0f min", r.AveragingPublicS/60), fmt.Sprintf("%.0f min", r.AveragingOccupationalS/60))
-	t.row("  worst-case time on the air", pct(r.TxFractionPublic), pct(r.TxFractionOccupational))
-	t.row("  average transmitter power", plan.FormatPower(r.AvgPowerPublicW), plan.FormatPower(r.AvgPowerOccupationalW))
+	t.row("  worst-case time on the air", percent(r.TxFractionPublic), percent(r.TxFractionOccupational))
+	t.row("  average transmitter power", units.FormatPower(r.AvgPowerPublicW), units.FormatPower(r.AvgPowerOccupationalW))
 	t.row("  limit", fmt.Sprintf("%.2f W/m²", r.LimitPublicWM2), fmt.Sprintf("%.2f W/m²", r.LimitOccupationalWM2))
-	t.row("  distance from the antenna", plan.FormatLength(up(r.DistancePublicM), im), plan.FormatLength(up(r.DistanceOccupationalM), im))
+	t.row("  distance from the antenna", units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
 	if withHeight {
-		t.row(fmt.Sprintf("  keep-out from the mast foot (head at %s)", plan.FormatHeight(r.HeadHeightM, im)), plan.FormatLength(up(r.KeepoutPublicM), im), plan.FormatLength(up(r.KeepoutOccupationalM), im))
+		t.row(fmt.Sprintf("  keep-out from the mast foot (head at %s)", units.FormatHeight(r.HeadHeightM, im)), units.FormatLength(up(r.KeepoutPublicM), im), units.FormatLength(up(r.KeepoutOccupationalM), im))
 	}
 	t.flush()
 	fmt.Fprintln(w)
 	switch {
 	case withHeight && r.KeepoutPublicM == 0:
 		fmt.Fprintf(w, "With the antenna %s up, a standing person's head is farther than %s from it: no keep-out zone is needed on the ground.\n",
-			plan.FormatHeight(r.AntennaHeightM, im), plan.FormatLength(r.DistancePublicM, im))
+			units.FormatHeight(r.AntennaHeightM, im), units.FormatLength(r.DistancePublicM, im))
 	case withHeight:
 		fmt.Fprintf(w, "Keep the public at least %s from the mast foot while transmitting (operators %s).\n",
-			plan.FormatLength(up(r.KeepoutPublicM), im), plan.FormatLength(up(r.KeepoutOccupationalM), im))
+			units.FormatLength(up(r.KeepoutPublicM), im), units.FormatLength(up(r.KeepoutOccupationalM), im))
 	default:
 		fmt.Fprintf(w, "Keep the public at least %s from the antenna while transmitting (operators %s); give --height for the keep-out on the ground.\n",
-			plan.FormatLength(up(r.DistancePublicM), im), plan.FormatLength(up(r.DistanceOccupationalM), im))
+			units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
 	}
 	if r.DistancePublicM < r.NearFieldM {
-		fmt.Fprintf(w, "The distance is inside λ/2π (%s) of the antenna, where the far-field estimate is unreliable.\n", plan.FormatLength(r.NearFieldM, im))
+		fmt.Fprintf(w, "The distance is inside λ/2π (%s) of the antenna, where the far-field estimate is unreliable.\n", units.FormatLength(r.NearFieldM, im))
 	}
 	fmt.Fprintf(w, "Under US 47 CFR § 1.1307(b)(3)(i)(C) (ERP %s averaged) the station is exempt from routine evaluation for people farther than %s.\n",
-		plan.FormatPower(r.ERPW), plan.FormatLength(r.ExemptBeyondM, im))
+		units.FormatPower(r.ERPW), units.FormatLength(r.ExemptBeyondM, im))
 	fmt.Fprintln(w, "\nCautions:")
 	for _, c := range r.Cautions {
 		fmt.Fprintf(w, "  - %s\n", c)
 	}
 }
 
-// up rounds a safety distance up to the next 0.1 m (so a keep-out is never
-// shown shorter than computed).
-func up(m float64) float64 { return math.Ceil(m*10-1e-9) / 10 }
-
-func pct(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
-
 // keepoutSite is a station whose keep-out circles are written.
 type keepoutSite struct {
 	name string
 	pos  orb.Point
-	rep  plan.ExposureReport
+	rep  exposure.Report
 }
 
 // writeKeepout writes keep-out circles for both tiers as GeoJSON polygons
@@ -285,7 +237,7 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 		}
 		return renderTo(path, inputs, func(w io.Writer) error { return writeJSON(w, fc) })
 	case "gpx":
-		out := plan.GPXOutput{Name: "RF-exposure keep-out"}
+		out := gpx.Output{Name: "RF-exposure keep-out"}
 		for _, s := range sites {
 			for _, tier := range []struct {
 				name string
@@ -294,20 +246,20 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 				if tier.r <= 0 {
 					continue
 				}
-				poly, err := plan.KeepOutCircle(s.pos, tier.r)
+				poly, err := exposure.KeepOutCircle(s.pos, tier.r)
 				if err != nil {
 					return err
 				}
-				rt := plan.Track{Name: fmt.Sprintf("%s keep-out (%s) %.1f m", s.name, tier.name, up(tier.r))}
+				rt := gpx.Track{Name: fmt.Sprintf("%s keep-out (%s) %.1f m", s.name, tier.name, up(tier.r))}
 				for _, p := range poly[0] {
-					rt.Points = append(rt.Points, plan.Place{Pos: p, ElevM: math.NaN()})
+					rt.Points = append(rt.Points, gpx.Place{Pos: p, ElevM: math.NaN()})
 				}
 				out.Routes = append(out.Routes, rt)
 			}
-			out.Waypoints = append(out.Waypoints, plan.Place{Name: s.name + " antenna", Pos: s.pos, ElevM: math.NaN(),
+			out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.name + " antenna", Pos: s.pos, ElevM: math.NaN(),
 				Description: fmt.Sprintf("keep the public %.1f m away while transmitting", up(s.rep.KeepoutPublicM))})
 		}
-		b, err := plan.EncodeGPX(out)
+		b, err := gpx.Encode(out)
 		if err != nil {
 			return err
 		}
@@ -326,7 +278,7 @@ func keepoutGeoJSON(sites []keepoutSite) (*geojson.FeatureCollection, error) {
 		}{{"public", s.rep.KeepoutPublicM, s.rep.DistancePublicM}, {"occupational", s.rep.KeepoutOccupationalM, s.rep.DistanceOccupationalM}} {
 			var geom orb.Geometry = s.pos
 			if tier.r > 0 {
-				poly, err := plan.KeepOutCircle(s.pos, tier.r)
+				poly, err := exposure.KeepOutCircle(s.pos, tier.r)
 				if err != nil {
 					return nil, err
 				}
@@ -345,5 +297,3 @@ func keepoutGeoJSON(sites []keepoutSite) (*geojson.FeatureCollection, error) {
 	}
 	return fc, nil
 }
-
-func round2(v float64) float64 { return math.Round(v*100) / 100 }

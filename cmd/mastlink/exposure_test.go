@@ -8,18 +8,18 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // TestExposureCommand checks the command end to end against the compliance
-// distances of REFERENCES §8, computed from FCC OET Bulletin 65 (far field,
+// distances computed from FCC OET Bulletin 65 (ed. 97-01) eq. 6 (far field,
 // ground-reflection factor 2.56) with the 47 CFR § 1.1310 Table 1 limits.
 func TestExposureCommand(t *testing.T) {
 	cases := []struct {
 		power, freq string
 		public, occ float64 // m
 	}{
-		{"50W", "146", 2.89, 1.29}, // REFERENCES §8 [calc], continuous FM, 2.15 dBi
+		{"50W", "146", 2.89, 1.29}, // computed from OET Bulletin 65 eq. 6 and 47 CFR § 1.1310 Table 1, continuous FM, 2.15 dBi
 		{"5W", "146", 0.91, 0.41},
 		{"50W", "446", 2.37, 1.06},
 	}
@@ -45,7 +45,7 @@ func TestExposureCommand(t *testing.T) {
 
 // TestExposureCycle: 250 W FM, 5 min on / 5 min off averages to 208.3 W over
 // 6 min and 125 W over 30 min (OET Bulletin 65 Supplement B worked example,
-// recomputed with the worst-case window; REFERENCES §8).
+// recomputed with the worst-case window).
 func TestExposureCycle(t *testing.T) {
 	out, _, code := runCmd(t, "exposure", "--power", "250W", "--freq", "146", "--on", "5m", "--off", "5m", "--format", "json")
 	if code != 0 {
@@ -61,7 +61,7 @@ func TestExposureCycle(t *testing.T) {
 }
 
 // TestExposureExemptAt: 146 MHz is exempt at 5 m up to 95.8 W ERP and at
-// 2 m up to 15.3 W (47 CFR § 1.1307(b)(3)(i)(C), 3.83 R²; REFERENCES §8).
+// 2 m up to 15.3 W (47 CFR § 1.1307(b)(3)(i)(C) table, 3.83 R² at 30–300 MHz).
 // 20 W into a dipole (2.15 dBi: ERP 20 W) continuously is therefore exempt
 // for people 5 m away and not for people 2 m away.
 func TestExposureExemptAt(t *testing.T) {
@@ -91,7 +91,7 @@ func TestExposureText(t *testing.T) {
 		}
 	}
 	// An antenna higher than the compliance distance needs no keep-out
-	// (REFERENCES §8 keep-out geometry).
+	// (keep-out geometry: √(R² − (h_a − h_p)²), plain geometry).
 	out, _, _ = runCmd(t, "exposure", "--power", "5W", "--gain", "2.15dBi", "--freq", "146.52", "--height", "6m")
 	if !strings.Contains(out, "no keep-out zone is needed") {
 		t.Errorf("high antenna: %s", out)
@@ -108,7 +108,7 @@ func TestExposureErrors(t *testing.T) {
 		{[]string{"--power", "5W", "--freq", "146", "--mode", "am"}, "--mode"},
 		{[]string{"--power", "5W", "--freq", "146", "--standard", "osha"}, "--standard"},
 		{[]string{"--power", "5W", "--freq", "146", "--reflection", "3"}, "--reflection"},
-		{[]string{"--power", "5W", "--freq", "146", "--on", "2m"}, "--on and --off go together"},
+		{[]string{"--power", "5W", "--freq", "146", "--on", "2m"}, "--off: invalid exposure input: on and off go together"},
 		{[]string{"--power", "5W", "--freq", "146", "--tx-time", "0%"}, "--tx-time"},
 		{[]string{"--power", "5W", "--freq", "146", "-o", "x.geojson"}, "--at"},
 	}
@@ -147,7 +147,7 @@ func TestExposureKeepoutFiles(t *testing.T) {
 	if _, stderr, code := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146.52", "--height", "3m", "--at", "-48.535,-123.9633", "-o", gp); code != 0 {
 		t.Fatal(stderr)
 	}
-	g, err := plan.ReadGPX(gp)
+	g, err := gpx.Read(gp)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -7,8 +7,8 @@ import (
 
 // TestFeedlineSWR runs the command end to end on a cable whose matched loss
 // is exactly 1 or 3 dB, and checks the total against the lossy-line SWR
-// formula values of REFERENCES §7 (transmission-line handbook formula, from
-// memory; values computed from it).
+// formula TL = 10 log10[(a² − Γ²)/(a (1 − Γ²))] (the usual
+// transmission-line-handbook formula, from memory; values computed from it).
 func TestFeedlineSWR(t *testing.T) {
 	cases := []struct {
 		cable string
@@ -39,7 +39,7 @@ func TestFeedlineSWR(t *testing.T) {
 }
 
 // TestFeedlineConnectors: 0.1 dB per mated pair is common practice at
-// VHF/UHF (REFERENCES §7).
+// VHF/UHF.
 func TestFeedlineConnectors(t *testing.T) {
 	out, _, code := runCmd(t, "feedline", "--cable", "RG-58", "--length", "0", "--connectors", "3", "--format", "json")
 	if code != 0 {

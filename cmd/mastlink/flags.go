@@ -3,10 +3,12 @@ package main
 import (
 	"errors"
 	"fmt"
-	"strconv"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
@@ -29,25 +31,19 @@ func addEnvFlags(cmd *cobra.Command, e *envFlags) {
 
 // env builds the link environment from the flags (terrain not yet set).
 func (e *envFlags) env() (*plan.Env, error) {
-	env := &plan.Env{Vertical: true}
+	env := &plan.Env{}
 	var err error
-	if env.K, err = kFactor(e.k); err != nil {
+	if env.K, err = quantity("k", e.k, units.ParseKFactor); err != nil {
 		return nil, err
 	}
 	if env.Model, err = propagation.ModelByName(e.model); err != nil {
 		return nil, usagef("--model: %q is not a model (use %s)", e.model, strings.Join(propagation.ModelNames(), " or "))
 	}
-	switch e.polarization {
-	case "vertical", "horizontal":
-		env.Vertical = e.polarization == "vertical"
-	default:
-		return nil, usagef("--polarization: %q is not vertical or horizontal", e.polarization)
+	if env.Polarization, err = plan.ParsePolarization(e.polarization); err != nil {
+		return nil, usagef("--polarization: %v", err)
 	}
-	switch e.ground {
-	case "land", "sea":
-		env.Sea = e.ground == "sea"
-	default:
-		return nil, usagef("--ground: %q is not land or sea", e.ground)
+	if env.Ground, err = plan.ParseGround(e.ground); err != nil {
+		return nil, usagef("--ground: %v", err)
 	}
 	if env.StepM, err = e.stepM(); err != nil {
 		return nil, err
@@ -60,7 +56,7 @@ func (e *envFlags) stepM() (float64, error) {
 	if e.step == "" {
 		return 0, nil
 	}
-	v, err := quantity("step", e.step, plan.ParseLengthM)
+	v, err := quantity("step", e.step, units.ParseLengthM)
 	if err != nil {
 		return 0, err
 	}
@@ -80,48 +76,36 @@ func quantity(flag, value string, fn func(string) (float64, error)) (float64, er
 	return v, nil
 }
 
-// kFactor parses --k: a number or a fraction such as 4/3.
-func kFactor(value string) (float64, error) {
-	var k float64
-	if a, b, ok := strings.Cut(value, "/"); ok {
-		x, e1 := strconv.ParseFloat(strings.TrimSpace(a), 64)
-		y, e2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
-		if e1 != nil || e2 != nil || y == 0 {
-			return 0, usagef("--k: %q is not a k-factor (write e.g. 4/3 or 1.333)", value)
-		}
-		k = x / y
-	} else {
-		x, err := strconv.ParseFloat(strings.TrimSpace(value), 64)
-		if err != nil {
-			return 0, usagef("--k: %q is not a k-factor (write e.g. 4/3 or 1.333)", value)
-		}
-		k = x
+// optionUsage turns an error of a group of options parsed together
+// (units.OptionError: the requirement, the exposure habits) into a usage
+// error naming the flag, "--tx-time" for the key "tx_time".
+func optionUsage(err error) error {
+	var oe *units.OptionError
+	if errors.As(err, &oe) {
+		return usagef("--%s: %v", strings.ReplaceAll(oe.Option, "_", "-"), oe.Err)
 	}
-	if !(k >= 0.5 && k <= 10) {
-		return 0, usagef("--k: %g is outside 0.5 to 10 (4/3 is the usual median)", k)
-	}
-	return k, nil
+	return usageError{err}
 }
 
 // pointResolver turns LAT,LON or a waypoint name into a position.
 type pointResolver struct {
 	file string // --waypoints
-	gpx  *plan.GPXFile
+	gpx  *gpx.File
 }
 
 func (r *pointResolver) resolve(flag, value string) (orb.Point, string, error) {
-	p, err := plan.ParsePoint(value)
+	p, err := units.ParsePoint(value)
 	if err == nil {
 		return p, fmt.Sprintf("%.5f,%.5f", p.Lat(), p.Lon()), nil
 	}
-	if !errors.Is(err, plan.ErrSyntax) {
+	if !errors.Is(err, units.ErrSyntax) {
 		return orb.Point{}, "", usagef("%s: %v", flag, err)
 	}
 	if r.file == "" {
 		return orb.Point{}, "", usagef("%s: %q is not LAT,LON; to use a waypoint name, give its GPX file with --waypoints", flag, value)
 	}
 	if r.gpx == nil {
-		g, err := plan.ReadGPX(r.file)
+		g, err := gpx.Read(r.file)
 		if err != nil {
 			return orb.Point{}, "", fmt.Errorf("--waypoints: %w", err)
 		}
@@ -138,10 +122,21 @@ func addWaypointsFlag(cmd *cobra.Command, r *pointResolver) {
 	cmd.Flags().StringVar(&r.file, "waypoints", "", "GPX file whose waypoint names may stand for points")
 }
 
+// endFlags are the kit flags of one end of a link. The flags are named
+// prefix+"power", prefix+"gain", …; the sensitivity flag has its own name
+// (--rx-sens, --sens, --to-sens), kept in sensFlag so errors name it.
+type endFlags struct {
+	prefix                                             string // "" or "to-"
+	power, gain, height, cable, cableLength, swr, sens string
+	sensFlag                                           string // the sensitivity flag, without "--"; "" when the end has none
+	connectors                                         int
+}
+
 // addKitFlags registers the antenna and feedline flags of one end of a link:
 // prefix is "" or "to-", what ("transmitting ", "receiving " or "") words
 // the help. With power, the end's transmitter power too.
 func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power bool) {
+	e.prefix = prefix
 	f := cmd.Flags()
 	if power {
 		f.StringVar(&e.power, prefix+"power", "5W", "transmitter power [W]")
@@ -152,4 +147,70 @@ func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power boo
 	f.StringVar(&e.cableLength, prefix+"cable-length", "", what+"feedline length [m]")
 	f.IntVar(&e.connectors, prefix+"connectors", 0, "mated connector pairs in the "+what+"feedline")
 	f.StringVar(&e.swr, prefix+"swr", "1", "SWR at the "+what+"antenna")
+}
+
+// addSensFlag registers the receiver-sensitivity flag of an end.
+func addSensFlag(cmd *cobra.Command, e *endFlags, name, help string) {
+	e.sensFlag = name
+	cmd.Flags().StringVar(&e.sens, name, "0.25uV", help)
+}
+
+// end builds one end of a link from its flags, named name. A flag left
+// empty leaves its part of the kit at zero (no power, no sensitivity, 0 m);
+// without --cable there is no feedline, but --swr and --connectors still
+// apply to the line a mast sweep gives the end. Errors name the flag.
+func (e *endFlags) end(name string) (plan.End, error) {
+	out := plan.End{Name: name}
+	p := e.prefix
+	var err error
+	if e.power != "" {
+		if out.Radio.PowerW, err = quantity(p+"power", e.power, units.ParsePowerW); err != nil {
+			return out, err
+		}
+	}
+	if e.sens != "" {
+		if out.Radio.SensitivityDBm, err = quantity(e.sensFlag, e.sens, units.ParseSensitivityDBm); err != nil {
+			return out, err
+		}
+	}
+	if e.gain != "" {
+		if out.Antenna.GainDBi, err = quantity(p+"gain", e.gain, units.ParseGainDBi); err != nil {
+			return out, err
+		}
+	}
+	if e.height != "" {
+		if out.Antenna.HeightM, err = quantity(p+"height", e.height, units.ParseLengthM); err != nil {
+			return out, err
+		}
+	}
+	if e.connectors < 0 {
+		return out, usagef("--%sconnectors: give 0 or more", p)
+	}
+	swr := 1.0
+	if e.swr != "" {
+		if swr, err = quantity(p+"swr", e.swr, units.ParseSWR); err != nil {
+			return out, err
+		}
+	}
+	if e.cable == "" {
+		if e.cableLength != "" {
+			return out, usagef("--%scable-length needs --%scable", p, p)
+		}
+		out.Feedline = feedline.Line{SWR: swr, Connectors: e.connectors}
+		return out, nil
+	}
+	c, err := feedline.ResolveCable(e.cable)
+	if err != nil {
+		return out, usagef("--%scable: %v", p, err)
+	}
+	if e.cableLength == "" {
+		return out, usagef("--%scable needs --%scable-length", p, p)
+	}
+	l, err := quantity(p+"cable-length", e.cableLength, units.ParseLengthM)
+	if err != nil {
+		return out, err
+	}
+	out.Feedline = feedline.NewLine(c, l)
+	out.Feedline.SWR, out.Feedline.Connectors = swr, e.connectors
+	return out, nil
 }

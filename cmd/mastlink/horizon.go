@@ -1,14 +1,14 @@
 package main
 
 import (
+	"context"
 	"fmt"
+	"io"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newHorizonCmd) }
 
 type horizonOptions struct {
 	height, toHeight, k string
@@ -36,7 +36,7 @@ the longest line-of-sight path between the two.`,
 		Example: "  mastlink horizon --height 9m --to-height 20m\n  mastlink horizon --height 30ft --k 1",
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runHorizon(g, o)
+			return runHorizon(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
@@ -47,16 +47,16 @@ the longest line-of-sight path between the two.`,
 	return cmd
 }
 
-func runHorizon(g *globals, o *horizonOptions) error {
-	h, err := quantity("height", o.height, plan.ParseLengthM)
+func runHorizon(ctx context.Context, g *globals, o *horizonOptions, args []string) error {
+	h, err := quantity("height", o.height, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
-	h2, err := quantity("to-height", o.toHeight, plan.ParseLengthM)
+	h2, err := quantity("to-height", o.toHeight, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
-	k, err := kFactor(o.k)
+	k, err := quantity("k", o.k, units.ParseKFactor)
 	if err != nil {
 		return err
 	}
@@ -67,25 +67,18 @@ func runHorizon(g *globals, o *horizonOptions) error {
 		ToHorizonM: propagation.RadioHorizonKM(h2, 0, ae) * 1000,
 		CombinedM:  propagation.RadioHorizonKM(h, h2, ae) * 1000,
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, r)
-	case "csv":
-		return writeCSV(g.stdout, []string{"k", "height_m", "to_height_m", "horizon_m", "to_horizon_m", "combined_m"},
+	return g.emit(r, func(w io.Writer) error {
+		return writeCSV(w, []string{"k", "height_m", "to_height_m", "horizon_m", "to_horizon_m", "combined_m"},
 			[][]string{{f4(r.K), f2(h), f2(h2), f1(r.HorizonM), f1(r.ToHorizonM), f1(r.CombinedM)}})
-	}
-	im := g.imperial()
-	w := g.stdout
-	fmt.Fprintf(w, "Radio horizon over a smooth earth (k = %.3f, effective radius %.0f km)\n", k, ae)
-	fmt.Fprintf(w, "  antenna at %-10s horizon %s\n", plan.FormatHeight(h, im), plan.FormatLength(r.HorizonM, im))
-	if h2 > 0 {
-		fmt.Fprintf(w, "  far antenna at %-6s horizon %s\n", plan.FormatHeight(h2, im), plan.FormatLength(r.ToHorizonM, im))
-		fmt.Fprintf(w, "  the two see each other up to %s apart over flat ground or sea\n", plan.FormatLength(r.CombinedM, im))
-	}
-	fmt.Fprintln(w, "Hills and buildings shorten this; use `mastlink link` for a path over terrain.")
-	return nil
+	}, func(w io.Writer) error {
+		im := g.imperial()
+		fmt.Fprintf(w, "Radio horizon over a smooth earth (k = %.3f, effective radius %.0f km)\n", k, ae)
+		fmt.Fprintf(w, "  antenna at %-10s horizon %s\n", units.FormatHeight(h, im), units.FormatLength(r.HorizonM, im))
+		if h2 > 0 {
+			fmt.Fprintf(w, "  far antenna at %-6s horizon %s\n", units.FormatHeight(h2, im), units.FormatLength(r.ToHorizonM, im))
+			fmt.Fprintf(w, "  the two see each other up to %s apart over flat ground or sea\n", units.FormatLength(r.CombinedM, im))
+		}
+		_, err := fmt.Fprintln(w, "Hills and buildings shorten this; use `mastlink link` for a path over terrain.")
+		return err
+	})
 }
-
-func f1(v float64) string { return fmt.Sprintf("%.1f", v) }
-func f2(v float64) string { return fmt.Sprintf("%.2f", v) }
-func f4(v float64) string { return fmt.Sprintf("%.4f", v) }

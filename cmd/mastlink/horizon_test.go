@@ -6,8 +6,8 @@ import (
 )
 
 // TestHorizon checks the radio horizon against the check values of ITU-R
-// P.526-16 eq. 21 with k = 4/3 (d ≈ 4.12 √h km; REFERENCES §1, computed from
-// the published formula).
+// P.526-16 eq. 21 with k = 4/3 (d ≈ 4.12 √h km, computed from the
+// published formula).
 func TestHorizon(t *testing.T) {
 	cases := []struct {
 		h, h2    string

@@ -1,28 +1,25 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
+	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newLinkCmd) }
-
-// endFlags are the kit flags of one end of a link.
-type endFlags struct {
-	power, gain, height, cable, cableLength, swr, sens string
-	connectors                                         int
-}
 
 type linkOptions struct {
 	from, to, freq string
 	tx, rx         endFlags
 	envFlags
-	sigma, reliability, profile, margin string
-	points                              pointResolver
+	req     plan.RequirementOptions // --margin, --reliability, --sigma
+	profile string
+	points  pointResolver
 }
 
 func newLinkCmd(g *globals) *cobra.Command {
@@ -44,7 +41,7 @@ smooth earth. --profile takes the terrain from a CSV file instead.`,
 			"    --to-gain 6dBi --to-height 20m --rx-sens -122dBm",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runLink(g, o)
+			return runLink(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
@@ -53,65 +50,15 @@ smooth earth. --profile takes the terrain from a CSV file instead.`,
 	f.StringVar(&o.freq, "freq", "", "frequency [MHz] (required)")
 	addKitFlags(cmd, &o.tx, "", "transmitting ", true)
 	addKitFlags(cmd, &o.rx, "to-", "receiving ", false)
-	f.StringVar(&o.rx.sens, "rx-sens", "0.25uV", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
-	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] for the probability of working")
-	f.StringVar(&o.reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: gives the margin needed")
-	f.StringVar(&o.margin, "margin", "", "wanted fade margin [dB]")
+	addSensFlag(cmd, &o.rx, "rx-sens", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
+	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] for the probability of working")
+	f.StringVar(&o.req.Reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: gives the margin needed")
+	f.StringVar(&o.req.Margin, "margin", "", "wanted fade margin [dB]")
 	f.StringVar(&o.profile, "profile", "", "terrain profile CSV (distance_m or distance_km, elevation_m, optional clutter_m) instead of elevation data")
 	addEnvFlags(cmd, &o.envFlags)
 	addWaypointsFlag(cmd, &o.points)
 	_ = cmd.MarkFlagRequired("freq")
 	return cmd
-}
-
-// end builds one end of the link from its flags; prefix names the flags
-// ("" or "to-").
-func (e endFlags) end(name, prefix string, withPower bool) (plan.End, error) {
-	var out plan.End
-	out.Name = name
-	var err error
-	if withPower {
-		if out.Radio.PowerW, err = quantity(prefix+"power", e.power, plan.ParsePowerW); err != nil {
-			return out, err
-		}
-	}
-	if e.sens != "" {
-		if out.Radio.SensitivityDBm, err = quantity("rx-sens", e.sens, plan.ParseSensitivityDBm); err != nil {
-			return out, err
-		}
-	}
-	if out.Antenna.GainDBi, err = quantity(prefix+"gain", e.gain, plan.ParseGainDBi); err != nil {
-		return out, err
-	}
-	if out.Antenna.HeightM, err = quantity(prefix+"height", e.height, plan.ParseLengthM); err != nil {
-		return out, err
-	}
-	if e.cable == "" {
-		if e.cableLength != "" {
-			return out, usagef("--%scable-length needs --%scable", prefix, prefix)
-		}
-		return out, nil
-	}
-	c, err := plan.ResolveCable(e.cable)
-	if err != nil {
-		return out, usagef("--%scable: %v", prefix, err)
-	}
-	if e.cableLength == "" {
-		return out, usagef("--%scable needs --%scable-length", prefix, prefix)
-	}
-	l, err := quantity(prefix+"cable-length", e.cableLength, plan.ParseLengthM)
-	if err != nil {
-		return out, err
-	}
-	out.Feedline = plan.NewFeedline(c, l)
-	out.Feedline.Connectors = e.connectors
-	if e.connectors < 0 {
-		return out, usagef("--%sconnectors: give 0 or more", prefix)
-	}
-	if out.Feedline.SWR, err = quantity(prefix+"swr", e.swr, plan.ParseSWR); err != nil {
-		return out, err
-	}
-	return out, nil
 }
 
 // linkOutput is the JSON of `mastlink link`.
@@ -125,8 +72,8 @@ type linkOutput struct {
 	SMeter  string  `json:"s_meter"`
 }
 
-func runLink(g *globals, o *linkOptions) error {
-	freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) error {
+	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
 	}
@@ -134,28 +81,16 @@ func runLink(g *globals, o *linkOptions) error {
 	if err != nil {
 		return err
 	}
-	if env.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
-		return err
+	var req plan.Requirement
+	if err := o.req.Apply(&req); err != nil {
+		return optionUsage(err)
 	}
-	req := plan.Requirement{SigmaDB: env.SigmaDB}
-	if o.reliability != "" {
-		if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
-			return err
-		}
-		if !(req.Reliability > 0 && req.Reliability < 1) {
-			return usagef("--reliability: give a fraction above 0%% and below 100%%")
-		}
-	}
-	if o.margin != "" {
-		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
-			return err
-		}
-	}
+	env.SigmaDB = req.SigmaDB
 	var geo *plan.Geometry
 	out := linkOutput{SigmaDB: env.SigmaDB}
 	fromName, toName := "transmitter", "receiver"
 	if o.profile != "" {
-		pc, err := plan.ReadProfileCSV(o.profile)
+		pc, err := terrain.ReadProfileCSV(o.profile)
 		if err != nil {
 			return fmt.Errorf("--profile: %w", err)
 		}
@@ -188,12 +123,11 @@ func runLink(g *globals, o *linkOptions) error {
 		}
 		g.warnMissing(env.Terrain)
 	}
-	tx, err := o.tx.end(fromName, "", true)
+	tx, err := o.tx.end(fromName)
 	if err != nil {
 		return err
 	}
-	o.rx.power = ""
-	rx, err := o.rx.end(toName, "to-", false)
+	rx, err := o.rx.end(toName)
 	if err != nil {
 		return err
 	}
@@ -201,21 +135,15 @@ func runLink(g *globals, o *linkOptions) error {
 	if err != nil {
 		return err
 	}
-	if o.margin != "" || o.reliability != "" {
+	if o.req.Margin != "" || o.req.Reliability != "" {
 		need := req.NeededMarginDB()
 		ok := r.MarginDB >= need
 		r.NeededMarginDB, r.MeetsRequirement = &need, &ok
 	}
 	out.LinkResult = r
-	out.SMeter = plan.SMeter(r.RxPowerDBm)
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
-		return writeCSV(g.stdout, linkCSVHeader, [][]string{linkCSVRow(r)})
-	}
-	renderLinkText(g.stdout, out, tx, rx, g.imperial())
-	return nil
+	out.SMeter = units.SMeter(r.RxPowerDBm)
+	return g.emit(out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
+		func(w io.Writer) error { renderLinkText(w, out, tx, rx, g.imperial()); return nil })
 }
 
 var linkCSVHeader = []string{"from", "to", "direction", "freq_mhz", "distance_m", "azimuth_deg", "model", "free_space_loss_db", "excess_loss_db", "path_loss_db",
@@ -237,16 +165,11 @@ func linkCSVRow(r plan.LinkResult) []string {
 		opt(r.WorstClearanceF1, f2), opt(r.Probability, f4), meets}
 }
 
-var modelNames = map[string]string{
-	"terrain":    "ITU-R P.526-16 diffraction over the terrain (delta-Bullington)",
-	"free-space": "free space (ITU-R P.525), terrain ignored",
-}
-
 // renderLinkText writes one link budget in plain trade words.
 func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	r := o.LinkResult
-	fmt.Fprintf(w, "%s → %s at %s\n", r.From, r.To, plan.FormatFreq(r.FreqMHz))
-	fmt.Fprintf(w, "  distance %s, bearing %.1f° true\n", plan.FormatLength(r.DistanceM, im), r.AzimuthDeg)
+	fmt.Fprintf(w, "%s → %s at %s\n", r.From, r.To, units.FormatFreq(r.FreqMHz))
+	fmt.Fprintf(w, "  distance %s, bearing %.1f° true\n", units.FormatLength(r.DistanceM, im), r.AzimuthDeg)
 	terr := "elevation data"
 	switch r.Terrain {
 	case "smooth earth":
@@ -254,11 +177,11 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	case "profile file":
 		terr = "the profile file"
 	}
-	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, plan.FormatHeight(r.TxGroundM, im), plan.FormatHeight(r.RxGroundM, im))
-	fmt.Fprintf(w, "  model: %s\n", modelNames[r.Model])
+	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, units.FormatHeight(r.TxGroundM, im), units.FormatHeight(r.RxGroundM, im))
+	fmt.Fprintf(w, "  model: %s\n", propagation.ModelDescription(r.Model))
 	fmt.Fprintf(w, "  path: %s\n\n", pathSummary(r, im))
 	t := newTable(w)
-	t.row("  transmitter power", plan.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
+	t.row("  transmitter power", units.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
 	t.row("  transmit feedline"+lineName(tx), "", db(-r.TxFeedlineLossDB))
 	t.row("  transmit antenna gain", "", dbi(r.TxGainDBi))
 	t.row("  EIRP", "", dbm(r.EIRPDBm))
@@ -266,8 +189,8 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
 	t.row("  receive antenna gain", "", dbi(r.RxGainDBi))
 	t.row("  receive feedline"+lineName(rx), "", db(-r.RxFeedlineLossDB))
-	t.row("  received level", plan.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
-	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", plan.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
+	t.row("  received level", units.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
+	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", units.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
 	t.row("  margin", "", db(r.MarginDB))
 	if r.Probability != nil {
 		t.row(fmt.Sprintf("  chance of working here (σ %.1f dB)", o.SigmaDB), "", probability(*r.Probability))
@@ -291,7 +214,7 @@ func pathSummary(r plan.LinkResult, im bool) string {
 	}
 	if r.WorstClearanceF1 != nil && r.Obstacle != nil {
 		c := *r.WorstClearanceF1
-		where := fmt.Sprintf("%s from the transmitter (ground %s)", plan.FormatLength(r.Obstacle.DistanceM, im), plan.FormatHeight(r.Obstacle.ElevationM, im))
+		where := fmt.Sprintf("%s from the transmitter (ground %s)", units.FormatLength(r.Obstacle.DistanceM, im), units.FormatHeight(r.Obstacle.ElevationM, im))
 		switch {
 		case c >= 1:
 			s += fmt.Sprintf(", first Fresnel zone clear (worst %.2f of it, %s)", c, where)
@@ -319,26 +242,4 @@ func verdict(r plan.LinkResult) string {
 	default:
 		return fmt.Sprintf("Not expected to work: %.1f dB below the receiver's sensitivity.", -r.MarginDB)
 	}
-}
-
-func dbm(v float64) string { return signed(v) + " dBm" }
-func db(v float64) string  { return signed(v) + " dB" }
-func dbi(v float64) string { return signed(v) + " dBi" }
-
-// signed formats v with one decimal and a sign, never as "-0.0".
-func signed(v float64) string {
-	if math.Abs(v) < 0.05 {
-		return "0.0"
-	}
-	return fmt.Sprintf("%+.1f", v)
-}
-
-func probability(p float64) string {
-	switch {
-	case p > 0.999:
-		return "over 99.9 %"
-	case p < 0.001:
-		return "under 0.1 %"
-	}
-	return fmt.Sprintf("%.1f %%", 100*p)
 }

@@ -8,6 +8,8 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
 
@@ -15,7 +17,7 @@ import (
 // the worst margin in each cell, marked where it meets the requirement.
 func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	fmt.Fprintf(w, "Mast and cable for %s (cable = mast height + %s run + %s slack; worst margin over every required link, * meets %.1f dB)\n",
-		m.Station, plan.FormatLength(m.RunM, im), plan.FormatLength(m.SlackM, im), m.NeededMarginDB)
+		m.Station, units.FormatLength(m.RunM, im), units.FormatLength(m.SlackM, im), m.NeededMarginDB)
 	var cables []string
 	seen := map[string]bool{}
 	heights := []float64{}
@@ -36,7 +38,7 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	t := newTable(w)
 	t.row(append([]string{"  mast"}, cables...)...)
 	for _, h := range heights {
-		row := []string{"  " + plan.FormatHeight(h, im)}
+		row := []string{"  " + units.FormatHeight(h, im)}
 		for _, c := range cables {
 			r := cell[fmt.Sprintf("%g|%s", h, c)]
 			mark := " "
@@ -51,25 +53,24 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	switch {
 	case m.Recommended != nil:
 		r := m.Recommended
-		fmt.Fprintf(w, "Recommended: a %s mast with %s %s (%.1f kg of cable).\n\n", plan.FormatHeight(r.HeightM, im), plan.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
+		fmt.Fprintf(w, "Recommended: a %s mast with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
 	case m.Closest != nil:
 		c := m.Closest
 		fmt.Fprintf(w, "Nothing in the sweep meets the requirement. Closest: %s mast with %s, worst margin %+.1f dB on %s (%.1f dB short).\n\n",
-			plan.FormatHeight(c.HeightM, im), c.Cable, c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
+			units.FormatHeight(c.HeightM, im), c.Cable, c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
 	}
 	fmt.Fprintln(w, strings.TrimSpace(`Raise masts only where a falling mast cannot reach a power line; guy them against wind
 and do not raise them in storms.`))
 	fmt.Fprintln(w)
 }
 
-func init() { commandConstructors = append(commandConstructors, newMastCmd) }
-
 type mastOptions struct {
-	planFile, station                string
-	heights, cables, run, slack      string
-	link                             linkOptions
-	toPower, toSens                  string
-	margin, reliability, sigma, freq string
+	planFile, station           string
+	heights, cables, run, slack string
+	from, to, freq, k           string
+	station0, target            endFlags                // the station's kit (power, gain, sens, swr, connectors) and the target's (--to-…)
+	req                         plan.RequirementOptions // --margin, --reliability, --sigma
+	points                      pointResolver
 }
 
 func newMastCmd(g *globals) *cobra.Command {
@@ -88,107 +89,97 @@ With --plan the station, targets and requirement come from a plan file
 (--from, with link's station flags) and one simplex target (--to, with the
 --to- flags) are checked both ways on --freq.`,
 		Example: "  mastlink mast --plan examples/valley/plan.yaml\n" +
-			"  mastlink mast --plan examples/valley/plan.yaml --heights 2m..8m step 0.5m --cables RG-58,RG-8X\n" +
+			"  mastlink mast --plan examples/valley/plan.yaml --heights '2m..8m step 0.5m' --cables RG-58,RG-8X\n" +
 			"  mastlink mast --dem examples/terrain --waypoints examples/valley/points.gpx --from \"Marrowind Bend\" \\\n" +
-			"    --to \"Team Alder, Quillet Glen\" --freq 146.55 --power 25W --gain 2.15dBi --heights 2m..12m step 1m \\\n" +
+			"    --to \"Team Alder, Quillet Glen\" --freq 146.55 --power 25W --gain 2.15dBi --heights '2m..12m step 1m' \\\n" +
 			"    --cables RG-58,RG-8X,RG-213 --run 10m --margin 10dB",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runMast(cmd.Context(), g, o)
+			return runMast(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
 	f.StringVar(&o.planFile, "plan", "", "plan file: station, targets and requirement")
 	f.StringVar(&o.station, "station", "", "with --plan: the station to sweep (default: the first)")
-	f.StringVar(&o.heights, "heights", "", "mast heights to try, e.g. 2m..12m step 1m")
+	f.StringVar(&o.heights, "heights", "", "mast heights to try, e.g. '2m..12m step 1m' (quote it: it holds spaces)")
 	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (see `mastlink feedline --list`)")
 	f.StringVar(&o.run, "run", "", "cable from the mast foot to the radio [m]")
 	f.StringVar(&o.slack, "slack", "", "extra cable for loops and the mast head [m] (default 1m)")
-	f.StringVar(&o.margin, "margin", "", "required fade margin [dB]")
-	f.StringVar(&o.reliability, "reliability", "", "required fraction of locations, e.g. 90%")
-	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
-	l := &o.link
-	f.StringVar(&l.from, "from", "", "station position: LAT,LON or waypoint")
-	f.StringVar(&l.to, "to", "", "target position: LAT,LON or waypoint")
+	f.StringVar(&o.req.Margin, "margin", "", "required fade margin [dB]")
+	f.StringVar(&o.req.Reliability, "reliability", "", "required fraction of locations, e.g. 90%")
+	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
+	f.StringVar(&o.from, "from", "", "station position: LAT,LON or waypoint")
+	f.StringVar(&o.to, "to", "", "target position: LAT,LON or waypoint")
 	f.StringVar(&o.freq, "freq", "", "frequency [MHz]")
-	f.StringVar(&l.tx.power, "power", "5W", "station transmitter power [W]")
-	f.StringVar(&l.tx.gain, "gain", "0dBi", "station antenna gain [dBi]")
-	f.StringVar(&l.tx.sens, "sens", "0.25uV", "station receiver sensitivity [dBm]")
-	f.StringVar(&l.tx.swr, "swr", "1", "SWR at the station antenna")
-	f.IntVar(&l.tx.connectors, "connectors", 0, "mated connector pairs in the station feedline")
-	f.StringVar(&o.toPower, "to-power", "5W", "target transmitter power [W]")
-	f.StringVar(&l.rx.gain, "to-gain", "0dBi", "target antenna gain [dBi]")
-	f.StringVar(&l.rx.height, "to-height", "1.5m", "target antenna height [m]")
-	f.StringVar(&o.toSens, "to-sens", "0.25uV", "target receiver sensitivity [dBm]")
-	f.StringVar(&l.k, "k", "4/3", "effective earth-radius factor")
-	addWaypointsFlag(cmd, &l.points)
+	st, tg := &o.station0, &o.target
+	tg.prefix = "to-"
+	f.StringVar(&st.power, "power", "5W", "station transmitter power [W]")
+	f.StringVar(&st.gain, "gain", "0dBi", "station antenna gain [dBi]")
+	addSensFlag(cmd, st, "sens", "station receiver sensitivity [dBm]")
+	f.StringVar(&st.swr, "swr", "1", "SWR at the station antenna")
+	f.IntVar(&st.connectors, "connectors", 0, "mated connector pairs in the station feedline")
+	f.StringVar(&tg.power, "to-power", "5W", "target transmitter power [W]")
+	f.StringVar(&tg.gain, "to-gain", "0dBi", "target antenna gain [dBi]")
+	f.StringVar(&tg.height, "to-height", "1.5m", "target antenna height [m]")
+	addSensFlag(cmd, tg, "to-sens", "target receiver sensitivity [dBm]")
+	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
+	addWaypointsFlag(cmd, &o.points)
 	return cmd
 }
 
-func runMast(ctx context.Context, g *globals, o *mastOptions) error {
+// runMast sweeps the station of --plan (Plan.StationNamed), or the one
+// station and target given by flags, over the mast heights and cables. It
+// reads its options and never changes them.
+func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) error {
 	var (
 		env     *plan.Env
 		st      plan.Station
 		targets []plan.Target
-		sweep   plan.MastSweep
+		sweep   = plan.MastSweep{SlackM: 1}
 		req     plan.Requirement
 		inputs  []string
 	)
-	sweep.SlackM = 1
 	if o.planFile != "" {
 		p, e, err := loadPlan(g, o.planFile)
 		if err != nil {
 			return err
 		}
+		if st, err = p.StationNamed(o.station); err != nil {
+			return usagef("--station: %v", err)
+		}
 		env, targets, req, inputs = e, p.Targets, p.Require, p.InputFiles
-		found := false
-		for _, s := range p.Stations {
-			if o.station == "" || strings.EqualFold(s.Name, o.station) {
-				st, found = s, true
-				break
-			}
-		}
-		if !found {
-			return usagef("--station: %q is not a station of %s", o.station, o.planFile)
-		}
 		if p.Mast != nil {
 			sweep = *p.Mast
 		}
 	} else {
-		var err error
-		env = &plan.Env{Vertical: true}
-		if o.link.from == "" || o.link.to == "" || o.freq == "" {
+		if o.from == "" || o.to == "" || o.freq == "" {
 			return usagef("give --plan FILE, or --from, --to and --freq")
 		}
-		if env.K, err = kFactor(o.link.k); err != nil {
-			return err
-		}
-		freq, err := quantity("freq", o.freq, plan.ParseFreqMHz)
+		k, err := quantity("k", o.k, units.ParseKFactor)
 		if err != nil {
 			return err
 		}
-		from, fn, err := o.link.points.resolve("--from", o.link.from)
+		env = &plan.Env{K: k}
+		freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 		if err != nil {
 			return err
 		}
-		to, tn, err := o.link.points.resolve("--to", o.link.to)
+		from, fn, err := o.points.resolve("--from", o.from)
 		if err != nil {
 			return err
 		}
-		o.link.tx.height = "0"
-		end, err := o.link.tx.end(fn, "", true)
+		to, tn, err := o.points.resolve("--to", o.to)
+		if err != nil {
+			return err
+		}
+		end, err := o.station0.end(fn) // its height is swept
 		if err != nil {
 			return err
 		}
 		end.Pos = from
 		st = plan.Station{End: end}
-		o.link.rx.sens = o.toSens
-		o.link.rx.power = o.toPower
-		tend, err := o.link.rx.end(tn, "to-", false)
+		tend, err := o.target.end(tn)
 		if err != nil {
-			return err
-		}
-		if tend.Radio.PowerW, err = quantity("to-power", o.toPower, plan.ParsePowerW); err != nil {
 			return err
 		}
 		tend.Pos = to
@@ -199,18 +190,18 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		if env.Terrain == nil {
 			g.noticeSmoothEarth()
 		}
-		inputs = []string{o.link.points.file}
+		inputs = []string{o.points.file}
 	}
 	var err error
 	if o.heights != "" {
-		if sweep.Heights, err = plan.ParseLengthRange(o.heights); err != nil {
+		if sweep.Heights, err = units.ParseLengthRange(o.heights); err != nil {
 			return usagef("--heights: %v", err)
 		}
 	}
 	if o.cables != "" {
 		sweep.Cables = nil
 		for _, name := range strings.Split(o.cables, ",") {
-			c, err := plan.ResolveCable(strings.TrimSpace(name))
+			c, err := feedline.ResolveCable(strings.TrimSpace(name))
 			if err != nil {
 				return usagef("--cables: %v", err)
 			}
@@ -218,36 +209,32 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		}
 	}
 	if o.run != "" {
-		if sweep.RunM, err = quantity("run", o.run, plan.ParseLengthM); err != nil {
+		if sweep.RunM, err = quantity("run", o.run, units.ParseLengthM); err != nil {
 			return err
 		}
 	}
 	if o.slack != "" {
-		if sweep.SlackM, err = quantity("slack", o.slack, plan.ParseLengthM); err != nil {
+		if sweep.SlackM, err = quantity("slack", o.slack, units.ParseLengthM); err != nil {
 			return err
 		}
 	}
 	if sweep.Heights.Len() == 0 || sweep.Heights.ToM == 0 {
-		return usagef("--heights: give the mast heights to try (e.g. 2m..12m step 1m)")
+		return usagef("--heights: give the mast heights to try (e.g. '2m..12m step 1m')")
 	}
 	if len(sweep.Cables) == 0 {
 		return usagef("--cables: give the cables to try (e.g. RG-58,RG-8X,RG-213)")
 	}
-	if o.margin != "" {
-		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
-			return err
-		}
+	// The flags override the plan's requirement; --sigma only goes with
+	// --reliability, so the plan's σ stands otherwise.
+	ro := o.req
+	if ro.Reliability == "" {
+		ro.Sigma = ""
 	}
-	if o.reliability != "" {
-		if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
-			return err
-		}
-		if req.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
-			return err
-		}
+	if err := ro.Apply(&req); err != nil {
+		return optionUsage(err)
 	}
-	if ctx != nil && ctx.Err() != nil {
-		return ctx.Err()
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	res, err := env.SweepMast(st, targets, &sweep, req)
 	if err != nil {
@@ -255,11 +242,12 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 	}
 	g.warnMissing(env.Terrain)
 	if g.out != "" {
-		if extension(g.out) != "csv" && extension(g.out) != "json" {
-			return usagef("-o: %q: write the sweep to a .csv or .json file", g.out)
+		kind, err := outputKind(g.out, "csv", "json")
+		if err != nil {
+			return err
 		}
 		if err := renderTo(g.out, inputs, func(w io.Writer) error {
-			if extension(g.out) == "json" {
+			if kind == "json" {
 				return writeJSON(w, res)
 			}
 			return writeMastCSV(w, res)
@@ -268,7 +256,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions) error {
 		}
 	}
 	return g.emit(res, func(w io.Writer) error { return writeMastCSV(w, res) },
-		func(w io.Writer) { renderMastText(w, res, g.imperial()) })
+		func(w io.Writer) error { renderMastText(w, res, g.imperial()); return nil })
 }
 
 func writeMastCSV(w io.Writer, m *plan.MastResult) error {

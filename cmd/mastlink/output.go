@@ -6,10 +6,14 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"text/tabwriter"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // writeJSON writes v as indented JSON followed by a newline.
@@ -43,14 +47,6 @@ func newTable(w io.Writer) *table {
 
 func (t *table) row(cells ...string) { fmt.Fprintln(t.tw, strings.Join(cells, "\t")) }
 func (t *table) flush() error        { return t.tw.Flush() }
-
-// outputFile is a file the command is about to write: it refuses to write
-// over any of the command's inputs and writes atomically (a temporary file
-// in the same directory, renamed over the target when complete).
-type outputFile struct {
-	path   string
-	inputs []string
-}
 
 // checkNotInput returns an error when path names one of inputs (the same
 // file, by identity where it exists, else by cleaned absolute path).
@@ -119,17 +115,19 @@ func extension(path string) string {
 	return strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
 }
 
-// emit writes a result to stdout in the --format asked for: res as JSON,
-// csv for --format csv, text otherwise.
-func (g *globals) emit(res any, csv func(io.Writer) error, text func(io.Writer)) error {
+// emit writes a command's result to stdout in the --format asked for: res
+// as JSON, csv for --format csv (text when the command has no table to
+// give, csv nil), text otherwise. Every command's stdout goes through here.
+func (g *globals) emit(res any, csv, text func(io.Writer) error) error {
 	switch g.format {
 	case "json":
 		return writeJSON(g.stdout, res)
 	case "csv":
-		return csv(g.stdout)
+		if csv != nil {
+			return csv(g.stdout)
+		}
 	}
-	text(g.stdout)
-	return nil
+	return text(g.stdout)
 }
 
 // wrote tells on stderr that -o was written.
@@ -137,4 +135,59 @@ func (g *globals) wrote() {
 	if g.out != "" {
 		fmt.Fprintf(g.stderr, "mastlink: wrote %s\n", g.out)
 	}
+}
+
+// Number formatters for text and CSV output.
+
+// f1, f2 and f4 render a number with 1, 2 or 4 decimals (CSV cells).
+func f1(v float64) string { return fmt.Sprintf("%.1f", v) }
+func f2(v float64) string { return fmt.Sprintf("%.2f", v) }
+func f4(v float64) string { return fmt.Sprintf("%.4f", v) }
+
+// dbm, db and dbi render a level, a loss or gain, and an antenna gain with
+// a sign and one decimal: "+36.0 dBm", "-2.5 dB", "+2.2 dBi".
+func dbm(v float64) string { return signed(v) + " dBm" }
+func db(v float64) string  { return signed(v) + " dB" }
+func dbi(v float64) string { return signed(v) + " dBi" }
+
+// signed formats v with one decimal and a sign, never as "-0.0".
+func signed(v float64) string {
+	if math.Abs(v) < 0.05 {
+		return "0.0"
+	}
+	return fmt.Sprintf("%+.1f", v)
+}
+
+// probability renders a probability 0–1 as a percentage with one decimal,
+// saturating at "over 99.9 %" and "under 0.1 %".
+func probability(p float64) string {
+	switch {
+	case p > 0.999:
+		return "over 99.9 %"
+	case p < 0.001:
+		return "under 0.1 %"
+	}
+	return fmt.Sprintf("%.1f %%", 100*p)
+}
+
+// percent renders a fraction 0–1 as a whole percentage, "90 %".
+func percent(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
+
+// up rounds a safety distance up to the next 0.1 m (so a keep-out is never
+// shown shorter than computed).
+func up(m float64) float64 { return math.Ceil(m*10-1e-9) / 10 }
+
+// round2 rounds to 2 decimals, for GeoJSON properties.
+func round2(v float64) float64 { return math.Round(v*100) / 100 }
+
+// deg formats degrees with 7 decimals (about 1 cm).
+func deg(v float64) string { return strconv.FormatFloat(v, 'f', 7, 64) }
+
+// distance renders a distance along a path in km (or mi) with 2 decimals,
+// so a column of them lines up.
+func distance(m float64, im bool) string {
+	if im {
+		return fmt.Sprintf("%.2f mi", m/units.MetresPerMile)
+	}
+	return fmt.Sprintf("%.2f km", m/1000)
 }

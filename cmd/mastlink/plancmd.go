@@ -11,14 +11,21 @@ import (
 	"time"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/exposure"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 )
 
-func init() { commandConstructors = append(commandConstructors, newPlanCmd) }
+// planOptions are the plan command's own options: none yet, as the plan
+// file says everything; the struct keeps the shape every command has.
+type planOptions struct{}
 
 func newPlanCmd(g *globals) *cobra.Command {
+	o := &planOptions{}
 	cmd := &cobra.Command{
 		Use:   "plan FILE.yaml [-o DIR]",
 		Short: "Evaluate a whole deployment plan: every link both ways, mast sweep, RF exposure",
@@ -35,7 +42,7 @@ sites.geojson when the plan has routes and sites.`,
 		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runPlan(cmd.Context(), g, args[0])
+			return runPlan(cmd.Context(), g, o, args)
 		},
 	}
 	return cmd
@@ -57,10 +64,8 @@ func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
 	return p, p.NewEnv(ts), nil
 }
 
-func runPlan(ctx context.Context, g *globals, path string) error {
-	if ctx == nil {
-		ctx = context.Background()
-	}
+func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) error {
+	path := args[0]
 	p, env, err := loadPlan(g, path)
 	if err != nil {
 		return err
@@ -89,14 +94,8 @@ func runPlan(ctx context.Context, g *globals, path string) error {
 			return err
 		}
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, res)
-	case "csv":
-		return writeLinksCSV(g.stdout, res.Links)
-	}
-	renderPlanText(g.stdout, p, env, res, g.imperial())
-	return nil
+	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
+		func(w io.Writer) error { renderPlanText(w, p, env, res, g.imperial()); return nil })
 }
 
 // planWarnings points out what a briefing should not miss.
@@ -138,19 +137,15 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	if env.Terrain != nil {
 		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), strings.Join(relPaths(p.Terrain), ", "))
 	}
-	model := "ITU-R P.526-16 delta-Bullington diffraction"
-	if p.Model == "free-space" {
-		model = "free space (ITU-R P.525), terrain ignored"
-	}
-	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, model)
+	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
 
 	for _, s := range res.Stations {
 		cable := "no feedline given"
 		if s.Cable != "" {
-			cable = fmt.Sprintf("%s, %s", s.Cable, plan.FormatLength(s.CableLengthM, im))
+			cable = fmt.Sprintf("%s, %s", s.Cable, units.FormatLength(s.CableLengthM, im))
 		}
-		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, plan.FormatHeight(s.GroundM, im),
-			plan.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), plan.FormatHeight(s.HeightM, im), cable)
+		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, units.FormatHeight(s.GroundM, im),
+			units.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), units.FormatHeight(s.HeightM, im), cable)
 		fmt.Fprintf(w, "  reaches %d of %d required targets in both directions\n\n", s.Reached, s.Of)
 		t := newTable(w)
 		t.row("  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict")
@@ -167,7 +162,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			if l.Optional {
 				target += " (optional)"
 			}
-			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), plan.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
 				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
 		}
 		t.flush()
@@ -181,11 +176,11 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	t := newTable(w)
 	t.row("  station", "MHz", "EIRP", "public", "operators", "limits")
 	for _, e := range res.Exposure {
-		t.row("  "+e.Station, fmt.Sprintf("%.3f", e.FreqMHz), plan.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
+		t.row("  "+e.Station, fmt.Sprintf("%.3f", e.FreqMHz), units.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
 	}
 	t.flush()
 	fmt.Fprintln(w, "\nCautions:")
-	for _, c := range plan.ExposureCautions() {
+	for _, c := range exposure.Cautions() {
 		fmt.Fprintf(w, "  - %s\n", c)
 	}
 	if len(res.Warnings) > 0 {
@@ -206,7 +201,7 @@ func keepout(m float64, im bool) string {
 	if m <= 0 {
 		return "none needed"
 	}
-	return plan.FormatLength(up(m), im)
+	return units.FormatLength(up(m), im)
 }
 
 func clearance(l plan.LinkResult) string {
@@ -282,7 +277,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 	}
 	var sites []keepoutSite
 	for _, e := range res.Exposure {
-		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.ExposureReport})
+		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
 	}
 	if err := writeKeepout(filepath.Join(dir, "keepout.geojson"), inputs, sites); err != nil {
 		return err
@@ -328,11 +323,11 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 // worst margins, for a GPS.
 func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResult) error {
 	now := time.Now().UTC().Truncate(time.Second)
-	out := plan.GPXOutput{Name: res.Name}
+	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
 		sum := res.Stations[i]
-		out.Waypoints = append(out.Waypoints, plan.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
-			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", plan.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
+			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", units.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
 	}
 	for _, t := range p.Targets {
 		worst := math.Inf(1)
@@ -345,10 +340,10 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 				parts = append(parts, fmt.Sprintf("%s %+.1f dB", l.Direction, l.MarginDB))
 			}
 		}
-		out.Waypoints = append(out.Waypoints, plan.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
 			Description: fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))})
 	}
-	b, err := plan.EncodeGPX(out)
+	b, err := gpx.Encode(out)
 	if err != nil {
 		return err
 	}

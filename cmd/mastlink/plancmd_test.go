@@ -9,6 +9,8 @@ import (
 	"testing"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 const demoPlan = "../../examples/valley/plan.yaml"
@@ -75,12 +77,12 @@ func TestPlanDirections(t *testing.T) {
 		switch {
 		case l.Direction == plan.DirTalkIn && l.To == rep.Name:
 			found++
-			if l.FreqMHz != rep.ListenMHz || l.From != st.Name || l.RxSensitivityDBm != rep.Radio.SensitivityDBm || l.TxPowerDBm != plan.DBmFromW(st.Radio.PowerW) {
+			if l.FreqMHz != rep.ListenMHz || l.From != st.Name || l.RxSensitivityDBm != rep.Radio.SensitivityDBm || l.TxPowerDBm != units.DBmFromW(st.Radio.PowerW) {
 				t.Errorf("talk-in: %+v", l)
 			}
 		case l.Direction == plan.DirTalkOut && l.From == rep.Name:
 			found++
-			if l.FreqMHz != rep.TransmitMHz || l.To != st.Name || l.RxSensitivityDBm != st.Radio.SensitivityDBm || l.TxPowerDBm != plan.DBmFromW(rep.Radio.PowerW) {
+			if l.FreqMHz != rep.TransmitMHz || l.To != st.Name || l.RxSensitivityDBm != st.Radio.SensitivityDBm || l.TxPowerDBm != units.DBmFromW(rep.Radio.PowerW) {
 				t.Errorf("talk-out: %+v", l)
 			}
 		}
@@ -109,7 +111,7 @@ func TestPlanOutputs(t *testing.T) {
 			t.Errorf("%s: %v %+v", name, err, fc.Type)
 		}
 	}
-	g, err := plan.ReadGPX(filepath.Join(dir, "plan.gpx"))
+	g, err := gpx.Read(filepath.Join(dir, "plan.gpx"))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,17 +1,16 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"strings"
 
-	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/report"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newProfileCmd) }
 
 type profileOptions struct {
 	from, to, step   string
@@ -81,7 +80,7 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 			"    --height 9m --to-height 20m -o saddle-peak.png",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runProfile(g, o)
+			return runProfile(cmd.Context(), g, o, args)
 		},
 	}
 	f := cmd.Flags()
@@ -97,7 +96,7 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 	return cmd
 }
 
-func runProfile(g *globals, o *profileOptions) error {
+func runProfile(ctx context.Context, g *globals, o *profileOptions, args []string) error {
 	inputs := append(g.demPaths(), o.points.file)
 	if g.out != "" {
 		if err := checkNotInput("--out", g.out, inputs); err != nil {
@@ -112,7 +111,7 @@ func runProfile(g *globals, o *profileOptions) error {
 	var stepM float64
 	var err error
 	if o.step != "" {
-		if stepM, err = quantity("step", o.step, plan.ParseLengthM); err != nil {
+		if stepM, err = quantity("step", o.step, units.ParseLengthM); err != nil {
 			return err
 		}
 		if !(stepM > 0) {
@@ -123,19 +122,19 @@ func runProfile(g *globals, o *profileOptions) error {
 	if o.height != "" || o.toHeight != "" {
 		var h1, h2 float64
 		if o.height != "" {
-			if h1, err = quantity("height", o.height, plan.ParseLengthM); err != nil {
+			if h1, err = quantity("height", o.height, units.ParseLengthM); err != nil {
 				return err
 			}
 		}
 		if o.toHeight != "" {
-			if h2, err = quantity("to-height", o.toHeight, plan.ParseLengthM); err != nil {
+			if h2, err = quantity("to-height", o.toHeight, units.ParseLengthM); err != nil {
 				return err
 			}
 		}
 		if h1 < 0 || h2 < 0 {
 			return usagef("--height, --to-height: give heights of 0 m or more")
 		}
-		k, err := kFactor(o.k)
+		k, err := quantity("k", o.k, units.ParseKFactor)
 		if err != nil {
 			return err
 		}
@@ -177,7 +176,7 @@ func runProfile(g *globals, o *profileOptions) error {
 		err := renderTo(g.out, inputs, func(w io.Writer) error {
 			ext := extension(g.out)
 			if ext == "csv" {
-				return plan.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM)
+				return terrain.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM)
 			}
 			opts := append([]report.ProfileOption{report.WithTitle(fmt.Sprintf("Terrain from %s to %s", fromName, toName))}, chartOpts...)
 			if g.imperial() {
@@ -193,14 +192,8 @@ func runProfile(g *globals, o *profileOptions) error {
 		}
 		fmt.Fprintf(g.stderr, "mastlink: wrote the profile (%d samples) to %s\n", p.Len(), g.out)
 	}
-	switch g.format {
-	case "json":
-		return writeJSON(g.stdout, out)
-	case "csv":
-		return plan.WriteProfileCSV(g.stdout, p.DistM, p.Lat, p.Lon, p.ElevM)
-	}
-	renderProfileText(g.stdout, out, g.out, g.imperial())
-	return nil
+	return g.emit(out, func(w io.Writer) error { return terrain.WriteProfileCSV(w, p.DistM, p.Lat, p.Lon, p.ElevM) },
+		func(w io.Writer) error { renderProfileText(w, out, g.out, g.imperial()); return nil })
 }
 
 // demPaths lists the paths given with --dem (the inputs not to overwrite).
@@ -243,13 +236,13 @@ func newProfileOutput(p *terrain.Profile, fromName, toName string) profileOutput
 func renderProfileText(w io.Writer, o profileOutput, outFile string, im bool) {
 	n := len(o.Samples)
 	at := func(s profileSample) string {
-		return fmt.Sprintf("%s at %s (%.5f, %.5f)", plan.FormatHeight(s.ElevationM, im), distance(s.DistanceM, im), s.Lat, s.Lon)
+		return fmt.Sprintf("%s at %s (%.5f, %.5f)", units.FormatHeight(s.ElevationM, im), distance(s.DistanceM, im), s.Lat, s.Lon)
 	}
 	fmt.Fprintf(w, "Terrain from %s to %s\n", o.From.Name, o.To.Name)
 	t := newTable(w)
-	t.row("  length", plan.FormatLength(o.DistanceM, im)+" along the WGS84 geodesic")
+	t.row("  length", units.FormatLength(o.DistanceM, im)+" along the WGS84 geodesic")
 	t.row("  bearing", fmt.Sprintf("%.2f° true out, %.2f° true back", o.AzimuthDeg, o.BackAzimuthDeg))
-	t.row("  ends", fmt.Sprintf("ground %s at the start, %s at the end", plan.FormatHeight(o.From.ElevationM, im), plan.FormatHeight(o.To.ElevationM, im)))
+	t.row("  ends", fmt.Sprintf("ground %s at the start, %s at the end", units.FormatHeight(o.From.ElevationM, im), units.FormatHeight(o.To.ElevationM, im)))
 	t.row("  lowest", at(o.Lowest))
 	t.row("  highest", at(o.Highest))
 	data := strings.Join(o.Sources, ", ")
@@ -266,9 +259,9 @@ func renderProfileText(w io.Writer, o profileOutput, outFile string, im bool) {
 		all = "all of them are in " + outFile
 	}
 	if every == 1 {
-		t.row("  samples", fmt.Sprintf("%d, %s apart; all shown below", n, plan.FormatLength(o.StepM, im)))
+		t.row("  samples", fmt.Sprintf("%d, %s apart; all shown below", n, units.FormatLength(o.StepM, im)))
 	} else {
-		t.row("  samples", fmt.Sprintf("%d, %s apart; every %s shown below", n, plan.FormatLength(o.StepM, im), ordinal(every)))
+		t.row("  samples", fmt.Sprintf("%d, %s apart; every %s shown below", n, units.FormatLength(o.StepM, im), ordinal(every)))
 		t.row("", all)
 	}
 	t.flush()
@@ -277,7 +270,7 @@ func renderProfileText(w io.Writer, o profileOutput, outFile string, im bool) {
 	t.row("  distance", "elevation", "lat", "lon")
 	for _, i := range shownSamples(n, every) {
 		s := o.Samples[i]
-		t.row("  "+distance(s.DistanceM, im), plan.FormatHeight(s.ElevationM, im), fmt.Sprintf("%.5f", s.Lat), fmt.Sprintf("%.5f", s.Lon))
+		t.row("  "+distance(s.DistanceM, im), units.FormatHeight(s.ElevationM, im), fmt.Sprintf("%.5f", s.Lat), fmt.Sprintf("%.5f", s.Lon))
 	}
 	t.flush()
 }
@@ -293,15 +286,6 @@ func shownSamples(n, every int) []int {
 		idx = idx[:k]
 	}
 	return append(idx, n-1)
-}
-
-// distance renders a distance along a path in km (or mi) with 2 decimals,
-// so a column of them lines up.
-func distance(m float64, im bool) string {
-	if im {
-		return fmt.Sprintf("%.2f mi", m/plan.MetresPerMile)
-	}
-	return fmt.Sprintf("%.2f km", m/1000)
 }
 
 // ordinal writes 2nd, 3rd, 4th, 21st, …

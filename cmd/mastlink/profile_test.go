@@ -16,7 +16,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/terrain"
 )
 
 // profileJSON is the part of `mastlink profile --format json` the tests read.
@@ -217,7 +217,7 @@ func TestProfileCSVRoundTrip(t *testing.T) {
 	if !strings.Contains(stderr, "wrote the profile") {
 		t.Errorf("stderr %q does not say where the profile went", stderr)
 	}
-	pc, err := plan.ReadProfileCSV(file)
+	pc, err := terrain.ReadProfileCSV(file)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -407,7 +407,8 @@ func groundTopPx(img image.Image, x, y0, y1 int) int {
 	return y1
 }
 
-// TestProfileJSONFields: the field names scripts rely on (DESIGN.md).
+// TestProfileJSONFields: the field names scripts rely on (the profile
+// command's JSON contract in its help and the README).
 func TestProfileJSONFields(t *testing.T) {
 	out, _, code := runCmd(t, "--dem", exampleTerrain, "--format", "json", "profile", "--from=-48.5,-123.95", "--to=-48.45,-123.95")
 	if code != 0 {
@@ -490,7 +491,7 @@ func TestProfileOverwrite(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	pc, err := plan.ReadProfileCSV(file)
+	pc, err := terrain.ReadProfileCSV(file)
 	if err != nil {
 		t.Fatalf("the rewritten file does not read back: %v", err)
 	}

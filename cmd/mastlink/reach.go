@@ -1,10 +1,14 @@
 package main
 
 import (
+	"context"
 	"fmt"
+	"io"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
 )
 
@@ -14,25 +18,27 @@ type reachOptions struct {
 	planFile, station, targets, freq string
 	kit                              endFlags
 	envFlags
-	margin, reliability, sigma string
-	only                       []string // --target: reach only these
-	kitFlags                   []string // names of the flags a plan replaces
-	kitName                    string   // the kit's name without a plan
+	req      plan.RequirementOptions // --margin, --reliability, --sigma
+	only     []string                // --target: reach only these
+	kitFlags []string                // names of the flags a plan replaces
+	kitName  string                  // the kit's name without a plan
+	changed  func(flag string) bool  // whether a flag was given (the command's flag set)
 }
 
 func addReachFlags(cmd *cobra.Command, o *reachOptions, kitName string) {
 	o.kitName = kitName
 	f := cmd.Flags()
+	o.changed = f.Changed
 	f.StringVar(&o.planFile, "plan", "", "plan file (YAML) giving the kit, targets, requirement and terrain")
 	f.StringVar(&o.station, "station", "", "with --plan: the station whose kit is used (default: see the help above)")
 	f.StringVar(&o.targets, "targets", "", "GPX file whose waypoints are the targets (simplex on --freq, with the same kit)")
 	f.StringArrayVar(&o.only, "target", nil, "reach only this target (a name from the plan or --targets); repeat for several")
 	f.StringVar(&o.freq, "freq", "", "frequency of targets from --targets [MHz] (default: the plan's)")
 	addKitFlags(cmd, &o.kit, "", "", true)
-	f.StringVar(&o.kit.sens, "rx-sens", "0.25uV", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
-	f.StringVar(&o.margin, "margin", "10dB", "margin every direction must meet [dB]")
-	f.StringVar(&o.reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: raises the margin needed")
-	f.StringVar(&o.sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
+	addSensFlag(cmd, &o.kit, "rx-sens", "receiver sensitivity [dBm] (µV across 50 Ω accepted)")
+	f.StringVar(&o.req.Margin, "margin", "10dB", "margin every direction must meet [dB]")
+	f.StringVar(&o.req.Reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: raises the margin needed")
+	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
 	addEnvFlags(cmd, &o.envFlags)
 	o.kitFlags = []string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens", "margin", "reliability", "sigma", "k", "model", "polarization", "ground"}
 }
@@ -51,11 +57,11 @@ type reach struct {
 // resolve builds the kit, targets and environment from the plan or the
 // flags. forSites picks the plan's station (moved to each candidate) rather
 // than the handheld carried along a route.
-func (o *reachOptions) resolve(cmd *cobra.Command, g *globals, forSites bool) (*reach, error) {
+func (o *reachOptions) resolve(g *globals, forSites bool) (*reach, error) {
 	r := &reach{}
 	if o.planFile != "" {
 		for _, name := range o.kitFlags {
-			if cmd.Flags().Changed(name) {
+			if o.changed(name) {
 				return nil, usagef("--%s: with --plan the kit, requirement and model come from the plan file; edit it, or drop --plan", name)
 			}
 		}
@@ -93,23 +99,12 @@ func (o *reachOptions) resolve(cmd *cobra.Command, g *globals, forSites bool) (*
 			g.noticeSmoothEarth()
 		}
 		r.env = env
-		if r.kit, err = o.kit.end(o.kitName, "", true); err != nil {
+		if r.kit, err = o.kit.end(o.kitName); err != nil {
 			return nil, err
 		}
-		req := plan.Requirement{}
-		if req.MarginDB, err = quantity("margin", o.margin, plan.ParseLossDB); err != nil {
-			return nil, err
-		}
-		if req.SigmaDB, err = quantity("sigma", o.sigma, plan.ParseLossDB); err != nil {
-			return nil, err
-		}
-		if o.reliability != "" {
-			if req.Reliability, err = quantity("reliability", o.reliability, plan.ParseRatio); err != nil {
-				return nil, err
-			}
-			if !(req.Reliability > 0 && req.Reliability < 1) {
-				return nil, usagef("--reliability: give a fraction above 0%% and below 100%%")
-			}
+		var req plan.Requirement
+		if err := o.req.Apply(&req); err != nil {
+			return nil, optionUsage(err)
 		}
 		r.needDB = req.NeededMarginDB()
 		if o.targets == "" {
@@ -165,7 +160,7 @@ func (o *reachOptions) readTargets(r *reach) ([]plan.Target, error) {
 	freq := 0.0
 	if o.freq != "" {
 		var err error
-		if freq, err = quantity("freq", o.freq, plan.ParseFreqMHz); err != nil {
+		if freq, err = quantity("freq", o.freq, units.ParseFreqMHz); err != nil {
 			return nil, err
 		}
 	} else if r.plan != nil {
@@ -174,7 +169,7 @@ func (o *reachOptions) readTargets(r *reach) ([]plan.Target, error) {
 	if freq <= 0 {
 		return nil, usagef("--freq: give the frequency to reach the targets of --targets on")
 	}
-	gf, err := plan.ReadGPX(o.targets)
+	gf, err := gpx.Read(o.targets)
 	if err != nil {
 		return nil, fmt.Errorf("--targets: %w", err)
 	}
@@ -206,4 +201,67 @@ func outputKind(path string, allowed ...string) (string, error) {
 		}
 	}
 	return "", usagef("-o: %q: give a file ending in .%s", path, strings.Join(allowed, ", ."))
+}
+
+// reachRun is what route and sites each add to the pipeline they share
+// (runReach): R is the result they compute.
+type reachRun[R any] struct {
+	forSites bool     // the plan's station moved to each place, not the walker
+	outKinds []string // the extensions -o may have
+	// check looks at the input GPX file before anything is computed.
+	check func(gf *gpx.File) error
+	// compute does the work, reporting progress.
+	compute func(ctx context.Context, r *reach, gf *gpx.File, progress plan.Progress) (R, error)
+	// write writes the result to the -o file of the given kind.
+	write func(kind string, inputs []string, res R) error
+	// csv and text render the result on stdout.
+	csv, text func(w io.Writer, res R) error
+}
+
+// runReach is the pipeline of route and sites: check the flags and -o,
+// read the input GPX file, resolve the kit, targets and terrain (reach),
+// compute with a progress bar, warn of missing tiles, write -o, and emit
+// the result.
+func runReach[R any](ctx context.Context, g *globals, o *reachOptions, file string, run reachRun[R]) error {
+	if o.freq != "" && o.targets == "" {
+		return usagef("--freq is the frequency of the targets of --targets; give that file too")
+	}
+	var outKind string
+	var err error
+	if g.out != "" {
+		if outKind, err = outputKind(g.out, run.outKinds...); err != nil {
+			return err
+		}
+	}
+	gf, err := gpx.Read(file)
+	if err != nil {
+		return err
+	}
+	if err := run.check(gf); err != nil {
+		return err
+	}
+	r, err := o.resolve(g, run.forSites)
+	if err != nil {
+		return err
+	}
+	inputs := append([]string{file}, r.inputs...)
+	if g.out != "" {
+		if err := checkNotInput("--out", g.out, inputs); err != nil {
+			return err
+		}
+	}
+	bar := newProgress(g, "paths")
+	res, err := run.compute(ctx, r, gf, bar.update)
+	bar.done()
+	if err != nil {
+		return err
+	}
+	g.warnMissing(r.env.Terrain)
+	if outKind != "" {
+		if err := run.write(outKind, inputs, res); err != nil {
+			return err
+		}
+		g.wrote()
+	}
+	return g.emit(res, func(w io.Writer) error { return run.csv(w, res) }, func(w io.Writer) error { return run.text(w, res) })
 }

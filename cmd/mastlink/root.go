@@ -149,16 +149,20 @@ a bare number takes the default unit named in each flag's help.`,
 	pf.IntVar(&g.cacheMB, "cache-mb", envInt("MASTLINK_CACHE_MB", 1024), "memory for cached elevation tiles, MiB (env MASTLINK_CACHE_MB)")
 
 	root.AddCommand(
+		newElevationCmd(g),
+		newProfileCmd(g),
+		newHorizonCmd(g),
+		newFeedlineCmd(g),
+		newExposureCmd(g),
+		newLinkCmd(g),
+		newPlanCmd(g),
+		newMastCmd(g),
+		newRouteCmd(g),
+		newSitesCmd(g),
 		newVersionCmd(g),
 	)
-	for _, add := range commandConstructors {
-		root.AddCommand(add(g))
-	}
 	return root
 }
-
-// commandConstructors lists the commands registered by their own files.
-var commandConstructors []func(*globals) *cobra.Command
 
 func envInt(name string, def int) int {
 	v := os.Getenv(name)
@@ -197,11 +201,10 @@ func newVersionCmd(g *globals) *cobra.Command {
 		Short: "Print the mastlink version",
 		Args:  cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if g.format == "json" {
-				return writeJSON(g.stdout, map[string]string{"version": version})
-			}
-			_, err := fmt.Fprintf(g.stdout, "mastlink %s\n", version)
-			return err
+			return g.emit(map[string]string{"version": version}, nil, func(w io.Writer) error {
+				_, err := fmt.Fprintf(w, "mastlink %s\n", version)
+				return err
+			})
 		},
 	}
 }

@@ -8,12 +8,12 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newRouteCmd) }
 
 type routeOptions struct {
 	reachOptions
@@ -46,7 +46,7 @@ F.csv (every checked point).`,
 			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runRoute(cmd, g, o, args[0])
+			return runRoute(cmd.Context(), g, o, args)
 		},
 	}
 	addReachFlags(cmd, &o.reachOptions, plan.HandheldName)
@@ -55,72 +55,42 @@ F.csv (every checked point).`,
 	return cmd
 }
 
-func runRoute(cmd *cobra.Command, g *globals, o *routeOptions, trackFile string) error {
-	ctx := cmd.Context()
-	if ctx == nil {
-		ctx = context.Background()
-	}
-	if o.freq != "" && o.targets == "" {
-		return usagef("--freq is the frequency of the targets of --targets; give that file too")
-	}
-	spacing, err := quantity("spacing", o.spacing, plan.ParseLengthM)
+func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) error {
+	spacing, err := quantity("spacing", o.spacing, units.ParseLengthM)
 	if err != nil {
 		return err
 	}
 	if !(spacing > 0) {
 		return usagef("--spacing: give a distance above 0 m")
 	}
-	var outKind string
-	if g.out != "" {
-		if outKind, err = outputKind(g.out, "geojson", "gpx", "csv"); err != nil {
+	var track gpx.Track
+	return runReach(ctx, g, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
+		outKinds: []string{"geojson", "gpx", "csv"},
+		check: func(gf *gpx.File) error {
+			track, err = pickTrack(g, gf, o.track)
 			return err
-		}
-	}
-	gf, err := plan.ReadGPX(trackFile)
-	if err != nil {
-		return err
-	}
-	track, err := pickTrack(g, gf, o.track)
-	if err != nil {
-		return err
-	}
-	r, err := o.resolve(cmd, g, false)
-	if err != nil {
-		return err
-	}
-	inputs := append([]string{trackFile}, r.inputs...)
-	if g.out != "" {
-		if err := checkNotInput("--out", g.out, inputs); err != nil {
-			return err
-		}
-	}
-	bar := newProgress(g, "paths")
-	res, err := r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, bar.update)
-	bar.done()
-	if err != nil {
-		return err
-	}
-	g.warnMissing(r.env.Terrain)
-	switch outKind {
-	case "geojson":
-		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
-	case "gpx":
-		err = writeRouteGPX(g.out, inputs, track, res)
-	case "csv":
-		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
-	}
-	if err != nil {
-		return err
-	}
-	g.wrote()
-	return g.emit(res, func(w io.Writer) error { return writeRouteCSV(w, res) },
-		func(w io.Writer) { renderRouteText(w, res, g.imperial()) })
+		},
+		compute: func(ctx context.Context, r *reach, _ *gpx.File, progress plan.Progress) (*plan.RouteResult, error) {
+			return r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, progress)
+		},
+		write: func(kind string, inputs []string, res *plan.RouteResult) error {
+			switch kind {
+			case "geojson":
+				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
+			case "gpx":
+				return writeRouteGPX(g.out, inputs, track, res)
+			}
+			return renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
+		},
+		csv:  writeRouteCSV,
+		text: func(w io.Writer, res *plan.RouteResult) error { renderRouteText(w, res, g.imperial()); return nil },
+	})
 }
 
 // pickTrack returns the track or route called name, or the first.
-func pickTrack(g *globals, gf *plan.GPXFile, name string) (plan.Track, error) {
+func pickTrack(g *globals, gf *gpx.File, name string) (gpx.Track, error) {
 	if len(gf.Tracks) == 0 {
-		return plan.Track{}, fmt.Errorf("%s has no track or route: record the walk as a GPX track", gf.Path)
+		return gpx.Track{}, fmt.Errorf("%s has no track or route: record the walk as a GPX track", gf.Path)
 	}
 	if name == "" {
 		if len(gf.Tracks) > 1 {
@@ -135,14 +105,14 @@ func pickTrack(g *globals, gf *plan.GPXFile, name string) (plan.Track, error) {
 		}
 		names = append(names, fmt.Sprintf("%q", t.Name))
 	}
-	return plan.Track{}, usagef("--track: %s has no track or route %q (it has %s)", gf.Path, name, strings.Join(names, ", "))
+	return gpx.Track{}, usagef("--track: %s has no track or route %q (it has %s)", gf.Path, name, strings.Join(names, ", "))
 }
 
 // renderRouteText writes a route's coverage as a short briefing.
 func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 	fmt.Fprintf(w, "Route: %s\n", r.Name)
 	fmt.Fprintf(w, "  %s checked every %s (%d points) carrying the %s kit; %.1f dB of margin needed both ways\n",
-		plan.FormatLength(r.LengthM, im), plan.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB)
+		units.FormatLength(r.LengthM, im), units.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB)
 	if r.Terrain == "smooth earth" {
 		fmt.Fprintln(w, "  (no elevation data along the way: a smooth earth)")
 	}
@@ -155,7 +125,7 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 			name += " (optional)"
 		}
 		t.row("  "+name, strings.Join(x.Directions, "/"), percent(x.Fraction),
-			fmt.Sprintf("%s at %s", db(x.BestMarginDB), plan.FormatLength(x.BestDistanceM, im)))
+			fmt.Sprintf("%s at %s", db(x.BestMarginDB), units.FormatLength(x.BestDistanceM, im)))
 	}
 	t.row("  every required target", "", percent(r.OverallFraction), "")
 	t.flush()
@@ -165,8 +135,8 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 	} else {
 		fmt.Fprintln(w, "  Dead stretches (some required target out of reach):")
 		for _, gp := range r.Gaps {
-			fmt.Fprintf(w, "    %s to %s (%s): %s\n", plan.FormatLength(gp.StartM, im), plan.FormatLength(gp.EndM, im),
-				plan.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, "; "))
+			fmt.Fprintf(w, "    %s to %s (%s): %s\n", units.FormatLength(gp.StartM, im), units.FormatLength(gp.EndM, im),
+				units.FormatLength(gp.LengthM, im), strings.Join(gp.Missing, "; "))
 		}
 	}
 	if len(r.BestSpots) > 0 {
@@ -174,20 +144,18 @@ func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 		t := newTable(w)
 		t.row("    target", "dead stretch", "call at", "position", "margin")
 		for _, s := range r.BestSpots {
-			t.row("    "+s.Target, fmt.Sprintf("%s–%s", plan.FormatLength(s.GapStartM, im), plan.FormatLength(s.GapEndM, im)),
-				fmt.Sprintf("%s (%s)", plan.FormatLength(s.DistanceM, im), s.Side), fmt.Sprintf("%.5f,%.5f", s.Lat, s.Lon), db(s.MarginDB))
+			t.row("    "+s.Target, fmt.Sprintf("%s–%s", units.FormatLength(s.GapStartM, im), units.FormatLength(s.GapEndM, im)),
+				fmt.Sprintf("%s (%s)", units.FormatLength(s.DistanceM, im), s.Side), fmt.Sprintf("%.5f,%.5f", s.Lat, s.Lon), db(s.MarginDB))
 		}
 		t.flush()
 	}
 	for _, x := range r.Targets {
 		if !x.Optional && x.Fraction == 0 {
-			fmt.Fprintf(w, "\n  %s is out of reach all along the route (best %s at %s).\n", x.Name, db(x.BestMarginDB), plan.FormatLength(x.BestDistanceM, im))
+			fmt.Fprintf(w, "\n  %s is out of reach all along the route (best %s at %s).\n", x.Name, db(x.BestMarginDB), units.FormatLength(x.BestDistanceM, im))
 		}
 	}
 	fmt.Fprintln(w)
 }
-
-func percent(f float64) string { return fmt.Sprintf("%.0f %%", 100*f) }
 
 // writeRouteCSV writes one row per checked point.
 func writeRouteCSV(w io.Writer, r *plan.RouteResult) error {
@@ -274,8 +242,8 @@ func routeGeoJSON(r *plan.RouteResult) *geojson.FeatureCollection {
 // writeRouteGPX writes the track with waypoints at the ends of every dead
 // stretch and at the best spots, their margins in the descriptions; times
 // (UTC) are the track's, interpolated along it, where it has them.
-func writeRouteGPX(path string, inputs []string, track plan.Track, r *plan.RouteResult) error {
-	out := plan.GPXOutput{Name: "Coverage along " + r.Name, Tracks: []plan.Track{track}}
+func writeRouteGPX(path string, inputs []string, track gpx.Track, r *plan.RouteResult) error {
+	out := gpx.Output{Name: "Coverage along " + r.Name, Tracks: []gpx.Track{track}}
 	for i, gp := range r.Gaps {
 		for _, end := range []struct {
 			name string
@@ -286,17 +254,17 @@ func writeRouteGPX(path string, inputs []string, track plan.Track, r *plan.Route
 			{fmt.Sprintf("Gap %d end", i+1), gp.EndM, fmt.Sprintf("coverage back after %.1f km", gp.LengthM/1000)},
 		} {
 			lat, lon, tm := r.PositionAt(end.d)
-			out.Waypoints = append(out.Waypoints, plan.Place{Name: end.name, Pos: orb.Point{lon, lat}, ElevM: math.NaN(), Time: tm, Symbol: "Danger Area",
+			out.Waypoints = append(out.Waypoints, gpx.Place{Name: end.name, Pos: orb.Point{lon, lat}, ElevM: math.NaN(), Time: tm, Symbol: "Danger Area",
 				Description: fmt.Sprintf("%s at %.2f km along the track", end.desc, end.d/1000)})
 		}
 	}
 	for _, s := range r.BestSpots {
 		_, _, tm := r.PositionAt(s.DistanceM)
-		out.Waypoints = append(out.Waypoints, plan.Place{Name: "Call " + s.Target, Pos: orb.Point{s.Lon, s.Lat}, ElevM: s.ElevationM, Time: tm, Symbol: "Flag",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: "Call " + s.Target, Pos: orb.Point{s.Lon, s.Lat}, ElevM: s.ElevationM, Time: tm, Symbol: "Flag",
 			Description: fmt.Sprintf("best spot %s the dead stretch %.2f–%.2f km: margin %+.1f dB to %s, at %.2f km along the track",
 				s.Side, s.GapStartM/1000, s.GapEndM/1000, s.MarginDB, s.Target, s.DistanceM/1000)})
 	}
-	b, err := plan.EncodeGPX(out)
+	b, err := gpx.Encode(out)
 	if err != nil {
 		return err
 	}

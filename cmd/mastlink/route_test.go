@@ -9,7 +9,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 )
@@ -134,7 +134,7 @@ func TestRouteGeoJSON(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	gf, _ := plan.ReadGPX(demoHike)
+	gf, _ := gpx.Read(demoHike)
 	trk := gf.Tracks[0].Points
 	at, sum, pieces, spots := 0.0, 0.0, 0, 0
 	var prev *bool
@@ -178,11 +178,11 @@ func TestRouteGPXRoundTrip(t *testing.T) {
 	if _, stderr, code := runCmd(t, "route", demoHike, "--plan", demoPlanFile, "-o", f); code != 0 {
 		t.Fatal(stderr)
 	}
-	got, err := plan.ReadGPX(f)
+	got, err := gpx.Read(f)
 	if err != nil {
 		t.Fatal(err)
 	}
-	in, _ := plan.ReadGPX(demoHike)
+	in, _ := gpx.Read(demoHike)
 	if len(got.Tracks) != 1 || len(got.Tracks[0].Points) != len(in.Tracks[0].Points) {
 		t.Fatalf("tracks %d", len(got.Tracks))
 	}

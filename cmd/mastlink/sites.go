@@ -6,12 +6,12 @@ import (
 	"io"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 )
-
-func init() { commandConstructors = append(commandConstructors, newSitesCmd) }
 
 func newSitesCmd(g *globals) *cobra.Command {
 	o := &reachOptions{}
@@ -37,71 +37,42 @@ F.csv the ranking.`,
 			"  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml -o sites.geojson",
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runSites(cmd, g, o, args[0])
+			return runSites(cmd.Context(), g, o, args)
 		},
 	}
 	addReachFlags(cmd, o, "station")
 	return cmd
 }
 
-func runSites(cmd *cobra.Command, g *globals, o *reachOptions, candFile string) error {
-	ctx := cmd.Context()
-	if ctx == nil {
-		ctx = context.Background()
-	}
-	if o.freq != "" && o.targets == "" {
-		return usagef("--freq is the frequency of the targets of --targets; give that file too")
-	}
-	var outKind string
-	var err error
-	if g.out != "" {
-		if outKind, err = outputKind(g.out, "geojson", "csv"); err != nil {
-			return err
-		}
-	}
-	gf, err := plan.ReadGPX(candFile)
-	if err != nil {
-		return err
-	}
-	if len(gf.Waypoints) == 0 {
-		return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", candFile)
-	}
-	r, err := o.resolve(cmd, g, true)
-	if err != nil {
-		return err
-	}
-	inputs := append([]string{candFile}, r.inputs...)
-	if g.out != "" {
-		if err := checkNotInput("--out", g.out, inputs); err != nil {
-			return err
-		}
-	}
-	bar := newProgress(g, "paths")
-	res, err := r.env.RankSites(ctx, plan.SitesRequest{Candidates: gf.Waypoints, Station: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, Mast: r.mast}, bar.update)
-	bar.done()
-	if err != nil {
-		return err
-	}
-	g.warnMissing(r.env.Terrain)
-	switch outKind {
-	case "geojson":
-		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res)) })
-	case "csv":
-		err = renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
-	}
-	if err != nil {
-		return err
-	}
-	g.wrote()
-	return g.emit(res, func(w io.Writer) error { return writeSitesCSV(w, res) },
-		func(w io.Writer) { renderSitesText(w, res, g.imperial()) })
+func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) error {
+	return runReach(ctx, g, o, args[0], reachRun[*plan.SitesResult]{
+		forSites: true,
+		outKinds: []string{"geojson", "csv"},
+		check: func(gf *gpx.File) error {
+			if len(gf.Waypoints) == 0 {
+				return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", gf.Path)
+			}
+			return nil
+		},
+		compute: func(ctx context.Context, r *reach, gf *gpx.File, progress plan.Progress) (*plan.SitesResult, error) {
+			return r.env.RankSites(ctx, plan.SitesRequest{Candidates: gf.Waypoints, Station: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, Mast: r.mast}, progress)
+		},
+		write: func(kind string, inputs []string, res *plan.SitesResult) error {
+			if kind == "geojson" {
+				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res)) })
+			}
+			return renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
+		},
+		csv:  writeSitesCSV,
+		text: func(w io.Writer, res *plan.SitesResult) error { renderSitesText(w, res, g.imperial()); return nil },
+	})
 }
 
 // renderSitesText writes the ranking as a table.
 func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
-	mast := fmt.Sprintf("its own %s antenna height", plan.FormatHeight(s.HeightM, im))
+	mast := fmt.Sprintf("its own %s antenna height", units.FormatHeight(s.HeightM, im))
 	if n := len(s.MastHeightsM); n > 0 {
-		mast = fmt.Sprintf("masts of %s to %s", plan.FormatHeight(s.MastHeightsM[0], im), plan.FormatHeight(s.MastHeightsM[n-1], im))
+		mast = fmt.Sprintf("masts of %s to %s", units.FormatHeight(s.MastHeightsM[0], im), units.FormatHeight(s.MastHeightsM[n-1], im))
 	}
 	fmt.Fprintf(w, "Candidate sites for %s (%.1f dB of margin needed both ways; %s)\n", s.Station, s.NeededMarginDB, mast)
 	t := newTable(w)
@@ -109,12 +80,12 @@ func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
 	for _, c := range s.Sites {
 		m := "none meets it"
 		if c.MastM != nil {
-			m = plan.FormatHeight(*c.MastM, im)
+			m = units.FormatHeight(*c.MastM, im)
 			if c.Cable != "" {
 				m += " with " + c.Cable
 			}
 		}
-		t.row(fmt.Sprintf("  %d", c.Rank), c.Name, plan.FormatHeight(c.GroundM, im), db(c.WorstMarginDB), c.WorstLink,
+		t.row(fmt.Sprintf("  %d", c.Rank), c.Name, units.FormatHeight(c.GroundM, im), db(c.WorstMarginDB), c.WorstLink,
 			fmt.Sprintf("%d of %d", c.Reachable, c.Of), m)
 	}
 	t.flush()

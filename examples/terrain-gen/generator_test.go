@@ -78,7 +78,7 @@ func tilesFromDisk(t *testing.T) map[string]*committedTile {
 				loadError = fmt.Errorf("%s: %w", spec.name, err)
 				return
 			}
-			if len(raw) != 1201*1201*2 { // SRTM 3″: 1201×1201 int16 (REFERENCES.md §9)
+			if len(raw) != 1201*1201*2 { // SRTM 3″: 1201×1201 int16 (NASA SRTM Topography documentation, 2003)
 				loadError = fmt.Errorf("%s: %d bytes, want %d", spec.name, len(raw), 1201*1201*2)
 				return
 			}
@@ -198,7 +198,7 @@ func TestTileNames(t *testing.T) {
 	}{
 		{tileID{-49, -124}, "S49W124"},
 		{tileID{-49, -125}, "S49W125"},
-		{tileID{45, 7}, "N45E007"}, // REFERENCES.md §9 example
+		{tileID{45, 7}, "N45E007"}, // SRTM tile naming (NASA SRTM Topography documentation, 2003)
 		{tileID{-1, 0}, "S01E000"},
 	}
 	for _, tc := range tests {

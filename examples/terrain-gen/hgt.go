@@ -10,7 +10,7 @@ import (
 	"sync"
 )
 
-// SRTM HGT layout (REFERENCES.md §9): raw big-endian int16, row-major from
+// SRTM HGT layout (NASA SRTM Topography documentation, 2003): raw big-endian int16, row-major from
 // the north edge, west to east; 1201×1201 samples for 3″, on whole-degree
 // grid lines, so a tile's edges are shared with its neighbours.
 const (

@@ -4,7 +4,7 @@ import (
 	"math"
 	"strconv"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
 )
 
@@ -111,7 +111,7 @@ func (c *profileChart) layout(distM, elevM []float64) *profileLayout {
 	unitH := 1.0
 	l.unitD, l.nameD, l.nameH = 1000, "km", "m"
 	if c.imperial {
-		l.unitD, unitH, l.nameD, l.nameH = plan.MetresPerMile, plan.MetresPerFoot, "mi", "ft"
+		l.unitD, unitH, l.nameD, l.nameH = units.MetresPerMile, units.MetresPerFoot, "mi", "ft"
 	}
 	l.title = c.title
 	if l.title == "" {

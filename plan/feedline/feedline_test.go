@@ -1,4 +1,4 @@
-package plan
+package feedline
 
 import (
 	"bytes"
@@ -10,10 +10,12 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
-// publishedLoss is REFERENCES §7, typed in again here from the reference
-// table (not copied from the catalog), so a slip in either shows up.
+// publishedLoss is the published matched-loss table, typed in again here
+// from the sources (not copied from the catalog), so a slip in either shows up.
 // dB per 100 ft, matched. Sources: A = ARRL General Class License Manual,
 // Table 6-1 (corrected); C = a radio manufacturer's repeater-systems
 // training guide, cable appendix (nominal); S = a county
@@ -74,7 +76,7 @@ var publishedLoss = []struct {
 }
 
 // TestCableModelVsPublished checks the fitted two-term model against every
-// figure of REFERENCES §7: within 10 %, or, where two sources give the same
+// published figure: within 10 %, or, where two sources give the same
 // cable and frequency, within the spread between them (whichever is wider).
 func TestCableModelVsPublished(t *testing.T) {
 	for _, p := range publishedLoss {
@@ -98,7 +100,7 @@ func TestCableModelVsPublished(t *testing.T) {
 }
 
 // TestCatalogPublishedTables checks that each catalog cable carries exactly
-// the REFERENCES §7 figures above (same count, same values), each with a
+// the published figures above (same count, same values), each with a
 // source, and has every field listings need.
 func TestCatalogPublishedTables(t *testing.T) {
 	for _, c := range Cables() {
@@ -132,7 +134,7 @@ func TestCatalogPublishedTables(t *testing.T) {
 }
 
 func TestSWRLoss(t *testing.T) {
-	// REFERENCES §7 [calc] from the transmission-line-handbook formula.
+	// Computed [calc] from the transmission-line-handbook formula (from memory).
 	total := []struct {
 		name          string
 		ml, swr, want float64
@@ -154,7 +156,7 @@ func TestSWRLoss(t *testing.T) {
 			t.Errorf("extra %s: %.4f dB, want %.4f", c.name, got, c.want-c.ml)
 		}
 	}
-	// Mismatch loss, REFERENCES §7 [calc]: −10 log10(1 − Γ²).
+	// Mismatch loss [calc]: −10 log10(1 − Γ²).
 	mismatch := []struct {
 		name      string
 		swr, want float64
@@ -170,15 +172,7 @@ func TestSWRLoss(t *testing.T) {
 			t.Errorf("mismatch %s: %.4f dB, want %.4f", c.name, got, c.want)
 		}
 	}
-	// Return loss −20 log10 Γ (REFERENCES §7): SWR 1.5 → Γ 0.2 → 13.979 dB;
-	// SWR 2 → Γ 1/3 → 9.542 dB [calc].
-	if got := ReturnLossDB(1.5); math.Abs(got-13.979) > 0.0005 {
-		t.Errorf("return loss at SWR 1.5: %.4f dB, want 13.979", got)
-	}
-	if got := ReturnLossDB(2); math.Abs(got-9.542) > 0.0005 {
-		t.Errorf("return loss at SWR 2: %.4f dB, want 9.542", got)
-	}
-	// SWR at the line input from |Γ|/a (REFERENCES §7): load SWR 3 (Γ 0.5)
+	// SWR at the line input from |Γ|/a [calc]: load SWR 3 (Γ 0.5)
 	// behind 3 dB matched loss (a = 1.995) → Γ 0.2506 → SWR 1.669 [calc].
 	if got := InputSWR(3, 3); math.Abs(got-1.669) > 0.001 {
 		t.Errorf("input SWR: %.4f, want 1.669", got)
@@ -190,14 +184,14 @@ func TestFeedlineLoss(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f := NewFeedline(rg8x, 15)
+	f := NewLine(rg8x, 15)
 	f.SWR, f.Connectors = 1.3, 2
 	got, err := f.Loss(146)
 	if err != nil {
 		t.Fatal(err)
 	}
 	// Matched loss from the model: the published 4.53–4.7 dB/100 ft at
-	// 146 MHz (REFERENCES §7, A and S) over 15 m = 49.2 ft gives 2.23–2.31 dB.
+	// 146 MHz (ARRL Table 6-1 and the county table) over 15 m = 49.2 ft gives 2.23–2.31 dB.
 	if got.MatchedLossDB < 2.23*0.9 || got.MatchedLossDB > 2.31*1.1 {
 		t.Errorf("matched loss %.3f dB outside the published spread", got.MatchedLossDB)
 	}
@@ -221,19 +215,19 @@ func TestFeedlineLoss(t *testing.T) {
 
 	bad := []struct {
 		name string
-		f    Feedline
+		f    Line
 		freq float64
 		msg  string
 	}{
-		{"negative length", Feedline{Cable: rg8x, LengthM: -1}, 146, "cable length -1 m: give a length of 0 or more"},
-		{"zero frequency", Feedline{Cable: rg8x, LengthM: 1}, 0, "frequency 0 MHz: give a frequency above 0"},
-		{"swr below 1", Feedline{Cable: rg8x, LengthM: 1, SWR: 0.5}, 146, "swr 0.5: give an SWR of 1 or more (1 is matched)"},
-		{"negative connectors", Feedline{Cable: rg8x, LengthM: 1, Connectors: -1}, 146, "-1 connectors: give 0 or more"},
+		{"negative length", Line{Cable: rg8x, LengthM: -1}, 146, "cable length -1 m: give a length of 0 or more"},
+		{"zero frequency", Line{Cable: rg8x, LengthM: 1}, 0, "frequency 0 MHz: give a frequency above 0"},
+		{"swr below 1", Line{Cable: rg8x, LengthM: 1, SWR: 0.5}, 146, "swr 0.5: give an SWR of 1 or more (1 is matched)"},
+		{"negative connectors", Line{Cable: rg8x, LengthM: 1, Connectors: -1}, 146, "-1 connectors: give 0 or more"},
 	}
 	for _, c := range bad {
 		_, err := c.f.Loss(c.freq)
-		if !errors.Is(err, ErrRange) || err.Error() != c.msg {
-			t.Errorf("%s: error %v, want %q wrapping ErrRange", c.name, err, c.msg)
+		if !errors.Is(err, units.ErrRange) || err.Error() != c.msg {
+			t.Errorf("%s: error %v, want %q wrapping units.ErrRange", c.name, err, c.msg)
 		}
 	}
 }
@@ -277,7 +271,7 @@ func TestCustomCable(t *testing.T) {
 		t.Errorf("at 4 × f: %.4f, want 9.2", got)
 	}
 	// Two figures that a non-negative two-term model can meet exactly:
-	// RG-58 per ARRL Table 6-1 at 30 and 146 MHz (REFERENCES §7).
+	// RG-58 per ARRL General Class License Manual Table 6-1 at 30 and 146 MHz.
 	c, err = CustomCable("two", LossPoint{FreqMHz: 30, DBPer100Ft: 2.47}, LossPoint{FreqMHz: 146, DBPer100Ft: 5.63})
 	if err != nil {
 		t.Fatal(err)
@@ -299,7 +293,7 @@ func TestCustomCable(t *testing.T) {
 	if _, err := CustomCable("none"); err == nil {
 		t.Error("no figures: no error")
 	}
-	if _, err := CustomCable("bad", LossPoint{FreqMHz: -5, DBPer100Ft: 1}); !errors.Is(err, ErrRange) {
+	if _, err := CustomCable("bad", LossPoint{FreqMHz: -5, DBPer100Ft: 1}); !errors.Is(err, units.ErrRange) {
 		t.Errorf("negative frequency: %v", err)
 	}
 }
@@ -345,7 +339,7 @@ func TestCableListGolden(t *testing.T) {
 
 func BenchmarkFeedlineLoss(b *testing.B) {
 	c, _ := LookupCable("RG-213")
-	f := Feedline{Cable: c, LengthM: 30, SWR: 1.5, Connectors: 2, ConnectorLossDB: DefaultConnectorLossDB}
+	f := Line{Cable: c, LengthM: 30, SWR: 1.5, Connectors: 2, ConnectorLossDB: DefaultConnectorLossDB}
 	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := f.Loss(146); err != nil {

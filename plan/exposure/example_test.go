@@ -1,22 +1,22 @@
-package plan_test
+package exposure_test
 
 import (
 	"fmt"
 	"time"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/paulmach/orb"
 )
 
 // An event coordinator puts a 50 W FM mobile radio on 146.52 MHz into a
 // 2.15 dBi dipole on a 3 m mast, transmitting continuously in the worst
 // case, and asks how far people must stay from the mast.
-func ExampleEvaluateExposure() {
-	rep, err := plan.EvaluateExposure(plan.ExposureInput{
+func ExampleEvaluate() {
+	rep, err := exposure.Evaluate(exposure.Input{
 		PowerW:         50,
 		GainDBi:        2.15,
 		FreqMHz:        146.52,
-		Mode:           plan.ModeFM,
+		Mode:           exposure.ModeFM,
 		AntennaHeightM: 3,
 	})
 	if err != nil {
@@ -42,7 +42,7 @@ func ExampleEvaluateExposure() {
 // hold 5 minutes on the air, a 30-minute window 15.
 func ExampleWorstCaseOnAirFraction() {
 	for _, window := range []time.Duration{6 * time.Minute, 30 * time.Minute} {
-		f, err := plan.WorstCaseOnAirFraction(5*time.Minute, 5*time.Minute, window)
+		f, err := exposure.WorstCaseOnAirFraction(5*time.Minute, 5*time.Minute, window)
 		if err != nil {
 			fmt.Println(err)
 			return
@@ -57,12 +57,12 @@ func ExampleWorstCaseOnAirFraction() {
 // The 3.61 m exemption distance of a 50 W ERP station at 146.52 MHz, under
 // 47 CFR § 1.1307(b)(3)(i)(C).
 func ExampleExemptBeyondM() {
-	r, err := plan.ExemptBeyondM(146.52, 50)
+	r, err := exposure.ExemptBeyondM(146.52, 50)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	threshold, _ := plan.ExemptionThresholdERPW(146.52, r)
+	threshold, _ := exposure.ExemptionThresholdERPW(146.52, r)
 	fmt.Printf("exempt beyond %.2f m (threshold there %.1f W ERP)\n", r, threshold)
 	// Output:
 	// exempt beyond 3.61 m (threshold there 50.0 W ERP)
@@ -71,7 +71,7 @@ func ExampleExemptBeyondM() {
 // A keep-out circle of 2.71 m around a mast at an invented field site, as a
 // GeoJSON-ready polygon.
 func ExampleKeepOutCircle() {
-	poly, err := plan.KeepOutCircle(orb.Point{10.1234, 47.4560}, 2.71)
+	poly, err := exposure.KeepOutCircle(orb.Point{10.1234, 47.4560}, 2.71)
 	if err != nil {
 		fmt.Println(err)
 		return

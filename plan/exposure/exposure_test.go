@@ -1,4 +1,4 @@
-package plan
+package exposure
 
 import (
 	"encoding/json"
@@ -22,7 +22,7 @@ import (
 //     averaging, worked examples).
 //   - 47 CFR § 1.1307(b)(3)(i)(C) (exemption thresholds).
 //   - ICNIRP 2020 Table 5 and ICNIRP 1998 Tables 6–7: FROM MEMORY, NOT READ
-//     IN THE PUBLISHED TEXT; to be verified (REFERENCES.md §8 [mem: verify]).
+//     IN THE PUBLISHED TEXT; to be verified.
 // [calc] marks a figure computed by hand from the cited formula.
 
 func TestExposureLimitFor(t *testing.T) {
@@ -30,8 +30,8 @@ func TestExposureLimitFor(t *testing.T) {
 	pub, occ := TierPublic, TierOccupational
 	tests := []struct {
 		name    string
-		std     ExposureStandard
-		tier    ExposureTier
+		std     Standard
+		tier    Tier
 		freqMHz float64
 		wantWM2 float64
 		relTol  float64
@@ -42,7 +42,7 @@ func TestExposureLimitFor(t *testing.T) {
 		{"fcc occ 2 MHz: 100 mW/cm²", fcc, occ, 2, 1000, 1e-12, 6 * time.Minute},
 		{"fcc occ 10 MHz: 900/f² = 9 mW/cm²", fcc, occ, 10, 90, 1e-12, 6 * time.Minute},
 		{"fcc occ 146 MHz: 1.0 mW/cm²", fcc, occ, 146, 10, 1e-12, 6 * time.Minute},
-		{"fcc occ 446 MHz: f/300 = 1.487 mW/cm²", fcc, occ, 446, 14.87, 5e-4, 6 * time.Minute}, // REFERENCES §8 check [calc]
+		{"fcc occ 446 MHz: f/300 = 1.487 mW/cm²", fcc, occ, 446, 14.87, 5e-4, 6 * time.Minute}, // 47 CFR § 1.1310 Table 1 [calc]
 		{"fcc occ 2400 MHz: 5 mW/cm²", fcc, occ, 2400, 50, 1e-12, 6 * time.Minute},
 		{"fcc occ 100 GHz: 5 mW/cm²", fcc, occ, 100000, 50, 1e-12, 6 * time.Minute},
 		// 47 CFR § 1.1310(e)(1) Table 1 (B) general population/uncontrolled, 30 min.
@@ -50,12 +50,12 @@ func TestExposureLimitFor(t *testing.T) {
 		{"fcc pub 2 MHz: 180/f² = 45 mW/cm²", fcc, pub, 2, 450, 1e-12, 30 * time.Minute},
 		{"fcc pub 28 MHz: 180/f² = 0.2296 mW/cm²", fcc, pub, 28, 2.296, 5e-4, 30 * time.Minute},
 		{"fcc pub 146 MHz: 0.2 mW/cm²", fcc, pub, 146, 2, 1e-12, 30 * time.Minute},
-		{"fcc pub 446 MHz: f/1500 = 0.2973 mW/cm²", fcc, pub, 446, 2.973, 5e-4, 30 * time.Minute}, // REFERENCES §8 check [calc]
+		{"fcc pub 446 MHz: f/1500 = 0.2973 mW/cm²", fcc, pub, 446, 2.973, 5e-4, 30 * time.Minute}, // 47 CFR § 1.1310 Table 1 [calc]
 		{"fcc pub 1296 MHz: f/1500 = 0.864 mW/cm²", fcc, pub, 1296, 8.64, 1e-12, 30 * time.Minute},
 		{"fcc pub 5800 MHz: 1.0 mW/cm²", fcc, pub, 5800, 10, 1e-12, 30 * time.Minute},
 		// ICNIRP 2020 Table 5, 30 min [from memory, to verify].
 		{"icnirp2020 pub 146 MHz: 2 W/m²", i20, pub, 146, 2, 1e-12, 30 * time.Minute},
-		{"icnirp2020 pub 446 MHz: f/200 = 2.23 W/m²", i20, pub, 446, 2.23, 1e-12, 30 * time.Minute}, // REFERENCES §8 [mem]
+		{"icnirp2020 pub 446 MHz: f/200 = 2.23 W/m²", i20, pub, 446, 2.23, 1e-12, 30 * time.Minute}, // ICNIRP 2020 Table 5 [from memory]
 		{"icnirp2020 pub 2400 MHz: 10 W/m²", i20, pub, 2400, 10, 1e-12, 30 * time.Minute},
 		// [calc] E = 300/10^0.7 = 59.86 V/m → E²/Z0 = 9.51 W/m² (H = 0.22 A/m → 18.2 W/m²).
 		{"icnirp2020 pub 10 MHz: E²/Z0 of 300/f^0.7 V/m", i20, pub, 10, 9.51, 2e-3, 30 * time.Minute},
@@ -80,7 +80,7 @@ func TestExposureLimitFor(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			got, err := ExposureLimitFor(tc.std, tc.tier, tc.freqMHz)
+			got, err := LimitFor(tc.std, tc.tier, tc.freqMHz)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -114,7 +114,7 @@ func TestExposureLimitBandsJoin(t *testing.T) {
 	}
 	for _, tc := range tables {
 		t.Run(tc.name, func(t *testing.T) {
-			if tc.bands[0].loMHz != ExposureMinFreqMHz || tc.bands[len(tc.bands)-1].hiMHz != ExposureMaxFreqMHz {
+			if tc.bands[0].loMHz != MinFreqMHz || tc.bands[len(tc.bands)-1].hiMHz != MaxFreqMHz {
 				t.Errorf("table spans %g–%g MHz, want 0.3–100000", tc.bands[0].loMHz, tc.bands[len(tc.bands)-1].hiMHz)
 			}
 			for i := 1; i < len(tc.bands); i++ {
@@ -157,8 +157,8 @@ func TestTxModeDutyFactor(t *testing.T) {
 			}
 		})
 	}
-	if _, err := TxMode("am").DutyFactor(); !errors.Is(err, ErrExposureInput) {
-		t.Errorf("unknown mode: err = %v, want ErrExposureInput", err)
+	if _, err := TxMode("am").DutyFactor(); !errors.Is(err, ErrInput) {
+		t.Errorf("unknown mode: err = %v, want ErrInput", err)
 	}
 }
 
@@ -186,7 +186,7 @@ func TestWorstCaseOnAirFraction(t *testing.T) {
 		on, off, wind time.Duration
 		want, tol     float64
 	}{
-		// OET Bulletin 65 Supplement B worked examples, worst-case window (REFERENCES §8).
+		// OET Bulletin 65 Supplement B worked examples, worst-case window.
 		{"7 on 7 off, 6 min: all on", 7 * time.Minute, 7 * time.Minute, 6 * time.Minute, 1, 1e-12},
 		{"7 on 7 off, 30 min: 16 of 30", 7 * time.Minute, 7 * time.Minute, 30 * time.Minute, 16.0 / 30, 1e-12},
 		{"15 s every 2 min, 6 min", 15 * time.Second, 105 * time.Second, 6 * time.Minute, 0.125, 1e-12},
@@ -233,37 +233,37 @@ func TestWorstCaseOnAirFraction(t *testing.T) {
 		{"zero window", time.Minute, time.Minute, 0},
 		{"overflowing cycle", math.MaxInt64 - 5, 10, time.Minute},
 	} {
-		if _, err := WorstCaseOnAirFraction(bad.on, bad.off, bad.wind); !errors.Is(err, ErrExposureInput) {
-			t.Errorf("%s: err = %v, want ErrExposureInput", bad.name, err)
+		if _, err := WorstCaseOnAirFraction(bad.on, bad.off, bad.wind); !errors.Is(err, ErrInput) {
+			t.Errorf("%s: err = %v, want ErrInput", bad.name, err)
 		}
 	}
 }
 
 func TestEvaluateExposureAveraging(t *testing.T) {
-	// OET Bulletin 65 Supplement B worked examples (REFERENCES §8), 0 dBi and
+	// OET Bulletin 65 Supplement B (ed. 97-01) worked examples, 0 dBi and
 	// no feedline loss, so the EIRP does not matter here.
 	tests := []struct {
 		name             string
-		in               ExposureInput
+		in               Input
 		wantOcc, wantPub float64
 		tol              float64 // W
 	}{
-		{"1500 W SSB 7 on 7 off", ExposureInput{PowerW: 1500, FreqMHz: 14.2, Mode: ModeSSB, OnTime: 7 * time.Minute, OffTime: 7 * time.Minute}, 300, 160, 1e-9},
-		{"500 W CW 15 s every 2 min", ExposureInput{PowerW: 500, FreqMHz: 7.03, Mode: ModeCW, OnTime: 15 * time.Second, OffTime: 105 * time.Second}, 25, 25, 1e-9},
-		{"250 W FM 5 on 5 off", ExposureInput{PowerW: 250, FreqMHz: 146.52, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute}, 208.333, 125, 1e-3},
-		{"1500 W SSB 2 on 1 off", ExposureInput{PowerW: 1500, FreqMHz: 14.2, Mode: ModeSSB, OnTime: 2 * time.Minute, OffTime: time.Minute}, 200, 200, 1e-9}, // [calc]
+		{"1500 W SSB 7 on 7 off", Input{PowerW: 1500, FreqMHz: 14.2, Mode: ModeSSB, OnTime: 7 * time.Minute, OffTime: 7 * time.Minute}, 300, 160, 1e-9},
+		{"500 W CW 15 s every 2 min", Input{PowerW: 500, FreqMHz: 7.03, Mode: ModeCW, OnTime: 15 * time.Second, OffTime: 105 * time.Second}, 25, 25, 1e-9},
+		{"250 W FM 5 on 5 off", Input{PowerW: 250, FreqMHz: 146.52, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute}, 208.333, 125, 1e-3},
+		{"1500 W SSB 2 on 1 off", Input{PowerW: 1500, FreqMHz: 14.2, Mode: ModeSSB, OnTime: 2 * time.Minute, OffTime: time.Minute}, 200, 200, 1e-9}, // [calc]
 		// [calc] 100 W × 0.4 × 0.5 = 20 W: a plain fraction applies to both tiers.
-		{"100 W CW tx 50 %", ExposureInput{PowerW: 100, FreqMHz: 50.1, Mode: ModeCW, TxFraction: 0.5}, 20, 20, 1e-9},
+		{"100 W CW tx 50 %", Input{PowerW: 100, FreqMHz: 50.1, Mode: ModeCW, TxFraction: 0.5}, 20, 20, 1e-9},
 		// [calc] duty override 0.3 replaces FM's 1.0: 100 W × 0.3 = 30 W.
-		{"duty override", ExposureInput{PowerW: 100, FreqMHz: 50.1, Mode: ModeFM, DutyFactor: 0.3}, 30, 30, 1e-9},
+		{"duty override", Input{PowerW: 100, FreqMHz: 50.1, Mode: ModeFM, DutyFactor: 0.3}, 30, 30, 1e-9},
 		// ICNIRP 2020 averages both tiers over 30 min: 7 on 7 off → 16/30 each [calc].
-		{"icnirp2020 SSB 7 on 7 off", ExposureInput{PowerW: 1500, FreqMHz: 14.2, Mode: ModeSSB, OnTime: 7 * time.Minute, OffTime: 7 * time.Minute, Standard: StandardICNIRP2020}, 160, 160, 1e-9},
+		{"icnirp2020 SSB 7 on 7 off", Input{PowerW: 1500, FreqMHz: 14.2, Mode: ModeSSB, OnTime: 7 * time.Minute, OffTime: 7 * time.Minute, Standard: StandardICNIRP2020}, 160, 160, 1e-9},
 		// ICNIRP 1998 averages both over 6 min: 5 on 5 off → 5/6 each [calc].
-		{"icnirp1998 FM 5 on 5 off", ExposureInput{PowerW: 250, FreqMHz: 146.52, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, Standard: StandardICNIRP1998}, 208.333, 208.333, 1e-3},
+		{"icnirp1998 FM 5 on 5 off", Input{PowerW: 250, FreqMHz: 146.52, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, Standard: StandardICNIRP1998}, 208.333, 208.333, 1e-3},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			rep, err := EvaluateExposure(tc.in)
+			rep, err := Evaluate(tc.in)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -278,7 +278,7 @@ func TestEvaluateExposureAveraging(t *testing.T) {
 }
 
 func TestEvaluateExposureDistances(t *testing.T) {
-	// REFERENCES §8 check [calc], continuous FM, F = 2.56, FCC limits,
+	// Computed [calc], continuous FM, F = 2.56, 47 CFR § 1.1310 Table 1 limits,
 	// R = √(2.56·EIRP/(4π·S)) (OET Bulletin 65 eq. 6); figures rounded to cm.
 	tests := []struct {
 		name             string
@@ -292,7 +292,7 @@ func TestEvaluateExposureDistances(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			rep, err := EvaluateExposure(ExposureInput{PowerW: tc.powerW, GainDBi: 2.15, FreqMHz: tc.freqMHz, Mode: ModeFM})
+			rep, err := Evaluate(Input{PowerW: tc.powerW, GainDBi: 2.15, FreqMHz: tc.freqMHz, Mode: ModeFM})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -304,7 +304,7 @@ func TestEvaluateExposureDistances(t *testing.T) {
 			}
 			// The density at the compliance distance is the limit (OET 65 eq. 6).
 			avgEIRP := rep.EIRPW * rep.DutyFactor * rep.TxFractionPublic
-			if s := FarFieldPowerDensityWM2(avgEIRP, rep.DistancePublicM, rep.ReflectionFactor); math.Abs(s-rep.LimitPublicWM2) > 1e-9 {
+			if s := farFieldPowerDensityWM2(avgEIRP, rep.DistancePublicM, rep.ReflectionFactor); math.Abs(s-rep.LimitPublicWM2) > 1e-9 {
 				t.Errorf("density at the public distance = %g W/m², want the limit %g W/m²", s, rep.LimitPublicWM2)
 			}
 		})
@@ -313,8 +313,8 @@ func TestEvaluateExposureDistances(t *testing.T) {
 
 func TestEvaluateExposureFeedlineAndReflection(t *testing.T) {
 	// [calc] 100 W, 6 dBi, 3 dB feedline: EIRP = 100·10^0.3 = 199.5 W.
-	base := ExposureInput{PowerW: 100, GainDBi: 6, FeedlineLossDB: 3, FreqMHz: 146, Mode: ModeFM}
-	rep, err := EvaluateExposure(base)
+	base := Input{PowerW: 100, GainDBi: 6, FeedlineLossDB: 3, FreqMHz: 146, Mode: ModeFM}
+	rep, err := Evaluate(base)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -327,7 +327,7 @@ func TestEvaluateExposureFeedlineAndReflection(t *testing.T) {
 	}{{1, 2.8176}, {2.56, 4.5082}, {4, 5.6352}} {
 		in := base
 		in.ReflectionFactor = tc.f
-		rep, err := EvaluateExposure(in)
+		rep, err := Evaluate(in)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -338,16 +338,16 @@ func TestEvaluateExposureFeedlineAndReflection(t *testing.T) {
 }
 
 func TestICNIRPComparison446(t *testing.T) {
-	// REFERENCES §8: at 446 MHz the ICNIRP 2020 public level f/200 = 2.23 W/m²
+	// At 446 MHz the ICNIRP 2020 Table 5 public level f/200 = 2.23 W/m²
 	// [mem: verify] is stricter than the FCC's f/1500 mW/cm² = 2.97 W/m², so
 	// its distance is longer by √(2.973/2.23) = 1.1547 [calc].
-	in := ExposureInput{PowerW: 50, GainDBi: 2.15, FreqMHz: 446, Mode: ModeFM}
-	fcc, err := EvaluateExposure(in)
+	in := Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 446, Mode: ModeFM}
+	fcc, err := Evaluate(in)
 	if err != nil {
 		t.Fatal(err)
 	}
 	in.Standard = StandardICNIRP2020
-	icn, err := EvaluateExposure(in)
+	icn, err := Evaluate(in)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -363,7 +363,7 @@ func TestICNIRPComparison446(t *testing.T) {
 }
 
 func TestExemptionThresholdERPW(t *testing.T) {
-	// 47 CFR § 1.1307(b)(3)(i)(C) table; checks from REFERENCES §8 [calc].
+	// 47 CFR § 1.1307(b)(3)(i)(C) table; checks computed from it [calc].
 	tests := []struct {
 		name             string
 		freqMHz, distM   float64
@@ -394,8 +394,8 @@ func TestExemptionThresholdERPW(t *testing.T) {
 		})
 	}
 	// Inside λ/2π the rule does not apply: 1 MHz → λ/2π = 47.7 m [calc].
-	if _, err := ExemptionThresholdERPW(1, 10); !errors.Is(err, ErrExposureInput) {
-		t.Errorf("1 MHz at 10 m: err = %v, want ErrExposureInput", err)
+	if _, err := ExemptionThresholdERPW(1, 10); !errors.Is(err, ErrInput) {
+		t.Errorf("1 MHz at 10 m: err = %v, want ErrInput", err)
 	}
 }
 
@@ -427,31 +427,31 @@ func TestExemptAtAndBeyond(t *testing.T) {
 			}
 			// Exempt at that distance and beyond; not just inside it when
 			// the power, not λ/2π, sets it.
-			if ok, err := ExemptAt(tc.freqMHz, tc.erpW, got*(1+1e-9)); err != nil || !ok {
-				t.Errorf("ExemptAt(%.4f m) = %v, %v; want true", got, ok, err)
+			if ok, err := exemptAt(tc.freqMHz, tc.erpW, got*(1+1e-9)); err != nil || !ok {
+				t.Errorf("exemptAt(%.4f m) = %v, %v; want true", got, ok, err)
 			}
 			if got > NearFieldBoundaryM(tc.freqMHz)*1.001 {
-				if ok, err := ExemptAt(tc.freqMHz, tc.erpW, got*0.999); err != nil || ok {
-					t.Errorf("ExemptAt(%.4f m) = %v, %v; want false", got*0.999, ok, err)
+				if ok, err := exemptAt(tc.freqMHz, tc.erpW, got*0.999); err != nil || ok {
+					t.Errorf("exemptAt(%.4f m) = %v, %v; want false", got*0.999, ok, err)
 				}
 			}
 		})
 	}
-	if _, err := ExemptBeyondM(146, -1); !errors.Is(err, ErrExposureInput) {
-		t.Errorf("negative ERP: err = %v, want ErrExposureInput", err)
+	if _, err := ExemptBeyondM(146, -1); !errors.Is(err, ErrInput) {
+		t.Errorf("negative ERP: err = %v, want ErrInput", err)
 	}
-	if _, err := ExemptAt(146, -1, 5); !errors.Is(err, ErrExposureInput) {
-		t.Errorf("ExemptAt negative ERP: err = %v, want ErrExposureInput", err)
+	if _, err := exemptAt(146, -1, 5); !errors.Is(err, ErrInput) {
+		t.Errorf("exemptAt negative ERP: err = %v, want ErrInput", err)
 	}
-	if _, err := ExemptBeyondM(0.1, 1); !errors.Is(err, ErrExposureInput) {
-		t.Errorf("0.1 MHz: err = %v, want ErrExposureInput", err)
+	if _, err := ExemptBeyondM(0.1, 1); !errors.Is(err, ErrInput) {
+		t.Errorf("0.1 MHz: err = %v, want ErrInput", err)
 	}
 }
 
 func TestEvaluateExposureExemption(t *testing.T) {
 	// 50 W FM into 2.15 dBi at 146 MHz: EIRP 82.03 W, ERP 50.02 W [calc]
 	// (1.64 rounds 10^0.215 = 1.6406); exempt beyond √(50.02/3.83) = 3.614 m.
-	rep, err := EvaluateExposure(ExposureInput{PowerW: 50, GainDBi: 2.15, FreqMHz: 146, Mode: ModeFM})
+	rep, err := Evaluate(Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 146, Mode: ModeFM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -460,7 +460,7 @@ func TestEvaluateExposureExemption(t *testing.T) {
 	}
 	// 0 dBi, 3 dB feedline: ERP = 100·0.5/1.64 = 30.5 W is less than the 100 W
 	// available, so the exemption uses 100 W: √(100/3.83) = 5.110 m [calc].
-	rep, err = EvaluateExposure(ExposureInput{PowerW: 100, FeedlineLossDB: 3.0103, FreqMHz: 146, Mode: ModeFM})
+	rep, err = Evaluate(Input{PowerW: 100, FeedlineLossDB: 3.0103, FreqMHz: 146, Mode: ModeFM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -469,7 +469,7 @@ func TestEvaluateExposureExemption(t *testing.T) {
 	}
 	// The exemption averages over 30 min even under ICNIRP 1998 (6 min):
 	// 250 W FM 5 on 5 off, 0 dBi → max(125/1.64, 125) = 125 W → 5.713 m [calc].
-	rep, err = EvaluateExposure(ExposureInput{PowerW: 250, FreqMHz: 146, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, Standard: StandardICNIRP1998})
+	rep, err = Evaluate(Input{PowerW: 250, FreqMHz: 146, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, Standard: StandardICNIRP1998})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -489,14 +489,14 @@ func TestNearFieldBoundaryM(t *testing.T) {
 	}
 }
 
-func TestFarFieldPowerDensityWM2(t *testing.T) {
+func TestFarFieldPowerDensity(t *testing.T) {
 	// [calc] S = F·EIRP/(4πR²), OET Bulletin 65 eqs. 3–6.
 	for _, tc := range []struct{ eirpW, distM, f, want float64 }{
 		{100, 10, 1, 0.0795775},
 		{100, 10, 2.56, 0.2037183},
 		{1000, 3, 4, 35.367765},
 	} {
-		if got := FarFieldPowerDensityWM2(tc.eirpW, tc.distM, tc.f); math.Abs(got-tc.want) > 1e-6*tc.want {
+		if got := farFieldPowerDensityWM2(tc.eirpW, tc.distM, tc.f); math.Abs(got-tc.want) > 1e-6*tc.want {
 			t.Errorf("S(%g W, %g m, F=%g) = %.7f W/m², want %.7f", tc.eirpW, tc.distM, tc.f, got, tc.want)
 		}
 	}
@@ -525,7 +525,7 @@ func TestKeepOutRadiusM(t *testing.T) {
 		})
 	}
 
-	// Through EvaluateExposure: 50 W FM 2.15 dBi at 146 MHz, R = 2.89 / 1.29 m.
+	// Through Evaluate: 50 W FM 2.15 dBi at 146 MHz, R = 2.89 / 1.29 m.
 	for _, tc := range []struct {
 		name             string
 		antM, headM      float64
@@ -536,7 +536,7 @@ func TestKeepOutRadiusM(t *testing.T) {
 		{"3 m mast, 1.2 m head", 3, 1.2, 2.2617, 0},  // [calc] √(2.8906² − 1.8²); 1.2927 < 1.8
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			rep, err := EvaluateExposure(ExposureInput{PowerW: 50, GainDBi: 2.15, FreqMHz: 146, Mode: ModeFM, AntennaHeightM: tc.antM, HeadHeightM: tc.headM})
+			rep, err := Evaluate(Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 146, Mode: ModeFM, AntennaHeightM: tc.antM, HeadHeightM: tc.headM})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -548,72 +548,73 @@ func TestKeepOutRadiusM(t *testing.T) {
 }
 
 func TestEvaluateExposureInvalid(t *testing.T) {
-	good := ExposureInput{PowerW: 50, GainDBi: 2.15, FreqMHz: 146.52, Mode: ModeFM, AntennaHeightM: 3}
+	good := Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 146.52, Mode: ModeFM, AntennaHeightM: 3}
 	tests := []struct {
 		name   string
-		modify func(*ExposureInput)
+		modify func(*Input)
 		want   string // a fragment the message must contain
 	}{
-		{"negative power", func(in *ExposureInput) { in.PowerW = -5 }, "power -5 W"},
-		{"zero power", func(in *ExposureInput) { in.PowerW = 0 }, "power 0 W"},
-		{"NaN power", func(in *ExposureInput) { in.PowerW = math.NaN() }, "power is NaN"},
-		{"infinite gain", func(in *ExposureInput) { in.GainDBi = math.Inf(1) }, "antenna gain is +Inf"},
-		{"negative feedline loss", func(in *ExposureInput) { in.FeedlineLossDB = -1 }, "feedline loss -1 dB"},
-		{"frequency too low", func(in *ExposureInput) { in.FreqMHz = 0.1 }, "frequency 0.1 MHz"},
-		{"frequency too high", func(in *ExposureInput) { in.FreqMHz = 100001 }, "frequency 100001 MHz"},
-		{"zero frequency", func(in *ExposureInput) { in.FreqMHz = 0 }, "frequency 0 MHz"},
-		{"unknown mode", func(in *ExposureInput) { in.Mode = "am" }, `unknown mode "am"`},
-		{"duty above 1", func(in *ExposureInput) { in.DutyFactor = 1.5 }, "duty factor 1.5"},
-		{"negative duty", func(in *ExposureInput) { in.DutyFactor = -0.2 }, "duty factor -0.2"},
-		{"unknown standard", func(in *ExposureInput) { in.Standard = "etsi" }, `unknown exposure standard "etsi"`},
-		{"reflection 2", func(in *ExposureInput) { in.ReflectionFactor = 2 }, "reflection factor 2"},
-		{"tx fraction above 1", func(in *ExposureInput) { in.TxFraction = 1.2 }, "transmit fraction 1.2"},
-		{"negative tx fraction", func(in *ExposureInput) { in.TxFraction = -0.5 }, "transmit fraction -0.5"},
-		{"fraction and cycle", func(in *ExposureInput) { in.TxFraction = 0.5; in.OnTime = time.Minute }, "not both"},
-		{"negative on time", func(in *ExposureInput) { in.OnTime = -time.Minute; in.OffTime = time.Minute }, "must not be negative"},
-		{"negative off time", func(in *ExposureInput) { in.OnTime = time.Minute; in.OffTime = -time.Minute }, "must not be negative"},
-		{"off time without on time", func(in *ExposureInput) { in.OffTime = time.Minute }, "transmit time 0s"},
-		{"negative antenna height", func(in *ExposureInput) { in.AntennaHeightM = -1 }, "antenna height -1 m"},
-		{"negative head height", func(in *ExposureInput) { in.HeadHeightM = -2 }, "head height -2 m"},
+		{"negative power", func(in *Input) { in.PowerW = -5 }, "power -5 W"},
+		{"zero power", func(in *Input) { in.PowerW = 0 }, "power 0 W"},
+		{"NaN power", func(in *Input) { in.PowerW = math.NaN() }, "power is NaN"},
+		{"infinite gain", func(in *Input) { in.GainDBi = math.Inf(1) }, "antenna gain is +Inf"},
+		{"negative feedline loss", func(in *Input) { in.FeedlineLossDB = -1 }, "feedline loss -1 dB"},
+		{"frequency too low", func(in *Input) { in.FreqMHz = 0.1 }, "frequency 0.1 MHz"},
+		{"frequency too high", func(in *Input) { in.FreqMHz = 100001 }, "frequency 100001 MHz"},
+		{"zero frequency", func(in *Input) { in.FreqMHz = 0 }, "frequency 0 MHz"},
+		{"unknown mode", func(in *Input) { in.Mode = "am" }, `unknown mode "am"`},
+		{"duty above 1", func(in *Input) { in.DutyFactor = 1.5 }, "duty factor 1.5"},
+		{"negative duty", func(in *Input) { in.DutyFactor = -0.2 }, "duty factor -0.2"},
+		{"unknown standard", func(in *Input) { in.Standard = "etsi" }, `unknown exposure standard "etsi"`},
+		{"reflection 2", func(in *Input) { in.ReflectionFactor = 2 }, "reflection factor 2"},
+		{"tx fraction above 1", func(in *Input) { in.TxFraction = 1.2 }, "transmit fraction 1.2"},
+		{"negative tx fraction", func(in *Input) { in.TxFraction = -0.5 }, "transmit fraction -0.5"},
+		{"fraction and cycle", func(in *Input) { in.TxFraction = 0.5; in.OnTime = time.Minute }, "not both"},
+		{"negative on time", func(in *Input) { in.OnTime = -time.Minute; in.OffTime = time.Minute }, "must not be negative"},
+		{"negative off time", func(in *Input) { in.OnTime = time.Minute; in.OffTime = -time.Minute }, "must not be negative"},
+		{"off time without on time", func(in *Input) { in.OffTime = time.Minute }, "transmit time 0s"},
+		{"negative antenna height", func(in *Input) { in.AntennaHeightM = -1 }, "antenna height -1 m"},
+		{"negative head height", func(in *Input) { in.HeadHeightM = -2 }, "head height -2 m"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			in := good
 			tc.modify(&in)
-			_, err := EvaluateExposure(in)
-			if !errors.Is(err, ErrExposureInput) {
-				t.Fatalf("err = %v, want one wrapping ErrExposureInput", err)
+			_, err := Evaluate(in)
+			if !errors.Is(err, ErrInput) {
+				t.Fatalf("err = %v, want one wrapping ErrInput", err)
 			}
 			if msg := err.Error(); !strings.Contains(msg, tc.want) || msg != strings.ToLower(msg[:1])+msg[1:] {
 				t.Errorf("message %q should start lowercase and contain %q", msg, tc.want)
 			}
 		})
 	}
-	if _, err := EvaluateExposure(good); err != nil {
+	if _, err := Evaluate(good); err != nil {
 		t.Fatalf("the valid base input fails: %v", err)
 	}
-	if _, err := ExposureLimitFor(StandardFCC, ExposureTier(7), 146); !errors.Is(err, ErrExposureInput) {
+	if _, err := LimitFor(StandardFCC, Tier(7), 146); !errors.Is(err, ErrInput) {
 		t.Errorf("unknown tier: err = %v", err)
 	}
-	if _, err := ExposureLimitFor("who", TierPublic, 146); !errors.Is(err, ErrExposureInput) {
+	if _, err := LimitFor("who", TierPublic, 146); !errors.Is(err, ErrInput) {
 		t.Errorf("unknown standard: err = %v", err)
 	}
-	// An empty or capitalised name reads as by ParseExposureStandard.
-	for _, name := range []ExposureStandard{"", "FCC", " fcc "} {
-		if lim, err := ExposureLimitFor(name, TierPublic, 146); err != nil || lim.PowerDensityWM2 != 2 {
+	// An empty or capitalised name reads as by ParseStandard.
+	for _, name := range []Standard{"", "FCC", " fcc "} {
+		if lim, err := LimitFor(name, TierPublic, 146); err != nil || lim.PowerDensityWM2 != 2 {
 			t.Errorf("standard %q: limit %v, err %v; want the FCC's 2 W/m² at 146 MHz", name, lim, err) // § 1.1310 Table 1: 0.2 mW/cm²
 		}
 	}
 }
 
 func TestExposureReportJSON(t *testing.T) {
-	// The `exposure` JSON contract of DESIGN.md, plus the exemption fields.
+	// The JSON field names `mastlink exposure --format json` promises
+	// scripts, plus the exemption fields.
 	contract := []string{
 		"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
 		"limit_public_w_m2", "limit_occupational_w_m2", "distance_public_m", "distance_occupational_m",
 		"keepout_public_m", "keepout_occupational_m", "cautions", "exempt_beyond_m", "erp_w", "near_field_m",
 	}
-	rep, err := EvaluateExposure(ExposureInput{PowerW: 5, GainDBi: 2.15, FreqMHz: 446, Mode: ModeFM})
+	rep, err := Evaluate(Input{PowerW: 5, GainDBi: 2.15, FreqMHz: 446, Mode: ModeFM})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -633,8 +634,8 @@ func TestExposureReportJSON(t *testing.T) {
 	if fields["standard"] != "fcc" || fields["mode"] != "fm" {
 		t.Errorf("standard %v, mode %v; want fcc, fm", fields["standard"], fields["mode"])
 	}
-	if !reflect.DeepEqual(rep.Cautions, ExposureCautions()) || len(rep.Cautions) == 0 {
-		t.Errorf("cautions = %q, want ExposureCautions()", rep.Cautions)
+	if !reflect.DeepEqual(rep.Cautions, Cautions()) || len(rep.Cautions) == 0 {
+		t.Errorf("cautions = %q, want Cautions()", rep.Cautions)
 	}
 	// Every caution topic is present.
 	all := strings.ToLower(strings.Join(rep.Cautions, " "))
@@ -645,8 +646,8 @@ func TestExposureReportJSON(t *testing.T) {
 	}
 	// Callers cannot change the package's cautions through the slice.
 	rep.Cautions[0] = "changed"
-	if ExposureCautions()[0] == "changed" {
-		t.Error("ExposureCautions shares its backing array")
+	if Cautions()[0] == "changed" {
+		t.Error("Cautions shares its backing array")
 	}
 }
 
@@ -690,8 +691,8 @@ func TestKeepOutCircle(t *testing.T) {
 		{"latitude near pole", orb.Point{0, 89.5}, 10},
 		{"longitude out of range", orb.Point{200, 0}, 10},
 	} {
-		if _, err := KeepOutCircle(bad.c, bad.radiusM); !errors.Is(err, ErrExposureInput) {
-			t.Errorf("%s: err = %v, want ErrExposureInput", bad.name, err)
+		if _, err := KeepOutCircle(bad.c, bad.radiusM); !errors.Is(err, ErrInput) {
+			t.Errorf("%s: err = %v, want ErrInput", bad.name, err)
 		}
 	}
 }
@@ -765,7 +766,7 @@ func TestKeepOutCircleGeodSolve(t *testing.T) {
 }
 
 // FuzzEvaluateExposure feeds arbitrary inputs and checks that the function
-// never panics, that every error wraps ErrExposureInput, and that a report
+// never panics, that every error wraps ErrInput, and that a report
 // obeys the physics: non-negative figures, keep-out no larger than the
 // distance, and the occupational distance not beyond the public one where
 // the limits' ratio covers the windows' ratio (the worst-case on-time in a
@@ -778,16 +779,16 @@ func FuzzEvaluateExposure(f *testing.F) {
 	f.Add(250.0, 6.0, 1.2, 446.0, "digital", 0.3, 0.5, int64(0), int64(0), "icnirp2020", 1.0, 1.0, 0.0)
 	f.Add(-1.0, 0.0, 0.0, 0.1, "am", 2.0, 3.0, int64(-1), int64(-1), "x", 3.0, -1.0, -1.0)
 	f.Fuzz(func(t *testing.T, powerW, gainDBi, lossDB, freqMHz float64, mode string, duty, frac float64, onNS, offNS int64, std string, refl, antM, headM float64) {
-		in := ExposureInput{
+		in := Input{
 			PowerW: powerW, GainDBi: gainDBi, FeedlineLossDB: lossDB, FreqMHz: freqMHz,
 			Mode: TxMode(mode), DutyFactor: duty, TxFraction: frac,
 			OnTime: time.Duration(onNS), OffTime: time.Duration(offNS),
-			Standard: ExposureStandard(std), ReflectionFactor: refl, AntennaHeightM: antM, HeadHeightM: headM,
+			Standard: Standard(std), ReflectionFactor: refl, AntennaHeightM: antM, HeadHeightM: headM,
 		}
-		rep, err := EvaluateExposure(in)
+		rep, err := Evaluate(in)
 		if err != nil {
-			if !errors.Is(err, ErrExposureInput) {
-				t.Fatalf("error %v does not wrap ErrExposureInput", err)
+			if !errors.Is(err, ErrInput) {
+				t.Fatalf("error %v does not wrap ErrInput", err)
 			}
 			return
 		}
@@ -818,11 +819,40 @@ func FuzzEvaluateExposure(f *testing.F) {
 }
 
 func BenchmarkEvaluateExposure(b *testing.B) {
-	in := ExposureInput{PowerW: 50, GainDBi: 2.15, FreqMHz: 146.52, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, AntennaHeightM: 3}
+	in := Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 146.52, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, AntennaHeightM: 3}
 	b.ReportAllocs()
 	for b.Loop() {
-		if _, err := EvaluateExposure(in); err != nil {
+		if _, err := Evaluate(in); err != nil {
 			b.Fatal(err)
 		}
 	}
+}
+
+// The forward formulas below are kept in the tests as independent checks
+// of the solved forms the package exports.
+
+// farFieldPowerDensityWM2 returns the far-field power density in W/m² at
+// distance distanceM (m, > 0) from an antenna radiating eirpW (W, EIRP in
+// the direction of interest), with ground-reflection factor reflection
+// (1, 2.56 or 4): S = F·EIRP/(4πR²), FCC OET Bulletin 65 (ed. 97-01)
+// eqs. (3)–(6). Within about λ/2π of the antenna (NearFieldBoundaryM) the
+// formula overestimates and is not reliable.
+func farFieldPowerDensityWM2(eirpW, distanceM, reflection float64) float64 {
+	return reflection * eirpW / (4 * math.Pi * distanceM * distanceM)
+}
+
+// exemptAt reports whether a source of erpW watts (the greater of its
+// time-averaged ERP and available power) at freqMHz is exempt from routine
+// evaluation under 47 CFR § 1.1307(b)(3)(i)(C) for people no closer than
+// distanceM metres. Errors are those of ExemptionThresholdERPW, or a
+// negative power.
+func exemptAt(freqMHz, erpW, distanceM float64) (bool, error) {
+	if math.IsNaN(erpW) || erpW < 0 {
+		return false, fmt.Errorf("%w: ERP %g W is negative; give 0 W or more", ErrInput, erpW)
+	}
+	threshold, err := ExemptionThresholdERPW(freqMHz, distanceM)
+	if err != nil {
+		return false, err
+	}
+	return erpW <= threshold, nil
 }

@@ -1,24 +1,7 @@
-package plan
+package units
 
-// Quantities with units, as users type them on the command line and in the
-// plan file.
-//
-// Representation: every parser returns a plain float64 in one fixed unit, and
-// the unit is part of the function name (ParseLengthM returns metres,
-// ParsePowerW watts, ParseFreqMHz megahertz). The rest of the package carries
-// the same unit suffixes on its fields (HeightM, FreqMHz, LossDB), so values
-// pass through without conversion and a reader always sees the unit at the
-// call site. The exceptions are durations (time.Duration), length ranges
-// (LengthRange, metres) and points (orb.Point, lon/lat degrees).
-//
-// Syntax: a decimal number (optional sign, optional fraction, optional
-// exponent such as 1e3), optional spaces, then a unit. A bare number takes the
-// kind's default unit. Units match case-insensitively, except where the case
-// is the only thing telling two units apart: for power a capital M is mega
-// (MW, megawatt) and a small m is milli (mW). Megawatts are accepted by the
-// syntax and then rejected by the range check (at most 100 kW), with a hint
-// to write mW. Surrounding spaces are ignored. Decimal commas ("1,5m"),
-// thousands separators, NaN and infinities are not accepted.
+// Parsing of quantities as users type them; the syntax is described in
+// the package documentation.
 
 import (
 	"errors"
@@ -90,6 +73,8 @@ const (
 	MetresPerFoot = 0.3048   // exact
 	MetresPerInch = 0.0254   // exact
 	MetresPerMile = 1609.344 // exact: 5280 ft
+
+	KilogramsPerPound = 0.45359237 // exact
 )
 
 // Upper limits of the range checks.
@@ -589,3 +574,52 @@ func FormatFreq(mhz float64) string {
 	}
 	return fmt.Sprintf("%.3f GHz", mhz/1000)
 }
+
+// KindKFactor is the kind of an effective earth-radius factor.
+const KindKFactor Kind = "k-factor"
+
+// ParseKFactor parses an effective earth-radius factor k, the ratio of the
+// effective to the true earth radius (ITU-R P.453-14 §2.1; ITU-R P.530-19
+// §2.2 gives k = 4/3 as the median without local data): a number such as
+// 1.333 or a fraction such as 4/3. It must lie between 0.5 and 10
+// (ErrRange), which spans the published sub-refractive and
+// super-refractive values of the troposphere without reaching ducting.
+func ParseKFactor(s string) (float64, error) {
+	const hint = "write e.g. 4/3 or 1.333"
+	t := strings.TrimSpace(s)
+	var k float64
+	if a, b, ok := strings.Cut(t, "/"); ok {
+		x, e1 := strconv.ParseFloat(strings.TrimSpace(a), 64)
+		y, e2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
+		if e1 != nil || e2 != nil || y == 0 {
+			return 0, qerr(KindKFactor, s, ErrSyntax, "not a k-factor (%s)", hint)
+		}
+		k = x / y
+	} else {
+		x, err := strconv.ParseFloat(t, 64)
+		if err != nil {
+			return 0, qerr(KindKFactor, s, ErrSyntax, "not a k-factor (%s)", hint)
+		}
+		k = x
+	}
+	if !(k >= 0.5 && k <= 10) {
+		return 0, qerr(KindKFactor, s, ErrRange, "k-factor %g is outside 0.5 to 10 (4/3 is the usual median)", k)
+	}
+	return k, nil
+}
+
+// OptionError is an error in one option of a group that is parsed together
+// from text (a link requirement, a station's RF-exposure habits), so that
+// the command line and the plan file share one parser. Option is the key
+// as the plan file spells it ("tx_time", "reliability"); a command turns
+// it into its flag (--tx-time), the plan parser into the field and line.
+type OptionError struct {
+	Option string // the option's key, lower case, words joined by "_"
+	Err    error  // what is wrong: often a *QuantityError
+}
+
+// Error returns "key: what is wrong".
+func (e *OptionError) Error() string { return e.Option + ": " + e.Err.Error() }
+
+// Unwrap returns the cause, so errors.Is(err, ErrRange) works.
+func (e *OptionError) Unwrap() error { return e.Err }

@@ -1,4 +1,4 @@
-package plan
+package gpx
 
 import (
 	"errors"
@@ -26,7 +26,7 @@ const sampleGPX = `<?xml version="1.0" encoding="UTF-8"?>
 </gpx>`
 
 func TestDecodeGPX(t *testing.T) {
-	f, err := DecodeGPX([]byte(sampleGPX), "sample.gpx")
+	f, err := Decode([]byte(sampleGPX), "sample.gpx")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -55,7 +55,7 @@ func TestDecodeGPX(t *testing.T) {
 }
 
 func TestLookupSuggests(t *testing.T) {
-	f, err := DecodeGPX([]byte(sampleGPX), "sample.gpx")
+	f, err := Decode([]byte(sampleGPX), "sample.gpx")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -79,8 +79,8 @@ func TestDecodeGPXErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			_, err := DecodeGPX([]byte(c.doc), "bad.gpx")
-			if err == nil || !errors.Is(err, ErrGPX) || !strings.Contains(err.Error(), c.want) {
+			_, err := Decode([]byte(c.doc), "bad.gpx")
+			if err == nil || !errors.Is(err, ErrFile) || !strings.Contains(err.Error(), c.want) {
 				t.Fatalf("err = %v, want it to contain %q", err, c.want)
 			}
 		})
@@ -88,14 +88,14 @@ func TestDecodeGPXErrors(t *testing.T) {
 }
 
 func TestGPXRoundTrip(t *testing.T) {
-	in := GPXOutput{
+	in := Output{
 		Name: "round trip",
 		Waypoints: []Place{{Name: "A", Pos: orb.Point{-123.25, -48.75}, ElevM: 812.5, Description: "margin 12.3 dB",
 			Time: time.Date(2026, 5, 16, 9, 30, 0, 0, time.FixedZone("x", 3600))}},
 		Tracks: []Track{{Name: "t", Points: []Place{{Pos: orb.Point{-123, -48}, ElevM: math.NaN()}, {Pos: orb.Point{-123.001, -48.001}, ElevM: 10}}}},
 		Routes: []Track{{Name: "r", Points: []Place{{Pos: orb.Point{1, 2}, ElevM: math.NaN()}, {Pos: orb.Point{1, 2}, ElevM: math.NaN()}}}},
 	}
-	b, err := EncodeGPX(in)
+	b, err := Encode(in)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -106,7 +106,7 @@ func TestGPXRoundTrip(t *testing.T) {
 	if err := os.WriteFile(path, b, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	out, err := ReadGPX(path)
+	out, err := Read(path)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -124,10 +124,10 @@ func FuzzDecodeGPX(f *testing.F) {
 	f.Add([]byte(`<gpx version="1.0"><wpt lat="1" lon="2"/></gpx>`))
 	f.Add([]byte(`<gpx><trk><trkseg><trkpt lat="a" lon="b"><time>x</time></trkpt></trkseg></trk></gpx>`))
 	f.Fuzz(func(t *testing.T, data []byte) {
-		g, err := DecodeGPX(data, "fuzz.gpx")
+		g, err := Decode(data, "fuzz.gpx")
 		if err != nil {
-			if !errors.Is(err, ErrGPX) {
-				t.Fatalf("error does not wrap ErrGPX: %v", err)
+			if !errors.Is(err, ErrFile) {
+				t.Fatalf("error does not wrap ErrFile: %v", err)
 			}
 			return
 		}

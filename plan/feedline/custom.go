@@ -1,8 +1,10 @@
-package plan
+package feedline
 
 import (
 	"fmt"
 	"strings"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // ResolveCable turns a cable named on the command line or in a plan file
@@ -12,7 +14,7 @@ import (
 //	custom:6.1dB/100ft@146MHz
 //	custom:20dB/100m@146MHz,38dB/100m@440MHz
 //
-// (loss per 100 ft or per 100 m; frequencies with units as ParseFreqMHz
+// (loss per 100 ft or per 100 m; frequencies with units as units.ParseFreqMHz
 // takes them). One figure fits the conductor term only; two fit the
 // two-term model (see CustomCable). Unknown names wrap ErrUnknownCable.
 func ResolveCable(spec string) (Cable, error) {
@@ -53,7 +55,7 @@ func parseLossPoint(s string) (LossPoint, error) {
 	if !ok {
 		return LossPoint{}, fmt.Errorf("the loss needs a length it is per, /100ft or /100m (%s)", want)
 	}
-	db, err := ParseLossDB(strings.TrimSpace(num))
+	db, err := units.ParseLossDB(strings.TrimSpace(num))
 	if err != nil {
 		return LossPoint{}, err
 	}
@@ -69,7 +71,7 @@ func parseLossPoint(s string) (LossPoint, error) {
 	default:
 		return LossPoint{}, fmt.Errorf("loss per %q: use /100ft or /100m (%s)", per, want)
 	}
-	f, err := ParseFreqMHz(strings.TrimSpace(freq))
+	f, err := units.ParseFreqMHz(strings.TrimSpace(freq))
 	if err != nil {
 		return LossPoint{}, err
 	}

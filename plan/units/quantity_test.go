@@ -1,4 +1,4 @@
-package plan
+package units
 
 import (
 	"bufio"
@@ -143,10 +143,10 @@ func TestParseSensitivityDBm(t *testing.T) {
 	runParseTable(t, KindSensitivity, ParseSensitivityDBm, []parseCase{
 		{name: "dBm", in: "-120dBm", want: -120, tol: 0},
 		{name: "bare number is dBm", in: "-122", want: -122, tol: 0},
-		{name: "uV", in: "0.25uV", want: -119.0, tol: 0.05},         // REFERENCES §6 [calc], P = V²/R, 50 Ω
+		{name: "uV", in: "0.25uV", want: -119.0, tol: 0.05},         // computed, P = V²/R, 50 Ω
 		{name: "micro sign", in: "0.25µV", want: -119.0, tol: 0.05}, // same, U+00B5
 		{name: "greek mu", in: "0.25μV", want: -119.0, tol: 0.05},   // same, U+03BC
-		{name: "1 uV", in: "1 uV", want: -107.0, tol: 0.05},         // REFERENCES §6 [calc]
+		{name: "1 uV", in: "1 uV", want: -107.0, tol: 0.05},         // computed, P = V²/R
 		{name: "zero microvolts", in: "0uV", err: ErrRange, msg: `"0uV": microvolts must be more than 0`},
 		{name: "positive dBm", in: "10dBm", err: ErrRange, msg: `"10dBm": sensitivity must be between -200 and 0 dBm`},
 		{name: "unknown unit", in: "-120dBu", err: ErrUnit, msg: `"-120dBu": unknown unit "dBu" (use dBm or uV)`},
@@ -173,6 +173,22 @@ func TestParseLossDB(t *testing.T) {
 		{name: "bare", in: "3", want: 3, tol: 0},
 		{name: "negative", in: "-1dB", err: ErrRange, msg: `"-1dB": a loss must not be negative`},
 		{name: "unknown unit", in: "1 dBm", err: ErrUnit, msg: `"1 dBm": unknown unit "dBm" (use dB)`},
+	})
+}
+
+func TestParseKFactor(t *testing.T) {
+	// 4/3 is the median k of ITU-R P.530-19 §2.2; the other values are
+	// plain arithmetic.
+	runParseTable(t, KindKFactor, ParseKFactor, []parseCase{
+		{name: "fraction", in: "4/3", want: 4.0 / 3.0, tol: 1e-15},
+		{name: "spaced fraction", in: " 4 / 3 ", want: 4.0 / 3.0, tol: 1e-15},
+		{name: "decimal", in: "1.333", want: 1.333, tol: 0},
+		{name: "validation a_e 8500 km", in: "8500/6371", want: 8500.0 / 6371, tol: 1e-15},
+		{name: "lower end", in: "0.5", want: 0.5, tol: 0},
+		{name: "too small", in: "0.4", err: ErrRange, msg: `"0.4": k-factor 0.4 is outside 0.5 to 10 (4/3 is the usual median)`},
+		{name: "zero denominator", in: "4/0", err: ErrSyntax, msg: `"4/0": not a k-factor (write e.g. 4/3 or 1.333)`},
+		{name: "word", in: "flat", err: ErrSyntax, msg: `"flat": not a k-factor (write e.g. 4/3 or 1.333)`},
+		{name: "NaN", in: "NaN", err: ErrRange},
 	})
 }
 
@@ -396,6 +412,7 @@ func FuzzParseSensitivityDBm(f *testing.F) { fuzzFloat(f, "sensitivity", ParseSe
 func FuzzParseRatio(f *testing.F)          { fuzzFloat(f, "ratio", ParseRatio, "") }
 func FuzzParseLossDB(f *testing.F)         { fuzzFloat(f, "loss", ParseLossDB, "dB") }
 func FuzzParseSWR(f *testing.F)            { fuzzFloat(f, "swr", ParseSWR, ":1") }
+func FuzzParseKFactor(f *testing.F)        { fuzzFloat(f, "k", ParseKFactor, "") }
 
 func FuzzParseDuration(f *testing.F) {
 	quantitySeeds(f, "duration")

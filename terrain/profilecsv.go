@@ -1,4 +1,4 @@
-package plan
+package terrain
 
 import (
 	"encoding/csv"
@@ -143,8 +143,8 @@ func csvErr(name string, err error) error {
 	return fmt.Errorf("%w: %s: %v", ErrProfileCSV, name, err)
 }
 
-// ProfileCSVHeader is the header row WriteProfileCSV writes.
-var ProfileCSVHeader = []string{"distance_m", "lat", "lon", "elevation_m"}
+// profileCSVHeader is the header row WriteProfileCSV writes.
+var profileCSVHeader = []string{"distance_m", "lat", "lon", "elevation_m"}
 
 // WriteProfileCSV writes a terrain profile as CSV (RFC 4180) with the header
 // distance_m,lat,lon,elevation_m and one row per sample: distance along the
@@ -176,7 +176,7 @@ func WriteProfileCSV(w io.Writer, distM, lat, lon, elevM []float64) error {
 		}
 	}
 	cw := csv.NewWriter(w)
-	if err := cw.Write(ProfileCSVHeader); err != nil {
+	if err := cw.Write(profileCSVHeader); err != nil {
 		return err
 	}
 	if err := cw.WriteAll(rows); err != nil {

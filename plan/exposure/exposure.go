@@ -1,13 +1,4 @@
-package plan
-
-// RF-exposure evaluation of one transmitting station: exposure limits (US
-// 47 CFR § 1.1310, ICNIRP 2020, ICNIRP 1998), time-averaged power (FCC OET
-// Bulletin 65 Supplement B), far-field compliance distances with ground
-// reflection (OET Bulletin 65), keep-out radii around a mast, and the US
-// exemption from routine evaluation (47 CFR § 1.1307(b)(3)(i)(C)).
-//
-// Every figure here is an estimate to plan with, not a measurement; the
-// cautions returned with each report say so.
+package exposure
 
 import (
 	"errors"
@@ -16,20 +7,21 @@ import (
 	"strings"
 	"time"
 
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
 
-// ErrExposureInput is wrapped by every error about an invalid input to the
+// ErrInput is wrapped by every error about an invalid input to the
 // RF-exposure functions (bad power, frequency out of range, unknown mode or
 // standard, bad reflection factor, bad transmit fraction or cycle).
-var ErrExposureInput = errors.New("invalid exposure input")
+var ErrInput = errors.New("invalid exposure input")
 
 // Frequency range, in MHz, over which the exposure functions are defined:
 // 0.3 MHz to 100 GHz, the span of 47 CFR § 1.1310(e)(1) Table 1.
 const (
-	ExposureMinFreqMHz = 0.3
-	ExposureMaxFreqMHz = 100000.0
+	MinFreqMHz = 0.3
+	MaxFreqMHz = 100000.0
 )
 
 // Ground-reflection factors F for the far-field power density
@@ -53,42 +45,39 @@ const DefaultHeadHeightM = 2.0
 // radiator, 2.15 dBi, as 47 CFR § 1.1307(b)(3)(i)(C) rounds it: EIRP = 1.64 ERP.
 const dipoleGainFactor = 1.64
 
-// exposureLightSpeedMPerS is the speed of light in vacuum, m/s (SI, exact).
-const exposureLightSpeedMPerS = 299792458.0
-
 // exposureFreeSpaceImpedanceOhm is the impedance of free space μ0·c in ohms
 // (CODATA 2018), used to turn ICNIRP field-strength reference levels into a
 // plane-wave equivalent power density S = E²/Z0 = Z0·H².
 const exposureFreeSpaceImpedanceOhm = 376.730313668
 
-// ExposureStandard names a set of exposure limits.
-type ExposureStandard string
+// Standard names a set of exposure limits.
+type Standard string
 
-// The exposure standards known to EvaluateExposure and ExposureLimitFor.
+// The exposure standards known to Evaluate and LimitFor.
 const (
 	// StandardFCC is the US limit for maximum permissible exposure,
 	// 47 CFR § 1.1310(e)(1) Table 1: occupational/controlled averaged over
 	// 6 minutes, general population/uncontrolled over 30 minutes.
-	StandardFCC ExposureStandard = "fcc"
+	StandardFCC Standard = "fcc"
 	// StandardICNIRP2020 is the ICNIRP 2020 guidelines (Health Physics
 	// 118(5):483–524), Table 5 whole-body reference levels averaged over
 	// 30 minutes. The values are from memory and are to be verified against
 	// the published table.
-	StandardICNIRP2020 ExposureStandard = "icnirp2020"
+	StandardICNIRP2020 Standard = "icnirp2020"
 	// StandardICNIRP1998 is the ICNIRP 1998 guidelines (Health Physics
 	// 74(4):494–522), Tables 6 and 7, averaged over 6 minutes (68/f^1.05
 	// minutes above 10 GHz, f in GHz). The values are from memory and are to
 	// be verified against the published tables.
-	StandardICNIRP1998 ExposureStandard = "icnirp1998"
+	StandardICNIRP1998 Standard = "icnirp1998"
 )
 
-var exposureStandards = []ExposureStandard{StandardFCC, StandardICNIRP2020, StandardICNIRP1998}
+var exposureStandards = []Standard{StandardFCC, StandardICNIRP2020, StandardICNIRP1998}
 
-// ParseExposureStandard returns the standard named by s ("fcc",
+// ParseStandard returns the standard named by s ("fcc",
 // "icnirp2020", "icnirp1998"; case and surrounding spaces ignored). An empty
 // string gives StandardFCC. Unknown names give an error wrapping
-// ErrExposureInput that lists the known names.
-func ParseExposureStandard(s string) (ExposureStandard, error) {
+// ErrInput that lists the known names.
+func ParseStandard(s string) (Standard, error) {
 	name := strings.ToLower(strings.TrimSpace(s))
 	if name == "" {
 		return StandardFCC, nil
@@ -98,34 +87,34 @@ func ParseExposureStandard(s string) (ExposureStandard, error) {
 			return std, nil
 		}
 	}
-	return "", fmt.Errorf("%w: unknown exposure standard %q (known: fcc, icnirp2020, icnirp1998)", ErrExposureInput, s)
+	return "", fmt.Errorf("%w: unknown exposure standard %q (known: fcc, icnirp2020, icnirp1998)", ErrInput, s)
 }
 
-// ExposureTier is the population an exposure limit protects.
-type ExposureTier int
+// Tier is the population an exposure limit protects.
+type Tier int
 
 const (
 	// TierPublic is the general population / uncontrolled tier.
-	TierPublic ExposureTier = iota
+	TierPublic Tier = iota
 	// TierOccupational is the occupational / controlled tier: people aware
 	// of the exposure and able to control it.
 	TierOccupational
 )
 
 // String returns "public" or "occupational".
-func (t ExposureTier) String() string {
+func (t Tier) String() string {
 	switch t {
 	case TierPublic:
 		return "public"
 	case TierOccupational:
 		return "occupational"
 	}
-	return fmt.Sprintf("ExposureTier(%d)", int(t))
+	return fmt.Sprintf("Tier(%d)", int(t))
 }
 
-// ExposureLimit is a whole-body power-density limit and the time over which
+// Limit is a whole-body power-density limit and the time over which
 // exposure is averaged against it.
-type ExposureLimit struct {
+type Limit struct {
 	// PowerDensityWM2 is the limit (or plane-wave equivalent of the
 	// field-strength reference level) in W/m².
 	PowerDensityWM2 float64
@@ -215,11 +204,11 @@ var icnirp1998PublicBands = []exposureBand{
 	{2000, 100000, func(float64) float64 { return 10 }},
 }
 
-// checkExposureFreq returns an error wrapping ErrExposureInput unless
-// freqMHz lies in [ExposureMinFreqMHz, ExposureMaxFreqMHz].
+// checkExposureFreq returns an error wrapping ErrInput unless
+// freqMHz lies in [MinFreqMHz, MaxFreqMHz].
 func checkExposureFreq(freqMHz float64) error {
-	if math.IsNaN(freqMHz) || freqMHz < ExposureMinFreqMHz || freqMHz > ExposureMaxFreqMHz {
-		return fmt.Errorf("%w: frequency %g MHz is outside 0.3–100000 MHz; give a frequency between 0.3 MHz and 100 GHz", ErrExposureInput, freqMHz)
+	if math.IsNaN(freqMHz) || freqMHz < MinFreqMHz || freqMHz > MaxFreqMHz {
+		return fmt.Errorf("%w: frequency %g MHz is outside 0.3–100000 MHz; give a frequency between 0.3 MHz and 100 GHz", ErrInput, freqMHz)
 	}
 	return nil
 }
@@ -245,7 +234,7 @@ func icnirp1998Averaging(freqMHz float64) time.Duration {
 	return time.Duration(minutes * float64(time.Minute))
 }
 
-// ExposureLimitFor returns the whole-body power-density limit in W/m² and
+// LimitFor returns the whole-body power-density limit in W/m² and
 // its averaging time for the standard, tier and frequency freqMHz (MHz,
 // 0.3–100000):
 //
@@ -258,39 +247,39 @@ func icnirp1998Averaging(freqMHz float64) time.Duration {
 //     min above 10 GHz) [from memory, to verify]; below 10 MHz the plane-wave
 //     equivalent of the E and H reference levels.
 //
-// The standard's name is read as by ParseExposureStandard ("" is
+// The standard's name is read as by ParseStandard ("" is
 // StandardFCC). A frequency outside the range, an unknown standard or tier
-// gives an error wrapping ErrExposureInput.
-func ExposureLimitFor(std ExposureStandard, tier ExposureTier, freqMHz float64) (ExposureLimit, error) {
-	std, err := ParseExposureStandard(string(std))
+// gives an error wrapping ErrInput.
+func LimitFor(std Standard, tier Tier, freqMHz float64) (Limit, error) {
+	std, err := ParseStandard(string(std))
 	if err != nil {
-		return ExposureLimit{}, err
+		return Limit{}, err
 	}
 	if err := checkExposureFreq(freqMHz); err != nil {
-		return ExposureLimit{}, err
+		return Limit{}, err
 	}
 	if tier != TierPublic && tier != TierOccupational {
-		return ExposureLimit{}, fmt.Errorf("%w: unknown exposure tier %d; use TierPublic or TierOccupational", ErrExposureInput, int(tier))
+		return Limit{}, fmt.Errorf("%w: unknown exposure tier %d; use TierPublic or TierOccupational", ErrInput, int(tier))
 	}
 	occ := tier == TierOccupational
 	switch std {
 	case StandardFCC:
 		if occ {
-			return ExposureLimit{lookupBand(fccOccupationalBands, freqMHz), 6 * time.Minute}, nil
+			return Limit{lookupBand(fccOccupationalBands, freqMHz), 6 * time.Minute}, nil
 		}
-		return ExposureLimit{lookupBand(fccPublicBands, freqMHz), 30 * time.Minute}, nil
+		return Limit{lookupBand(fccPublicBands, freqMHz), 30 * time.Minute}, nil
 	case StandardICNIRP2020:
 		if occ {
-			return ExposureLimit{lookupBand(icnirp2020OccupationalBands, freqMHz), 30 * time.Minute}, nil
+			return Limit{lookupBand(icnirp2020OccupationalBands, freqMHz), 30 * time.Minute}, nil
 		}
-		return ExposureLimit{lookupBand(icnirp2020PublicBands, freqMHz), 30 * time.Minute}, nil
+		return Limit{lookupBand(icnirp2020PublicBands, freqMHz), 30 * time.Minute}, nil
 	case StandardICNIRP1998:
 		if occ {
-			return ExposureLimit{lookupBand(icnirp1998OccupationalBands, freqMHz), icnirp1998Averaging(freqMHz)}, nil
+			return Limit{lookupBand(icnirp1998OccupationalBands, freqMHz), icnirp1998Averaging(freqMHz)}, nil
 		}
-		return ExposureLimit{lookupBand(icnirp1998PublicBands, freqMHz), icnirp1998Averaging(freqMHz)}, nil
+		return Limit{lookupBand(icnirp1998PublicBands, freqMHz), icnirp1998Averaging(freqMHz)}, nil
 	}
-	return ExposureLimit{}, fmt.Errorf("%w: unknown exposure standard %q", ErrExposureInput, std) // not reached
+	return Limit{}, fmt.Errorf("%w: unknown exposure standard %q", ErrInput, std) // not reached
 }
 
 // TxMode is an emission mode, which sets the duty factor of the transmitted
@@ -323,7 +312,7 @@ var txModeDuty = []struct {
 // ParseTxMode returns the mode named by s (fm, ssb, ssb-processed, cw,
 // digital, carrier; case and surrounding spaces ignored). An empty string
 // gives ModeCarrier, the worst case. Unknown names give an error wrapping
-// ErrExposureInput that lists the known modes.
+// ErrInput that lists the known modes.
 func ParseTxMode(s string) (TxMode, error) {
 	name := TxMode(strings.ToLower(strings.TrimSpace(s)))
 	if name == "" {
@@ -334,13 +323,13 @@ func ParseTxMode(s string) (TxMode, error) {
 			return m.mode, nil
 		}
 	}
-	return "", fmt.Errorf("%w: unknown mode %q (known: fm, ssb, ssb-processed, cw, digital, carrier); or give a duty factor", ErrExposureInput, s)
+	return "", fmt.Errorf("%w: unknown mode %q (known: fm, ssb, ssb-processed, cw, digital, carrier); or give a duty factor", ErrInput, s)
 }
 
 // DutyFactor returns the fraction (0–1) of the peak envelope power that the
 // mode radiates on average while transmitting, from FCC OET Bulletin 65
 // Supplement B (ed. 97-01) Table 2. An unknown mode gives an error wrapping
-// ErrExposureInput.
+// ErrInput.
 func (m TxMode) DutyFactor() (float64, error) {
 	parsed, err := ParseTxMode(string(m))
 	if err != nil {
@@ -351,7 +340,7 @@ func (m TxMode) DutyFactor() (float64, error) {
 			return d.duty, nil
 		}
 	}
-	return 0, fmt.Errorf("%w: unknown mode %q", ErrExposureInput, m) // not reached
+	return 0, fmt.Errorf("%w: unknown mode %q", ErrInput, m) // not reached
 }
 
 // WorstCaseOnAirFraction returns the largest fraction of any window of
@@ -367,33 +356,23 @@ func (m TxMode) DutyFactor() (float64, error) {
 // exactly in integer nanoseconds.
 //
 // on must be positive, off non-negative (0 is continuous transmission) and
-// window positive; otherwise the error wraps ErrExposureInput.
+// window positive; otherwise the error wraps ErrInput.
 func WorstCaseOnAirFraction(on, off, window time.Duration) (float64, error) {
 	switch {
 	case on <= 0:
-		return 0, fmt.Errorf("%w: transmit time %v must be greater than 0 in a transmit/listen cycle", ErrExposureInput, on)
+		return 0, fmt.Errorf("%w: transmit time %v must be greater than 0 in a transmit/listen cycle", ErrInput, on)
 	case off < 0:
-		return 0, fmt.Errorf("%w: listen time %v is negative; give 0 or more", ErrExposureInput, off)
+		return 0, fmt.Errorf("%w: listen time %v is negative; give 0 or more", ErrInput, off)
 	case window <= 0:
-		return 0, fmt.Errorf("%w: averaging window %v must be greater than 0", ErrExposureInput, window)
+		return 0, fmt.Errorf("%w: averaging window %v must be greater than 0", ErrInput, window)
 	case on > math.MaxInt64-off:
-		return 0, fmt.Errorf("%w: transmit/listen cycle %v + %v is too long", ErrExposureInput, on, off)
+		return 0, fmt.Errorf("%w: transmit/listen cycle %v + %v is too long", ErrInput, on, off)
 	}
 	period := on + off
 	n := window / period
 	r := window % period
 	onTime := n*on + min(r, on)
 	return float64(onTime) / float64(window), nil
-}
-
-// FarFieldPowerDensityWM2 returns the far-field power density in W/m² at
-// distance distanceM (m, > 0) from an antenna radiating eirpW (W, EIRP in
-// the direction of interest), with ground-reflection factor reflection
-// (1, 2.56 or 4): S = F·EIRP/(4πR²), FCC OET Bulletin 65 (ed. 97-01)
-// eqs. (3)–(6). Within about λ/2π of the antenna (NearFieldBoundaryM) the
-// formula overestimates and is not reliable.
-func FarFieldPowerDensityWM2(eirpW, distanceM, reflection float64) float64 {
-	return reflection * eirpW / (4 * math.Pi * distanceM * distanceM)
 }
 
 // ComplianceDistanceM returns the distance in metres at which the far-field
@@ -423,8 +402,7 @@ func KeepOutRadiusM(complianceM, antennaHeightM, headHeightM float64) float64 {
 // formulas of OET Bulletin 65 lose their meaning; it is also the smallest
 // distance at which 47 CFR § 1.1307(b)(3)(i)(C) applies.
 func NearFieldBoundaryM(freqMHz float64) float64 {
-	lambdaM := exposureLightSpeedMPerS / (freqMHz * 1e6)
-	return lambdaM / (2 * math.Pi)
+	return propagation.WavelengthM(freqMHz, propagation.SpeedOfLightMS) / (2 * math.Pi)
 }
 
 // ERPFromEIRPW returns the effective radiated power in W (relative to a
@@ -466,32 +444,16 @@ func exemptionCoefficient(freqMHz float64) float64 {
 // time-averaged power or ERP, whichever is greater, does not exceed it is
 // exempt from routine evaluation. The rule applies only from λ/2π
 // (NearFieldBoundaryM) outwards; a smaller distance, or a frequency out of
-// range, gives an error wrapping ErrExposureInput.
+// range, gives an error wrapping ErrInput.
 func ExemptionThresholdERPW(freqMHz, distanceM float64) (float64, error) {
 	if err := checkExposureFreq(freqMHz); err != nil {
 		return 0, err
 	}
 	nf := NearFieldBoundaryM(freqMHz)
 	if math.IsNaN(distanceM) || math.IsInf(distanceM, 0) || distanceM < nf {
-		return 0, fmt.Errorf("%w: distance %g m is inside λ/2π = %.3g m at %g MHz, where § 1.1307(b)(3)(i)(C) does not apply; give a distance of at least %.3g m", ErrExposureInput, distanceM, nf, freqMHz, nf)
+		return 0, fmt.Errorf("%w: distance %g m is inside λ/2π = %.3g m at %g MHz, where § 1.1307(b)(3)(i)(C) does not apply; give a distance of at least %.3g m", ErrInput, distanceM, nf, freqMHz, nf)
 	}
 	return exemptionCoefficient(freqMHz) * distanceM * distanceM, nil
-}
-
-// ExemptAt reports whether a source of erpW watts (the greater of its
-// time-averaged ERP and available power) at freqMHz is exempt from routine
-// evaluation under 47 CFR § 1.1307(b)(3)(i)(C) for people no closer than
-// distanceM metres. Errors are those of ExemptionThresholdERPW, or a
-// negative power.
-func ExemptAt(freqMHz, erpW, distanceM float64) (bool, error) {
-	if math.IsNaN(erpW) || erpW < 0 {
-		return false, fmt.Errorf("%w: ERP %g W is negative; give 0 W or more", ErrExposureInput, erpW)
-	}
-	threshold, err := ExemptionThresholdERPW(freqMHz, distanceM)
-	if err != nil {
-		return false, err
-	}
-	return erpW <= threshold, nil
 }
 
 // ExemptBeyondM returns the smallest distance in metres at which a source
@@ -499,18 +461,18 @@ func ExemptAt(freqMHz, erpW, distanceM float64) (bool, error) {
 // at freqMHz is exempt under 47 CFR § 1.1307(b)(3)(i)(C): the table formula
 // solved for R, R = √(ERP/k(f)), but never less than λ/2π, where the rule
 // begins to apply. A negative power or a frequency out of range gives an
-// error wrapping ErrExposureInput.
+// error wrapping ErrInput.
 func ExemptBeyondM(freqMHz, erpW float64) (float64, error) {
 	if err := checkExposureFreq(freqMHz); err != nil {
 		return 0, err
 	}
 	if math.IsNaN(erpW) || math.IsInf(erpW, 0) || erpW < 0 {
-		return 0, fmt.Errorf("%w: ERP %g W must be 0 W or more and finite", ErrExposureInput, erpW)
+		return 0, fmt.Errorf("%w: ERP %g W must be 0 W or more and finite", ErrInput, erpW)
 	}
 	return math.Max(math.Sqrt(erpW/exemptionCoefficient(freqMHz)), NearFieldBoundaryM(freqMHz)), nil
 }
 
-// exposureCautions are returned with every report; see ExposureCautions.
+// exposureCautions are returned with every report; see Cautions.
 var exposureCautions = []string{
 	"These distances are far-field estimates (FCC OET Bulletin 65): conservative at the distances shown, but unreliable within about λ/2π of the antenna, where near fields dominate.",
 	"This is a calculated estimate, not a measurement. Where people may come close to the antenna, have the site measured or evaluated by a qualified person.",
@@ -521,18 +483,18 @@ var exposureCautions = []string{
 	"Do not work on masts or antennas, or climb them, in storms or when lightning is possible.",
 }
 
-// ExposureCautions returns the cautions to show with every RF-exposure
+// Cautions returns the cautions to show with every RF-exposure
 // result (a new slice each call): the limits of a far-field estimate, that
 // it is not a measurement, that the operator's obligations and local rules
 // decide, keeping people out of the zone, and mast safety near power lines,
 // in wind and in storms.
-func ExposureCautions() []string {
+func Cautions() []string {
 	return append([]string(nil), exposureCautions...)
 }
 
-// ExposureInput describes one transmitting station for EvaluateExposure.
+// Input describes one transmitting station for Evaluate.
 // Zero values of the optional fields take the defaults stated.
-type ExposureInput struct {
+type Input struct {
 	// PowerW is the transmitter's peak envelope power output in W (> 0).
 	PowerW float64
 	// GainDBi is the antenna gain in dBi in the direction of interest
@@ -557,7 +519,7 @@ type ExposureInput struct {
 	// Give either TxFraction or a cycle, not both.
 	OnTime, OffTime time.Duration
 	// Standard is the limit set; "" means StandardFCC.
-	Standard ExposureStandard
+	Standard Standard
 	// ReflectionFactor is the ground-reflection factor F: 1, 2.56 or 4;
 	// 0 means ReflectionGround (2.56).
 	ReflectionFactor float64
@@ -569,12 +531,12 @@ type ExposureInput struct {
 	HeadHeightM float64
 }
 
-// ExposureReport is the result of EvaluateExposure. Its JSON field names are
-// the mastlink `exposure` command contract (DESIGN.md) plus the exemption
+// Report is the result of Evaluate. Its JSON field names are those
+// `mastlink exposure --format json` promises scripts, plus the exemption
 // and detail fields; all values are SI.
-type ExposureReport struct {
+type Report struct {
 	// Standard is the limit set used.
-	Standard ExposureStandard `json:"standard"`
+	Standard Standard `json:"standard"`
 	// Mode is the emission mode used.
 	Mode TxMode `json:"mode"`
 	// FreqMHz is the transmit frequency in MHz.
@@ -597,7 +559,7 @@ type ExposureReport struct {
 	AvgPowerPublicW       float64 `json:"avg_power_public_w"`
 	AvgPowerOccupationalW float64 `json:"avg_power_occupational_w"`
 	// LimitPublicWM2 and LimitOccupationalWM2 are the power-density limits
-	// in W/m² (ExposureLimitFor).
+	// in W/m² (LimitFor).
 	LimitPublicWM2       float64 `json:"limit_public_w_m2"`
 	LimitOccupationalWM2 float64 `json:"limit_occupational_w_m2"`
 	// ReflectionFactor is the ground-reflection factor F used.
@@ -625,15 +587,15 @@ type ExposureReport struct {
 	// testing the greater of ERPW and the transmitter's time-averaged power;
 	// given whatever Standard is.
 	ExemptBeyondM float64 `json:"exempt_beyond_m"`
-	// Cautions are ExposureCautions, always present.
+	// Cautions are Cautions, always present.
 	Cautions []string `json:"cautions"`
 }
 
-// checkFinite returns an error wrapping ErrExposureInput when v is NaN or
+// checkFinite returns an error wrapping ErrInput when v is NaN or
 // infinite.
 func checkFinite(field string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return fmt.Errorf("%w: %s is %g; give a finite number", ErrExposureInput, field, v)
+		return fmt.Errorf("%w: %s is %g; give a finite number", ErrInput, field, v)
 	}
 	return nil
 }
@@ -641,20 +603,20 @@ func checkFinite(field string, v float64) error {
 // exposureOnAir returns a function giving the worst-case on-air fraction in
 // an averaging window of the given length, from the input's TxFraction or
 // transmit/listen cycle.
-func exposureOnAir(in ExposureInput) (func(window time.Duration) (float64, error), error) {
+func exposureOnAir(in Input) (func(window time.Duration) (float64, error), error) {
 	cycle := in.OnTime != 0 || in.OffTime != 0
 	switch {
 	case math.IsNaN(in.TxFraction) || in.TxFraction < 0 || in.TxFraction > 1:
-		return nil, fmt.Errorf("%w: transmit fraction %g is outside (0, 1]; give e.g. 0.5 for 50 %% of the time", ErrExposureInput, in.TxFraction)
+		return nil, fmt.Errorf("%w: transmit fraction %g is outside (0, 1]; give e.g. 0.5 for 50 %% of the time", ErrInput, in.TxFraction)
 	case in.TxFraction > 0 && cycle:
-		return nil, fmt.Errorf("%w: give either a transmit fraction or a transmit/listen cycle, not both", ErrExposureInput)
+		return nil, fmt.Errorf("%w: give either a transmit fraction or a transmit/listen cycle, not both", ErrInput)
 	case in.TxFraction > 0:
 		return func(time.Duration) (float64, error) { return in.TxFraction, nil }, nil
 	case !cycle:
 		return func(time.Duration) (float64, error) { return 1, nil }, nil
 	}
 	if in.OnTime < 0 || in.OffTime < 0 {
-		return nil, fmt.Errorf("%w: transmit/listen times %v on, %v off must not be negative", ErrExposureInput, in.OnTime, in.OffTime)
+		return nil, fmt.Errorf("%w: transmit/listen times %v on, %v off must not be negative", ErrInput, in.OnTime, in.OffTime)
 	}
 	if _, err := WorstCaseOnAirFraction(in.OnTime, in.OffTime, time.Minute); err != nil {
 		return nil, err
@@ -664,11 +626,11 @@ func exposureOnAir(in ExposureInput) (func(window time.Duration) (float64, error
 	}, nil
 }
 
-// EvaluateExposure estimates the RF exposure around one transmitting
+// Evaluate estimates the RF exposure around one transmitting
 // station:
 //
 //   - peak EIRP = PowerW · 10^((GainDBi − FeedlineLossDB)/10);
-//   - for each tier, the averaging window of the standard (ExposureLimitFor),
+//   - for each tier, the averaging window of the standard (LimitFor),
 //     the worst-case on-air fraction in it, and the time-averaged power =
 //     peak power × duty factor × on-air fraction (OET Bulletin 65
 //     Supplement B, ed. 97-01);
@@ -676,12 +638,12 @@ func exposureOnAir(in ExposureInput) (func(window time.Duration) (float64, error
 //     65 eq. 6) and the keep-out radius around the mast foot;
 //   - λ/2π, the time-averaged ERP and the distance beyond which the station
 //     is exempt from routine evaluation under 47 CFR § 1.1307(b)(3)(i)(C);
-//   - the cautions of ExposureCautions.
+//   - the cautions of Cautions.
 //
-// Every invalid input gives one error wrapping ErrExposureInput that names
+// Every invalid input gives one error wrapping ErrInput that names
 // the input and what would fix it.
-func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
-	var rep ExposureReport
+func Evaluate(in Input) (Report, error) {
+	var rep Report
 	for _, f := range []struct {
 		name string
 		v    float64
@@ -695,10 +657,10 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 		}
 	}
 	if in.PowerW <= 0 {
-		return rep, fmt.Errorf("%w: power %g W must be greater than 0 W; give the transmitter's peak output power", ErrExposureInput, in.PowerW)
+		return rep, fmt.Errorf("%w: power %g W must be greater than 0 W; give the transmitter's peak output power", ErrInput, in.PowerW)
 	}
 	if in.FeedlineLossDB < 0 {
-		return rep, fmt.Errorf("%w: feedline loss %g dB is negative; give the loss as 0 dB or more", ErrExposureInput, in.FeedlineLossDB)
+		return rep, fmt.Errorf("%w: feedline loss %g dB is negative; give the loss as 0 dB or more", ErrInput, in.FeedlineLossDB)
 	}
 	if err := checkExposureFreq(in.FreqMHz); err != nil {
 		return rep, err
@@ -713,7 +675,7 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 	}
 	if in.DutyFactor != 0 {
 		if in.DutyFactor < 0 || in.DutyFactor > 1 {
-			return rep, fmt.Errorf("%w: duty factor %g is outside (0, 1]; give e.g. 0.4 for 40 %%", ErrExposureInput, in.DutyFactor)
+			return rep, fmt.Errorf("%w: duty factor %g is outside (0, 1]; give e.g. 0.4 for 40 %%", ErrInput, in.DutyFactor)
 		}
 		duty = in.DutyFactor
 	}
@@ -721,7 +683,7 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 	if err != nil {
 		return rep, err
 	}
-	std, err := ParseExposureStandard(string(in.Standard))
+	std, err := ParseStandard(string(in.Standard))
 	if err != nil {
 		return rep, err
 	}
@@ -731,31 +693,31 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 		refl = ReflectionGround
 	case ReflectionFreeSpace, ReflectionGround, ReflectionFull:
 	default:
-		return rep, fmt.Errorf("%w: reflection factor %g is not one of 1 (free space), 2.56 (ground, default) or 4 (full reflection)", ErrExposureInput, in.ReflectionFactor)
+		return rep, fmt.Errorf("%w: reflection factor %g is not one of 1 (free space), 2.56 (ground, default) or 4 (full reflection)", ErrInput, in.ReflectionFactor)
 	}
 	if in.AntennaHeightM < 0 {
-		return rep, fmt.Errorf("%w: antenna height %g m is negative; give the height above the ground in metres", ErrExposureInput, in.AntennaHeightM)
+		return rep, fmt.Errorf("%w: antenna height %g m is negative; give the height above the ground in metres", ErrInput, in.AntennaHeightM)
 	}
 	head := in.HeadHeightM
 	switch {
 	case head < 0:
-		return rep, fmt.Errorf("%w: head height %g m is negative; give it in metres above the ground (default 2 m)", ErrExposureInput, head)
+		return rep, fmt.Errorf("%w: head height %g m is negative; give it in metres above the ground (default 2 m)", ErrInput, head)
 	case head == 0:
 		head = DefaultHeadHeightM
 	}
 
 	eirp := in.PowerW * math.Pow(10, (in.GainDBi-in.FeedlineLossDB)/10)
 	if math.IsInf(eirp, 0) {
-		return rep, fmt.Errorf("%w: EIRP of %g W at %g dBi overflows; check the power and the gain", ErrExposureInput, in.PowerW, in.GainDBi)
+		return rep, fmt.Errorf("%w: EIRP of %g W at %g dBi overflows; check the power and the gain", ErrInput, in.PowerW, in.GainDBi)
 	}
 	// tier evaluates one tier: averaging window, on-air fraction, average
 	// transmitter power, limit, compliance distance and keep-out radius.
 	type tierResult struct {
-		limit                    ExposureLimit
+		limit                    Limit
 		fraction, avgW, distM, k float64
 	}
-	tier := func(t ExposureTier) (tierResult, error) {
-		lim, err := ExposureLimitFor(std, t, in.FreqMHz)
+	tier := func(t Tier) (tierResult, error) {
+		lim, err := LimitFor(std, t, in.FreqMHz)
 		if err != nil {
 			return tierResult{}, err
 		}
@@ -789,7 +751,7 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 		return rep, err
 	}
 
-	rep = ExposureReport{
+	rep = Report{
 		Standard:               std,
 		Mode:                   mode,
 		FreqMHz:                in.FreqMHz,
@@ -813,7 +775,7 @@ func EvaluateExposure(in ExposureInput) (ExposureReport, error) {
 		NearFieldM:             NearFieldBoundaryM(in.FreqMHz),
 		ERPW:                   erp,
 		ExemptBeyondM:          exemptM,
-		Cautions:               ExposureCautions(),
+		Cautions:               Cautions(),
 	}
 	return rep, nil
 }
@@ -836,14 +798,14 @@ const keepOutCircleMaxRadiusM = 10000.0
 // terrain.Direct), so it lies exactly radiusM from the centre.
 // A radius of 0 gives a nil polygon (nothing to keep out); a negative or
 // too-large radius or an invalid centre gives an error wrapping
-// ErrExposureInput.
+// ErrInput.
 func KeepOutCircle(center orb.Point, radiusM float64) (orb.Polygon, error) {
 	lon, lat := center[0], center[1]
 	switch {
 	case math.IsNaN(lon) || lon < -180 || lon > 180 || math.IsNaN(lat) || math.Abs(lat) > 89:
-		return nil, fmt.Errorf("%w: keep-out centre (lon %g, lat %g) must have longitude in [-180, 180] and latitude within 89° of the equator", ErrExposureInput, lon, lat)
+		return nil, fmt.Errorf("%w: keep-out centre (lon %g, lat %g) must have longitude in [-180, 180] and latitude within 89° of the equator", ErrInput, lon, lat)
 	case math.IsNaN(radiusM) || radiusM < 0 || radiusM > keepOutCircleMaxRadiusM:
-		return nil, fmt.Errorf("%w: keep-out radius %g m is outside 0–10000 m", ErrExposureInput, radiusM)
+		return nil, fmt.Errorf("%w: keep-out radius %g m is outside 0–10000 m", ErrInput, radiusM)
 	case radiusM == 0:
 		return nil, nil
 	}

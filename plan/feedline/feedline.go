@@ -1,14 +1,12 @@
-package plan
-
-// Coaxial feedlines: a catalog of common cables, the two-term matched-loss
-// model fitted to published figures, the extra loss from SWR, connectors,
-// and the loss of a whole line between radio and antenna.
+package feedline
 
 import (
 	"errors"
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // ErrUnknownCable is wrapped by LookupCable when a name is not in the
@@ -22,7 +20,7 @@ const DefaultConnectorLossDB = 0.1
 
 // MetresPer100Ft is the length of 100 ft in metres, for converting loss per
 // 100 ft (the unit of most published tables) to loss per 100 m.
-const MetresPer100Ft = 100 * MetresPerFoot
+const MetresPer100Ft = 100 * units.MetresPerFoot
 
 // DBPer100FtFromDBPer100M converts a matched loss per 100 m to per 100 ft.
 func DBPer100FtFromDBPer100M(dBPer100M float64) float64 {
@@ -272,7 +270,7 @@ func CustomCable(name string, points ...LossPoint) (Cable, error) {
 	}
 	k1, k2, err := fitTwoTerm(points)
 	if err != nil {
-		return Cable{}, &valueError{fmt.Sprintf("cable %q: %v", name, err), ErrRange}
+		return Cable{}, &valueError{fmt.Sprintf("cable %q: %v", name, err), units.ErrRange}
 	}
 	return Cable{
 		Name:         name,
@@ -410,10 +408,6 @@ func MismatchLossDB(swr float64) float64 {
 	return -10 * math.Log10(1-g*g)
 }
 
-// ReturnLossDB returns the return loss −20 log10 |Γ| in dB at an SWR ≥ 1
-// (+Inf at SWR 1).
-func ReturnLossDB(swr float64) float64 { return -20 * math.Log10(ReflectionCoefficient(swr)) }
-
 // SWRTotalLossDB returns the total loss in dB of a line with matched loss
 // matchedLossDB terminated in a load of the given SWR (the usual
 // transmission-line-handbook formula):
@@ -442,8 +436,8 @@ func InputSWR(matchedLossDB, loadSWR float64) float64 {
 	return SWRFromReflection(ReflectionCoefficient(loadSWR) / math.Pow(10, matchedLossDB/10))
 }
 
-// Feedline is the whole line between a radio and its antenna.
-type Feedline struct {
+// Line is the whole line between a radio and its antenna.
+type Line struct {
 	Cable           Cable
 	LengthM         float64 // metres, 0 or more
 	SWR             float64 // at the antenna, 1 or more; 0 is taken as 1 (matched)
@@ -451,15 +445,15 @@ type Feedline struct {
 	ConnectorLossDB float64 // dB per mated pair, 0 or more (DefaultConnectorLossDB is common)
 }
 
-// NewFeedline returns a matched line of lengthM metres of the cable with no
+// NewLine returns a matched line of lengthM metres of the cable with no
 // connectors counted yet and DefaultConnectorLossDB per pair.
-func NewFeedline(c Cable, lengthM float64) Feedline {
-	return Feedline{Cable: c, LengthM: lengthM, SWR: 1, ConnectorLossDB: DefaultConnectorLossDB}
+func NewLine(c Cable, lengthM float64) Line {
+	return Line{Cable: c, LengthM: lengthM, SWR: 1, ConnectorLossDB: DefaultConnectorLossDB}
 }
 
-// FeedlineLoss is the loss of a Feedline at one frequency; the JSON names
+// Loss is the loss of a Line at one frequency; the JSON names
 // follow the `feedline` contract.
-type FeedlineLoss struct {
+type Loss struct {
 	Cable             string  `json:"cable"`
 	LengthM           float64 `json:"length_m"`
 	FreqMHz           float64 `json:"freq_mhz"`
@@ -474,28 +468,28 @@ type FeedlineLoss struct {
 // the cable model, the extra loss from SWR (SWRExtraLossDB), and the
 // connectors. It does not include the mismatch loss at the radio, which
 // depends on the transmitter (see MismatchLossDB and InputSWR).
-func (f Feedline) Loss(freqMHz float64) (FeedlineLoss, error) {
+func (f Line) Loss(freqMHz float64) (Loss, error) {
 	swr := f.SWR
 	if swr == 0 {
 		swr = 1
 	}
 	switch {
 	case !(f.LengthM >= 0) || math.IsInf(f.LengthM, 0):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("cable length %g m: give a length of 0 or more", f.LengthM), ErrRange}
+		return Loss{}, &valueError{fmt.Sprintf("cable length %g m: give a length of 0 or more", f.LengthM), units.ErrRange}
 	case !(freqMHz > 0) || math.IsInf(freqMHz, 0):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("frequency %g MHz: give a frequency above 0", freqMHz), ErrRange}
+		return Loss{}, &valueError{fmt.Sprintf("frequency %g MHz: give a frequency above 0", freqMHz), units.ErrRange}
 	case !(swr >= 1):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("swr %g: give an SWR of 1 or more (1 is matched)", f.SWR), ErrRange}
+		return Loss{}, &valueError{fmt.Sprintf("swr %g: give an SWR of 1 or more (1 is matched)", f.SWR), units.ErrRange}
 	case f.Connectors < 0:
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("%d connectors: give 0 or more", f.Connectors), ErrRange}
+		return Loss{}, &valueError{fmt.Sprintf("%d connectors: give 0 or more", f.Connectors), units.ErrRange}
 	case !(f.ConnectorLossDB >= 0):
-		return FeedlineLoss{}, &valueError{fmt.Sprintf("connector loss %g dB: give 0 or more", f.ConnectorLossDB), ErrRange}
+		return Loss{}, &valueError{fmt.Sprintf("connector loss %g dB: give 0 or more", f.ConnectorLossDB), units.ErrRange}
 	}
 	ml := f.Cable.MatchedLossDB(f.LengthM, freqMHz)
 	extra := SWRExtraLossDB(ml, swr)
 	conn := float64(f.Connectors) * f.ConnectorLossDB
 	total := ml + extra + conn
-	return FeedlineLoss{
+	return Loss{
 		Cable:             f.Cable.Name,
 		LengthM:           f.LengthM,
 		FreqMHz:           freqMHz,

@@ -1,4 +1,4 @@
-package plan
+package gpx
 
 import (
 	"bytes"
@@ -14,11 +14,11 @@ import (
 	"time"
 
 	"github.com/paulmach/orb"
-	"github.com/tkrajina/gpxgo/gpx"
+	gpxgo "github.com/tkrajina/gpxgo/gpx"
 )
 
-// ErrGPX is wrapped by every error reading a GPX file.
-var ErrGPX = errors.New("gpx")
+// ErrFile is wrapped by every error reading a GPX file.
+var ErrFile = errors.New("gpx")
 
 // ErrUnknownWaypoint is wrapped when a name matches no waypoint.
 var ErrUnknownWaypoint = errors.New("unknown waypoint")
@@ -41,22 +41,22 @@ type Track struct {
 	Points []Place
 }
 
-// GPXFile is what mastlink uses from a GPX 1.0 or 1.1 file.
-type GPXFile struct {
+// File is what mastlink uses from a GPX 1.0 or 1.1 file.
+type File struct {
 	Path      string
 	Waypoints []Place
 	Tracks    []Track // tracks first, then routes, in file order
 }
 
-// ReadGPX reads waypoints, tracks and routes from the GPX file at path.
+// Read reads waypoints, tracks and routes from the GPX file at path.
 // Times with a zone offset or fractional seconds are normalised to UTC
 // before decoding (the GPX 1.1 schema's xsd:dateTime).
-func ReadGPX(path string) (*GPXFile, error) {
+func Read(path string) (*File, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
-		return nil, fmt.Errorf("%w: %w", ErrGPX, err)
+		return nil, fmt.Errorf("%w: %w", ErrFile, err)
 	}
-	f, err := DecodeGPX(data, path)
+	f, err := Decode(data, path)
 	if err != nil {
 		return nil, err
 	}
@@ -79,10 +79,10 @@ func normalizeTimes(data []byte) []byte {
 	})
 }
 
-// DecodeGPX decodes a GPX document; name is used in error messages.
-func DecodeGPX(data []byte, name string) (*GPXFile, error) {
+// Decode decodes a GPX document; name is used in error messages.
+func Decode(data []byte, name string) (*File, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
-		return nil, fmt.Errorf("%w: %s: the file is empty (expected a GPX document)", ErrGPX, name)
+		return nil, fmt.Errorf("%w: %s: the file is empty (expected a GPX document)", ErrFile, name)
 	}
 	// Check well-formedness first so the error can name the line.
 	dec := xml.NewDecoder(bytes.NewReader(data))
@@ -97,25 +97,25 @@ func DecodeGPX(data []byte, name string) (*GPXFile, error) {
 			}
 			var se *xml.SyntaxError
 			if errors.As(err, &se) {
-				return nil, fmt.Errorf("%w: %s:%d: not well-formed XML: %s", ErrGPX, name, se.Line, se.Msg)
+				return nil, fmt.Errorf("%w: %s:%d: not well-formed XML: %s", ErrFile, name, se.Line, se.Msg)
 			}
-			return nil, fmt.Errorf("%w: %s: %v", ErrGPX, name, err)
+			return nil, fmt.Errorf("%w: %s: %v", ErrFile, name, err)
 		}
 		if se, ok := tok.(xml.StartElement); ok && !sawGPX {
 			if se.Name.Local != "gpx" {
-				return nil, fmt.Errorf("%w: %s: the root element is <%s>, not <gpx>: is this a GPX file?", ErrGPX, name, se.Name.Local)
+				return nil, fmt.Errorf("%w: %s: the root element is <%s>, not <gpx>: is this a GPX file?", ErrFile, name, se.Name.Local)
 			}
 			sawGPX = true
 		}
 	}
 	if !sawGPX {
-		return nil, fmt.Errorf("%w: %s: no <gpx> element found", ErrGPX, name)
+		return nil, fmt.Errorf("%w: %s: no <gpx> element found", ErrFile, name)
 	}
-	g, err := gpx.ParseBytes(normalizeTimes(data))
+	g, err := gpxgo.ParseBytes(normalizeTimes(data))
 	if err != nil {
-		return nil, fmt.Errorf("%w: %s: %v", ErrGPX, name, err)
+		return nil, fmt.Errorf("%w: %s: %v", ErrFile, name, err)
 	}
-	out := &GPXFile{Path: name}
+	out := &File{Path: name}
 	for i, w := range g.Waypoints {
 		p, err := placeFrom(&w, name, fmt.Sprintf("waypoint %d", i+1))
 		if err != nil {
@@ -156,10 +156,10 @@ func DecodeGPX(data []byte, name string) (*GPXFile, error) {
 	return out, nil
 }
 
-func placeFrom(w *gpx.GPXPoint, file, what string) (Place, error) {
+func placeFrom(w *gpxgo.GPXPoint, file, what string) (Place, error) {
 	lat, lon := w.Latitude, w.Longitude
 	if !(lat >= -90 && lat <= 90) || !(lon >= -180 && lon <= 180) {
-		return Place{}, fmt.Errorf("%w: %s: %s %q: position %g,%g is outside latitude −90…90 / longitude −180…180", ErrGPX, file, what, w.Name, lat, lon)
+		return Place{}, fmt.Errorf("%w: %s: %s %q: position %g,%g is outside latitude −90…90 / longitude −180…180", ErrFile, file, what, w.Name, lat, lon)
 	}
 	p := Place{
 		Name:        strings.TrimSpace(w.Name),
@@ -180,7 +180,7 @@ func placeFrom(w *gpx.GPXPoint, file, what string) (Place, error) {
 // Lookup finds the waypoint called name, ignoring case and surrounding
 // space. An unknown name gives an error wrapping ErrUnknownWaypoint that
 // lists the closest names in the file.
-func (f *GPXFile) Lookup(name string) (Place, error) {
+func (f *File) Lookup(name string) (Place, error) {
 	want := strings.ToLower(strings.TrimSpace(name))
 	for _, w := range f.Waypoints {
 		if strings.ToLower(w.Name) == want {
@@ -245,49 +245,49 @@ func editDistance(a, b string) int {
 
 func nan() float64 { return math.NaN() }
 
-// GPXOutput is a GPX 1.1 document to write: waypoints, tracks and routes.
-type GPXOutput struct {
+// Output is a GPX 1.1 document to write: waypoints, tracks and routes.
+type Output struct {
 	Name      string
 	Waypoints []Place
 	Tracks    []Track // written as <trk> with one segment each
 	Routes    []Track // written as <rte>, e.g. closed keep-out circles
 }
 
-// EncodeGPX renders out as a GPX 1.1 document. Times are written in UTC
+// Encode renders out as a GPX 1.1 document. Times are written in UTC
 // (xsd:dateTime with a Z suffix); NaN elevations are omitted.
-func EncodeGPX(out GPXOutput) ([]byte, error) {
-	g := &gpx.GPX{Version: "1.1", Creator: "mastlink", Name: out.Name}
+func Encode(out Output) ([]byte, error) {
+	g := &gpxgo.GPX{Version: "1.1", Creator: "mastlink", Name: out.Name}
 	for _, w := range out.Waypoints {
 		g.Waypoints = append(g.Waypoints, gpxPoint(w))
 	}
 	for _, t := range out.Tracks {
-		var seg gpx.GPXTrackSegment
+		var seg gpxgo.GPXTrackSegment
 		for _, p := range t.Points {
 			seg.Points = append(seg.Points, gpxPoint(p))
 		}
-		g.Tracks = append(g.Tracks, gpx.GPXTrack{Name: t.Name, Segments: []gpx.GPXTrackSegment{seg}})
+		g.Tracks = append(g.Tracks, gpxgo.GPXTrack{Name: t.Name, Segments: []gpxgo.GPXTrackSegment{seg}})
 	}
 	for _, r := range out.Routes {
-		rt := gpx.GPXRoute{Name: r.Name}
+		rt := gpxgo.GPXRoute{Name: r.Name}
 		for _, p := range r.Points {
 			rt.Points = append(rt.Points, gpxPoint(p))
 		}
 		g.Routes = append(g.Routes, rt)
 	}
-	b, err := gpx.ToXml(g, gpx.ToXmlParams{Version: "1.1", Indent: true})
+	b, err := gpxgo.ToXml(g, gpxgo.ToXmlParams{Version: "1.1", Indent: true})
 	if err != nil {
-		return nil, fmt.Errorf("%w: encoding: %v", ErrGPX, err)
+		return nil, fmt.Errorf("%w: encoding: %v", ErrFile, err)
 	}
 	return append(b, '\n'), nil
 }
 
-func gpxPoint(p Place) gpx.GPXPoint {
-	w := gpx.GPXPoint{
-		Point: gpx.Point{Latitude: p.Pos.Lat(), Longitude: p.Pos.Lon()},
+func gpxPoint(p Place) gpxgo.GPXPoint {
+	w := gpxgo.GPXPoint{
+		Point: gpxgo.Point{Latitude: p.Pos.Lat(), Longitude: p.Pos.Lon()},
 		Name:  p.Name, Description: p.Description, Symbol: p.Symbol,
 	}
 	if !math.IsNaN(p.ElevM) {
-		w.Elevation = *gpx.NewNullableFloat64(p.ElevM)
+		w.Elevation = *gpxgo.NewNullableFloat64(p.ElevM)
 	}
 	if !p.Time.IsZero() {
 		w.Timestamp = p.Time.UTC()

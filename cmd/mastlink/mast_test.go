@@ -1,0 +1,135 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestMastRefusesBadRequirement: mast checks the requirement with the same
+// parser as link, route and the plan file, so a reliability of 100 %
+// (which would need an infinite margin, ITU-R P.1812-8 eq. 69) is refused
+// as bad usage instead of printing "meets +Inf dB".
+func TestMastRefusesBadRequirement(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--reliability", "100%"}, "--reliability: must be above 0% and below 100%"},
+		{[]string{"--reliability", "0%"}, "--reliability: must be above 0%"},
+		{[]string{"--reliability", "90%", "--sigma", "0dB"}, "--sigma: must be more than 0 dB"},
+		{[]string{"--margin", "-3dB"}, "--margin:"},
+	} {
+		args := append([]string{"mast", "--plan", demoPlanFile}, c.args...)
+		out, stderr, code := runCmd(t, args...)
+		if code != 2 || !strings.Contains(stderr, c.want) || out != "" {
+			t.Errorf("%v: code %d, stdout %q, stderr %q; want code 2 and %q", c.args, code, out, stderr, c.want)
+		}
+	}
+}
+
+// TestMastFlagErrorsNameTheirFlag: an error in a target's flag names that
+// flag (it used to be reported as --rx-sens, the flag mast copied it into).
+func TestMastFlagErrorsNameTheirFlag(t *testing.T) {
+	base := []string{"mast", "--from", "-48.50,-123.90", "--to", "-48.45,-123.95", "--freq", "146.55",
+		"--heights", "2m..4m step 1m", "--cables", "RG-58"}
+	for _, c := range []struct{ flag, value string }{
+		{"--to-sens", "5xyz"}, {"--sens", "5xyz"}, {"--to-power", "5 watts"}, {"--to-gain", "3dB"}, {"--to-height", "-2m"},
+	} {
+		_, stderr, code := runCmd(t, append(base, c.flag, c.value)...)
+		if code != 2 || !strings.HasPrefix(stderr, "mastlink: "+c.flag+": ") {
+			t.Errorf("%s %s: code %d, stderr %q; want the error to name %s", c.flag, c.value, code, stderr, c.flag)
+		}
+	}
+}
+
+// TestMastStationFeedlineFlags: the station's --swr and --connectors reach
+// the swept line (they used to be dropped): four more connector pairs at
+// the common 0.1 dB each (common practice) lower every margin by 0.4 dB.
+func TestMastStationFeedlineFlags(t *testing.T) {
+	base := []string{"mast", "--from", "-48.50,-123.90", "--to", "-48.45,-123.95", "--freq", "146.55",
+		"--heights", "2m", "--cables", "RG-58", "--run", "10m", "--format", "json"}
+	margin := func(extra ...string) float64 {
+		out, stderr, code := runCmd(t, append(base, extra...)...)
+		if code != 0 {
+			t.Fatalf("%v: code %d: %s", extra, code, stderr)
+		}
+		var res struct {
+			Rows []struct {
+				WorstMarginDB float64 `json:"worst_margin_db"`
+			} `json:"rows"`
+		}
+		if err := json.Unmarshal([]byte(out), &res); err != nil || len(res.Rows) != 1 {
+			t.Fatalf("%v: %v, %s", extra, err, out)
+		}
+		return res.Rows[0].WorstMarginDB
+	}
+	if d := margin() - margin("--connectors", "4"); d < 0.399 || d > 0.401 {
+		t.Errorf("4 connector pairs cost %.4f dB, want 0.4", d)
+	}
+}
+
+// TestMastHelpExamplesRun pastes every example of `mast --help` into the
+// command (split as a POSIX shell splits words), so the quoting of the
+// --heights ranges is checked.
+func TestMastHelpExamplesRun(t *testing.T) {
+	cmd := newMastCmd(&globals{})
+	joined := strings.ReplaceAll(cmd.Example, "\\\n", " ")
+	for _, line := range strings.Split(joined, "\n") {
+		words := shellWords(t, strings.TrimSpace(line))
+		if len(words) < 2 || words[0] != "mastlink" || words[1] != "mast" {
+			t.Fatalf("example %q does not start with mastlink mast", line)
+		}
+		args := words[1:]
+		for i, a := range args {
+			if strings.HasPrefix(a, "examples/") {
+				args[i] = filepath.Join("..", "..", a)
+			}
+		}
+		if _, err := os.Stat(filepath.Join("..", "..", "examples")); err != nil {
+			t.Fatal(err)
+		}
+		if _, stderr, code := runCmd(t, args...); code != 0 {
+			t.Errorf("%s: code %d: %s", line, code, stderr)
+		}
+	}
+}
+
+// shellWords splits s into words as a POSIX shell does for plain words and
+// single- or double-quoted strings (no escapes inside quotes, no
+// expansions): enough for help examples.
+func shellWords(t *testing.T, s string) []string {
+	t.Helper()
+	var words []string
+	var cur strings.Builder
+	inWord := false
+	var quote rune
+	for _, r := range s {
+		switch {
+		case quote != 0 && r == quote:
+			quote = 0
+		case quote != 0:
+			cur.WriteRune(r)
+		case r == '\'' || r == '"':
+			quote, inWord = r, true
+		case r == ' ' || r == '\t':
+			if inWord {
+				words = append(words, cur.String())
+				cur.Reset()
+				inWord = false
+			}
+		default:
+			cur.WriteRune(r)
+			inWord = true
+		}
+	}
+	if quote != 0 {
+		t.Fatalf("unbalanced quote in %q", s)
+	}
+	if inWord {
+		words = append(words, cur.String())
+	}
+	return words
+}

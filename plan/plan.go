@@ -1,0 +1,45 @@
+package plan
+
+import (
+	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
+)
+
+// The plan: a parsed plan file with every name resolved.
+
+// Plan is a parsed, validated plan file with every name resolved.
+type Plan struct {
+	Path         string // the plan file as given
+	Name         string
+	FreqMHz      float64
+	Terrain      []string  // DEM directories or files, resolved against the plan's folder
+	TerrainAt    int       // line of the terrain field, for errors about missing tiles
+	Waypoints    *gpx.File // nil when the plan names none
+	Require      Requirement
+	K            float64                  // effective earth-radius factor (units.ParseKFactor)
+	Model        propagation.Model        // from propagation.ModelByName; propagation.Terrain unless the plan says
+	Polarization propagation.Polarization // vertical unless the plan says
+	Ground       propagation.Ground       // ground constants, propagation.Land unless the plan says
+	Stations     []Station
+	Targets      []Target
+	Mast         *MastSweep
+	Routes       []string // GPX files with tracks, resolved
+	Sites        []string // GPX files with candidate waypoints, resolved
+	InputFiles   []string // every file the plan reads, for output guards
+
+	// Defaults is the kit under `defaults:` (a handheld: 0 dBi at 1.5 m
+	// unless the plan says otherwise; no radio unless it gives one), the
+	// kit carried along routes. Its Name and Pos are empty.
+	Defaults End
+}
+
+// MastSweep asks for the lowest mast and lightest cable that meet the
+// requirement.
+type MastSweep struct {
+	Heights units.LengthRange
+	Cables  []feedline.Cable // from the catalog, or described by the user
+	RunM    float64          // cable from the mast foot to the radio, metres
+	SlackM  float64          // extra cable for drip loops and the mast head, metres
+}
