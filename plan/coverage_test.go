@@ -197,7 +197,7 @@ func TestCoverageLossAgainstLink(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			env := &Env{Terrain: ts, Vertical: tc.pol == propagation.Vertical}
+			env := &Env{Terrain: ts, Polarization: tc.pol}
 			rng := rand.New(rand.NewPCG(11, uint64(tc.freqMHz)))
 			var g Geometry
 			within, n := 0, 0

@@ -5,7 +5,7 @@ import (
 	"math"
 	"strconv"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/paulmach/orb"
 )
 
@@ -128,9 +128,9 @@ func (l *mapLayout) scaleBar() {
 	maxM := scaleBarMaxFraction * float64(l.mapW) * l.metresPerPx
 	l.barUnit, l.barUnitM = "m", 1
 	if l.imperial {
-		l.barUnit, l.barUnitM = "ft", plan.MetresPerFoot
-		if maxM >= 0.1*plan.MetresPerMile {
-			l.barUnit, l.barUnitM = "mi", plan.MetresPerMile
+		l.barUnit, l.barUnitM = "ft", units.MetresPerFoot
+		if maxM >= 0.1*units.MetresPerMile {
+			l.barUnit, l.barUnitM = "mi", units.MetresPerMile
 		}
 	} else if maxM >= 1000 {
 		l.barUnit, l.barUnitM = "km", 1000
