@@ -529,7 +529,10 @@ func verdict(l BriefingLink) (string, string) {
 
 func (p *page) links() {
 	d := p.d
-	p.section("links", "", "Who hears whom")
+	p.w(`<section id="links" aria-labelledby="links-h">` + "\n")
+	// The heading stays on the page of the first station's table.
+	p.w(`<div class="keep">` + "\n")
+	p.w(`<h2 id="links-h">Who hears whom</h2>` + "\n")
 	p.el("p", ` class="lead"`, "Each station against every target, both ways. Margin is how far the received signal stays above the receiver's sensitivity; the requirement is "+fmt1(d.Requirement.MarginDB)+" dB.")
 	for i, s := range d.Stations {
 		p.w(`<div class="station">` + "\n")
@@ -542,6 +545,9 @@ func (p *page) links() {
 		if len(s.Links) == 0 {
 			p.el("p", "", "No targets for this station.")
 			p.w("</div>\n")
+			if i == 0 {
+				p.w("</div>\n")
+			}
 			continue
 		}
 		p.w("<table class=\"links\">\n")
@@ -571,6 +577,9 @@ func (p *page) links() {
 			p.w("</tr>\n")
 		}
 		p.w("</tbody>\n</table>\n</div>\n")
+		if i == 0 {
+			p.w("</div>\n")
+		}
 	}
 	p.w("</section>\n")
 }

@@ -156,4 +156,3 @@ func sampleBriefing() BriefingData {
 			Notes: []string{"mastlink (development build)"}},
 	}
 }
-

@@ -125,11 +125,17 @@ func sweepSVG(m *BriefingMast, requiredDB float64, imperial bool) string {
 			if r.Cable == m.RecommendedCable && r.HeightM == m.RecommendedHeightM {
 				x, y := px(r.HeightM), py(r.WorstMarginDB)
 				fmt.Fprintf(&b, `<circle cx="%s" cy="%s" r="%s" fill="none" stroke="%s" stroke-width="2"/>`+"\n", num(x), num(y), num(sweepRingPx), colourRecommended)
+				// Above the ring when it is above the required line, else
+				// below, so the label never sits on that line.
+				ly := y - sweepRingPx - 4
+				if r.WorstMarginDB < requiredDB {
+					ly = y + sweepRingPx + 12
+				}
 				anchor, lx := "start", x+sweepRingPx+4
 				if x > (left+right)/2 {
 					anchor, lx = "end", x-sweepRingPx-4
 				}
-				fmt.Fprintf(&b, `<text x="%s" y="%s" text-anchor="%s" font-weight="bold">recommended</text>`+"\n", num(lx), num(y+sweepRingPx+12), anchor)
+				fmt.Fprintf(&b, `<text x="%s" y="%s" text-anchor="%s" font-weight="bold">recommended</text>`+"\n", num(lx), num(ly), anchor)
 				break
 			}
 		}
