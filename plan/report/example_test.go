@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"image/png"
 	"io"
+	"regexp"
+	"time"
 
 	"github.com/mastlink/mastlink/plan/report"
 )
@@ -73,4 +75,37 @@ func ExampleProfilePNG() {
 	fmt.Printf("%d × %d px\n", cfg.Width, cfg.Height)
 	// Output:
 	// 1200 × 540 px
+}
+
+// ExampleBriefing writes a briefing for an invented one-station plan and
+// lists its section headings.
+func ExampleBriefing() {
+	data := report.BriefingData{
+		Title:       "Gorsefold valley net",
+		Date:        time.Date(2025, 6, 7, 8, 0, 0, 0, time.UTC),
+		Area:        "Gorsefold valley (invented)",
+		Requirement: report.BriefingRequirement{MarginDB: 10},
+		Stations: []report.BriefingStation{{Name: "Trailhead", Links: []report.BriefingLink{
+			{Target: "Corvane repeater", StationTransmits: true, Direction: "talk-in", FreqMHz: 146.34, DistanceM: 6000, MarginDB: 17.5, Meets: true},
+			{Target: "Corvane repeater", Direction: "talk-out", FreqMHz: 146.94, DistanceM: 6000, MarginDB: 24.0, Meets: true},
+		}}},
+		Exposure: []report.BriefingKeepout{{Station: "Trailhead", FreqMHz: 146.34, EIRPW: 8.2, Mode: "FM",
+			DutyFactor: 1, TxFraction: 0.5, KeepoutPublicM: 0.84, KeepoutOccupationalM: 0.31}},
+		Cautions: []string{"Keep masts well clear of power lines."},
+		Inputs:   report.BriefingInputs{Model: "free space", K: 4.0 / 3},
+	}
+	var buf bytes.Buffer
+	if err := report.Briefing(&buf, data); err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, m := range regexp.MustCompile(`<h2[^>]*>([^<]*)</h2>`).FindAllStringSubmatch(buf.String(), -1) {
+		fmt.Println(m[1])
+	}
+	// Output:
+	// Requirement
+	// Who hears whom
+	// RF exposure keep-out
+	// Cautions
+	// Inputs used
 }

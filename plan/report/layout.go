@@ -3,6 +3,8 @@ package report
 import (
 	"math"
 	"strconv"
+	"strings"
+	"unicode/utf8"
 
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
@@ -43,16 +45,24 @@ const (
 	legendLineY    = 5.0  // line swatches, below the row's top
 	legendBaseline = 9.0  // text baseline, below the row's top
 	legendTextPx   = 20.0 // text start right of the swatch's left edge
+
+	legendBandTopPx = 38   // first row's top, in a chart whose keys run above the plot
+	legendBandGapPx = 14   // last row's bottom to the plot's top
+	legendGapPx     = 18.0 // between keys in a row
 )
 
 // Stroke widths, pixels.
 const (
-	strokeGridPx   = 1.0
-	strokeGroundPx = 1.0
-	strokeCurvePx  = 1.2
-	strokeMastPx   = 2.0
-	strokeRayPx    = 1.6
-	strokeAxisPx   = 1.0
+	strokeGridPx     = 1.0
+	strokeGroundPx   = 1.0
+	strokeCurvePx    = 1.2
+	strokeMastPx     = 2.0
+	strokeRayPx      = 1.6
+	strokeAxisPx     = 1.0
+	strokeZonePx     = 1.0
+	strokeObstaclePx = 2.0
+	antennaDotPx     = 3.0 // radius of the antenna drawn on a mast top
+	obstacleMarkPx   = 5.0 // half-width of the obstacle's triangle
 )
 
 // Dash pattern of the earth curve, pixels on and off (the legend swatch's
@@ -60,7 +70,28 @@ const (
 var (
 	dashCurvePx       = [2]float64{5, 4}
 	dashCurveLegendPx = [2]float64{4, 2}
+	dashZone06Px      = [2]float64{6, 3}
 )
+
+// zoneOutline is the closed outline, in pixels, of the part frac of the
+// first Fresnel zone around the ray: its upper edge from the near end to
+// the far one, then its lower edge back.
+func (l *profileLayout) zoneOutline(frac float64) [][2]float64 {
+	pts := make([][2]float64, 0, 2*len(l.zoneDistM))
+	for j := range l.zoneDistM {
+		pts = append(pts, [2]float64{l.px(l.zoneDistM[j]), l.py(l.zoneRay[j] + frac*l.zoneR1[j])})
+	}
+	for j := len(l.zoneDistM) - 2; j > 0; j-- {
+		pts = append(pts, [2]float64{l.px(l.zoneDistM[j]), l.py(l.zoneRay[j] - frac*l.zoneR1[j])})
+	}
+	return pts
+}
+
+// obstacleMark is a small triangle pointing up at (x, y), the obstacle's
+// top, wound clockwise on the screen.
+func obstacleMark(x, y float64) [][2]float64 {
+	return [][2]float64{{x, y}, {x + obstacleMarkPx, y + 1.6*obstacleMarkPx}, {x - obstacleMarkPx, y + 1.6*obstacleMarkPx}}
+}
 
 // legendKind says which swatch a legend row shows.
 type legendKind int
@@ -69,12 +100,17 @@ const (
 	legendGround legendKind = iota
 	legendRay
 	legendCurve
+	legendMast
+	legendZone
+	legendZone06
+	legendObstacle
 )
 
 // legendEntry is one row of the legend.
 type legendEntry struct {
 	kind legendKind
 	text string
+	x, y float64 // swatch's top left corner, pixels
 }
 
 // profileLayout is the geometry of a profile chart, computed once from the
@@ -87,6 +123,7 @@ type profileLayout struct {
 	title                  string
 	nameD, nameH           string  // unit names of the axes
 	unitD                  float64 // metres per display distance unit
+	metresPerH             float64 // metres per display height unit
 	d0                     float64 // distance of the first sample, m
 	xMax                   float64 // path length in display units
 	bulge, ground          []float64
@@ -102,7 +139,26 @@ type profileLayout struct {
 	legend                 []legendEntry
 	legendX, legendY       float64 // first swatch's top left corner
 	legendBoxW, legendBoxH float64
+	legendLeft             bool // the key sits in the top left corner
+	legendBand             bool // the keys run in rows above the plot, unboxed
+
+	// Fresnel zone (WithFrequency): the ray and the first zone's radius at
+	// zoneSteps+1 evenly spaced distances, heights in display units.
+	fresnel               bool
+	zoneDistM             []float64 // metres from the first sample's origin, as distM
+	zoneRay, zoneR1       []float64
+	obstacle              bool    // a governing obstacle was found
+	obsDistM              float64 // its distance, metres (as distM)
+	obsGround, obsRay     float64 // ground (with bulge) and ray there, display units
+	obsClearM, obsClearF1 float64 // its clearance, metres and F1 units
 }
+
+// zoneSteps is how many straight pieces draw each edge of a Fresnel zone:
+// enough for a smooth ellipse at any chart width.
+const zoneSteps = 120
+
+// speedOfLightMS is c in m/s (exact, SI definition of the metre).
+const speedOfLightMS = 299_792_458.0
 
 // layout computes the geometry of the checked chart for the data.
 func (c *profileChart) layout(distM, elevM []float64) *profileLayout {
@@ -113,6 +169,7 @@ func (c *profileChart) layout(distM, elevM []float64) *profileLayout {
 	if c.imperial {
 		l.unitD, unitH, l.nameD, l.nameH = units.MetresPerMile, units.MetresPerFoot, "mi", "ft"
 	}
+	l.metresPerH = unitH
 	l.title = c.title
 	if l.title == "" {
 		l.title = "Terrain profile"
@@ -141,6 +198,13 @@ func (c *profileChart) layout(distM, elevM []float64) *profileLayout {
 		hi = math.Max(hi, math.Max(l.rayFrom, l.rayTo))
 	}
 	lo := minElev
+	if c.freqMHz > 0 {
+		l.fresnelZone(c, distM, unitH)
+		for i := range l.zoneRay {
+			hi = math.Max(hi, l.zoneRay[i]+l.zoneR1[i])
+			lo = math.Min(lo, l.zoneRay[i]-l.zoneR1[i])
+		}
+	}
 	span := math.Max(hi-lo, 10/unitH)
 	pad := 0.06 * span
 	if lo >= 0 && lo-pad < 0 {
@@ -156,22 +220,171 @@ func (c *profileChart) layout(distM, elevM []float64) *profileLayout {
 	l.yTicks = niceTicks(lo, hi, 6)
 	l.yLo, l.yHi = l.yTicks.min, l.yTicks.max
 
-	l.left, l.top = marginLeftPx, marginTopPx
-	l.plotW = float64(c.widthPx - marginLeftPx - marginRightPx)
-	l.plotH = float64(c.heightPx - marginTopPx - marginBottomPx)
-	l.bottom, l.right = l.top+l.plotH, l.left+l.plotW
-	l.idx = thin(distM, l.ground, int(l.plotW))
-
-	l.legend = []legendEntry{{legendGround, "ground"}}
-	if c.antennas {
-		l.legend = append(l.legend, legendEntry{legendRay, "line of sight"})
+	l.legend = []legendEntry{{kind: legendGround, text: "ground"}}
+	if c.antennas && !l.fresnel {
+		l.legend = append(l.legend, legendEntry{kind: legendRay, text: "line of sight"})
+	}
+	if l.fresnel {
+		l.legend = append(l.legend,
+			legendEntry{kind: legendMast, text: "masts " + heightLabel(c.fromHeightM/unitH) + " and " + heightLabel(c.toHeightM/unitH) + " " + l.nameH},
+			legendEntry{kind: legendRay, text: "line of sight"},
+			legendEntry{kind: legendZone, text: "first Fresnel zone, " + strconv.FormatFloat(c.freqMHz, 'f', -1, 64) + " MHz"},
+			legendEntry{kind: legendZone06, text: "0.6 of the first zone"})
 	}
 	if c.k > 0 {
-		l.legend = append(l.legend, legendEntry{legendCurve, "earth curvature, k = " + kLabel(c.k)})
+		l.legend = append(l.legend, legendEntry{kind: legendCurve, text: "earth curvature, k = " + kLabel(c.k)})
 	}
-	l.legendX, l.legendY = l.right-legendWidthPx, l.top+legendInsetPx
-	l.legendBoxW, l.legendBoxH = legendWidthPx, legendRowPx*float64(len(l.legend))+legendPadPx
+	if l.obstacle {
+		l.legend = append(l.legend, legendEntry{kind: legendObstacle, text: l.obstacleLabel()})
+	}
+
+	l.left, l.right = marginLeftPx, float64(c.widthPx-marginRightPx)
+	l.plotW = l.right - l.left
+	l.top = marginTopPx
+	// A chart with a Fresnel zone has too many keys for a box inside the
+	// plot: they run in rows between the title and the plot instead.
+	l.legendBand = l.fresnel
+	if l.legendBand {
+		l.top = legendBandTopPx + float64(l.flowLegend())*legendRowPx + legendBandGapPx
+	}
+	l.plotH = l.heightPx - l.top - marginBottomPx
+	l.bottom = l.top + l.plotH
+	l.idx = thin(distM, l.ground, int(l.plotW))
+	if !l.legendBand {
+		l.legendBoxW = legendWidthPx
+		for _, e := range l.legend {
+			l.legendBoxW = math.Max(l.legendBoxW, legendTextPx+legendPadPx+textWidthPx(e.text, legendFontSizePx))
+		}
+		l.legendBoxH = legendRowPx*float64(len(l.legend)) + legendPadPx
+		l.placeLegend(distM)
+		for i := range l.legend {
+			l.legend[i].x, l.legend[i].y = l.legendX, l.legendY+legendRowPx*float64(i)
+		}
+	}
 	return l
+}
+
+// flowLegend places the keys left to right in rows across the plot's
+// width, from legendBandTopPx down, and returns the number of rows.
+func (l *profileLayout) flowLegend() int {
+	x, y, rows := l.left, float64(legendBandTopPx), 1
+	for i, e := range l.legend {
+		w := legendTextPx + textWidthPx(e.text, legendFontSizePx)
+		if x > l.left && x+w > l.right {
+			x, y, rows = l.left, y+legendRowPx, rows+1
+		}
+		l.legend[i].x, l.legend[i].y = x, y
+		x += w + legendGapPx
+	}
+	return rows
+}
+
+// fresnelZone computes the ray, the first Fresnel zone around it and the
+// governing obstacle, from the checked data (ITU-R P.526-16 eq. 2 for the
+// radius; the clearance is measured vertically, as for the zone's
+// worst-clearance ratio of the terrain model).
+func (l *profileLayout) fresnelZone(c *profileChart, distM []float64, unitH float64) {
+	n := len(distM)
+	l.fresnel = true
+	totalM := distM[n-1] - l.d0
+	lambdaM := speedOfLightMS / (c.freqMHz * 1e6)
+	rayM := func(d1M float64) float64 {
+		return (l.rayFrom + (l.rayTo-l.rayFrom)*d1M/totalM) * unitH
+	}
+	r1M := func(d1M float64) float64 {
+		if d1M <= 0 || d1M >= totalM {
+			return 0
+		}
+		return propagation.FresnelRadiusWavelengthM(d1M/1000, (totalM-d1M)/1000, lambdaM)
+	}
+	l.zoneDistM = make([]float64, zoneSteps+1)
+	l.zoneRay = make([]float64, zoneSteps+1)
+	l.zoneR1 = make([]float64, zoneSteps+1)
+	for j := range l.zoneDistM {
+		d1 := totalM * float64(j) / zoneSteps
+		l.zoneDistM[j] = l.d0 + d1
+		l.zoneRay[j] = rayM(d1) / unitH
+		l.zoneR1[j] = r1M(d1) / unitH
+	}
+	best := math.Inf(1)
+	for i := 1; i < n-1; i++ {
+		d1 := distM[i] - l.d0
+		r1 := r1M(d1)
+		if r1 <= 0 {
+			continue
+		}
+		clearM := rayM(d1) - l.ground[i]*unitH
+		if f := clearM / r1; f < best {
+			best = f
+			l.obstacle = true
+			l.obsDistM, l.obsClearM, l.obsClearF1 = distM[i], clearM, f
+			l.obsGround, l.obsRay = l.ground[i], rayM(d1)/unitH
+		}
+	}
+}
+
+// obstacleLabel is the legend's words for the governing obstacle.
+func (l *profileLayout) obstacleLabel() string {
+	at := strconv.FormatFloat((l.obsDistM-l.d0)/l.unitD, 'f', 2, 64) + " " + l.nameD
+	clear := strconv.FormatFloat(l.obsClearM/l.metresPerH, 'f', 1, 64) + " " + l.nameH
+	f1 := strconv.FormatFloat(l.obsClearF1, 'f', 2, 64)
+	if l.obsClearM < 0 {
+		return "obstacle at " + at + ": blocks by " + strings.TrimPrefix(clear, "-") + " (" + f1 + " F1)"
+	}
+	return "obstacle at " + at + ": clears by " + f1 + " F1 (" + clear + ")"
+}
+
+// heightLabel writes a mast height with one decimal, trimming ".0".
+func heightLabel(h float64) string {
+	return strings.TrimSuffix(strconv.FormatFloat(h, 'f', 1, 64), ".0")
+}
+
+// textWidthPx estimates the width of s in the chart's sans-serif font at
+// sizePx: 0.56 em per character, a little over the average advance of the
+// Go and common sans-serif fonts, so boxes sized by it hold the text.
+func textWidthPx(s string, sizePx float64) float64 {
+	return 0.56 * sizePx * float64(utf8.RuneCountInString(s))
+}
+
+// placeLegend puts the key in the top right corner of the plot area, or in
+// the top left when the drawing reaches under the right one and not under
+// the left (else where it covers less).
+func (l *profileLayout) placeLegend(distM []float64) {
+	l.legendY = l.top + legendInsetPx
+	boxBottom := l.legendY - legendPadPx + l.legendBoxH
+	// overlap is how far, in pixels, the highest drawing between x0 and
+	// x1 reaches above the box's bottom edge (≤ 0: not at all).
+	overlap := func(x0, x1 float64) float64 {
+		top := math.Inf(1)
+		see := func(x, h float64) {
+			if x >= x0-2 && x <= x1+2 {
+				top = math.Min(top, l.py(h))
+			}
+		}
+		for _, i := range l.idx {
+			see(l.px(distM[i]), l.ground[i])
+		}
+		if l.antennas {
+			n := len(distM)
+			for j := 0; j <= zoneSteps; j++ {
+				t := float64(j) / zoneSteps
+				see(l.px(distM[0]+t*(distM[n-1]-distM[0])), l.rayFrom+t*(l.rayTo-l.rayFrom))
+			}
+		}
+		for j := range l.zoneDistM {
+			see(l.px(l.zoneDistM[j]), l.zoneRay[j]+l.zoneR1[j])
+		}
+		return boxBottom - top
+	}
+	rightX0 := l.right - legendPadPx - l.legendBoxW
+	leftX0 := l.left + legendInsetPx
+	r, lf := overlap(rightX0, rightX0+l.legendBoxW), overlap(leftX0, leftX0+l.legendBoxW)
+	l.legendLeft = r > 0 && lf < r
+	if l.legendLeft {
+		l.legendX = leftX0 + legendPadPx
+	} else {
+		l.legendX = rightX0 + legendPadPx
+	}
 }
 
 // px is the x pixel of a distance along the path, metres.

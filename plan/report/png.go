@@ -169,6 +169,17 @@ func joint(p [2]float64, h float64) [][2]float64 {
 	return pts
 }
 
+// disc is a 16-sided polygon of radius r around (x, y), wound as stroke's
+// quadrilaterals.
+func disc(x, y, r float64) [][2]float64 {
+	pts := make([][2]float64, 16)
+	for k := range pts {
+		a := -float64(k) * math.Pi / 8
+		pts[k] = [2]float64{x + r*math.Cos(a), y + r*math.Sin(a)}
+	}
+	return pts
+}
+
 // dashes splits a polyline into the pieces that are on in a dash pattern of
 // on and off pixels, measured along the line from its start (which is on).
 func dashes(pts [][2]float64, on, off float64) [][][2]float64 {
@@ -330,6 +341,16 @@ func rasterProfile(l *profileLayout, distM []float64) (*image.RGBA, error) {
 		cv.paint(rgb(colourCurve), strokes(dashes(curve, dashCurvePx[0], dashCurvePx[1]), strokeCurvePx))
 	}
 
+	if l.fresnel {
+		zone := l.zoneOutline(1)
+		fill := rgb(colourZone)
+		fill.A = uint8(math.Round(zoneFillOpacity * 255))
+		cv.paint(fill, shape{zone})
+		cv.paint(rgb(colourZone), stroke(append(zone, zone[0]), strokeZonePx))
+		z6 := l.zoneOutline(0.6)
+		cv.paint(rgb(colourZone06), strokes(dashes(append(z6, z6[0]), dashZone06Px[0], dashZone06Px[1]), strokeZonePx))
+	}
+
 	if l.antennas {
 		x0, x1 := l.px(distM[0]), l.px(distM[n-1])
 		mx0, mx1 := crisp(x0, strokeMastPx), crisp(x1, strokeMastPx)
@@ -337,7 +358,14 @@ func rasterProfile(l *profileLayout, distM []float64) (*image.RGBA, error) {
 			{{mx0, l.py(l.ground[0])}, {mx0, l.py(l.rayFrom)}},
 			{{mx1, l.py(l.ground[n-1])}, {mx1, l.py(l.rayTo)}},
 		}, strokeMastPx))
+		cv.paint(rgb(colourMast), shape{disc(mx0, l.py(l.rayFrom), antennaDotPx), disc(mx1, l.py(l.rayTo), antennaDotPx)})
 		cv.paint(rgb(colourRay), stroke([][2]float64{{x0, l.py(l.rayFrom)}, {x1, l.py(l.rayTo)}}, strokeRayPx))
+	}
+
+	if l.obstacle {
+		x := crisp(l.px(l.obsDistM), strokeObstaclePx)
+		cv.paint(rgb(colourObstacle), stroke([][2]float64{{x, l.py(l.obsGround)}, {x, l.py(l.obsRay)}}, strokeObstaclePx))
+		cv.paint(rgb(colourObstacle), shape{obstacleMark(x, l.py(l.obsGround))})
 	}
 
 	// Axes, ticks and labels.
@@ -368,16 +396,18 @@ func rasterProfile(l *profileLayout, distM []float64) (*image.RGBA, error) {
 
 // rasterLegend draws the key in the top right corner of the plot area.
 func rasterLegend(cv *canvas, l *profileLayout, face font.Face, textCol color.Color) {
-	bx, by := l.legendX-legendPadPx, l.legendY-legendPadPx
-	box := [][2]float64{{bx, by}, {bx + l.legendBoxW, by}, {bx + l.legendBoxW, by + l.legendBoxH}, {bx, by + l.legendBoxH}}
-	back := rgb(colourBackground)
-	back.A = 0xd9 // 85 % opaque, as the SVG's fill-opacity
-	cv.paint(back, shape{box})
-	x0, y0 := crisp(bx, strokeGridPx), crisp(by, strokeGridPx)
-	x1, y1 := crisp(bx+l.legendBoxW, strokeGridPx), crisp(by+l.legendBoxH, strokeGridPx)
-	cv.paint(rgb(colourGrid), stroke([][2]float64{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}, {x0, y0}}, strokeGridPx))
-	for i, e := range l.legend {
-		x, y := l.legendX, l.legendY+legendRowPx*float64(i)
+	if !l.legendBand {
+		bx, by := l.legendX-legendPadPx, l.legendY-legendPadPx
+		box := [][2]float64{{bx, by}, {bx + l.legendBoxW, by}, {bx + l.legendBoxW, by + l.legendBoxH}, {bx, by + l.legendBoxH}}
+		back := rgb(colourBackground)
+		back.A = 0xd9 // 85 % opaque, as the SVG's fill-opacity
+		cv.paint(back, shape{box})
+		x0, y0 := crisp(bx, strokeGridPx), crisp(by, strokeGridPx)
+		x1, y1 := crisp(bx+l.legendBoxW, strokeGridPx), crisp(by+l.legendBoxH, strokeGridPx)
+		cv.paint(rgb(colourGrid), stroke([][2]float64{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}, {x0, y0}}, strokeGridPx))
+	}
+	for _, e := range l.legend {
+		x, y := e.x, e.y
 		ly := crisp(y+legendLineY, 1) // centred on a pixel row
 		line := [][2]float64{{x, ly}, {x + legendSwatchPx, ly}}
 		switch e.kind {
@@ -393,6 +423,26 @@ func rasterLegend(cv *canvas, l *profileLayout, face font.Face, textCol color.Co
 			cv.paint(rgb(colourRay), stroke(line, strokeRayPx))
 		case legendCurve:
 			cv.paint(rgb(colourCurve), strokes(dashes(line, dashCurveLegendPx[0], dashCurveLegendPx[1]), strokeCurvePx))
+		case legendMast:
+			mx := crisp(x+legendSwatchPx/2, strokeMastPx)
+			cv.paint(rgb(colourMast), stroke([][2]float64{{mx, y + legendSwatchH + 1}, {mx, y + 1}}, strokeMastPx))
+			cv.paint(rgb(colourMast), shape{disc(mx, y+1, antennaDotPx-0.5)})
+		case legendZone:
+			sw := [][2]float64{{x, y}, {x + legendSwatchPx, y}, {x + legendSwatchPx, y + legendSwatchH}, {x, y + legendSwatchH}}
+			fill := rgb(colourZone)
+			fill.A = uint8(math.Round(zoneFillOpacity * 255))
+			cv.paint(fill, shape{sw})
+			edge := make([][2]float64, 0, len(sw)+1)
+			for _, p := range append(sw, sw[0]) {
+				edge = append(edge, [2]float64{crisp(p[0], strokeZonePx), crisp(p[1], strokeZonePx)})
+			}
+			cv.paint(rgb(colourZone), stroke(edge, strokeZonePx))
+		case legendZone06:
+			cv.paint(rgb(colourZone06), strokes(dashes(line, dashCurveLegendPx[0], dashCurveLegendPx[1]), strokeZonePx))
+		case legendObstacle:
+			mx := crisp(x+legendSwatchPx/2, strokeObstaclePx)
+			cv.paint(rgb(colourObstacle), stroke([][2]float64{{mx, y}, {mx, y + legendSwatchH}}, strokeObstaclePx))
+			cv.paint(rgb(colourObstacle), shape{obstacleMark(mx, y+legendSwatchH+1)})
 		}
 		cv.text(face, textCol, x+legendTextPx, y+legendBaseline, anchorStart, e.text)
 	}

@@ -23,7 +23,14 @@ const (
 	colourGrid       = "#e4e4e4"
 	colourAxis       = "#333333"
 	colourText       = "#222222"
+	colourZone       = "#2464a8" // first Fresnel zone: the ray's blue, filled faintly
+	colourZone06     = "#17406c" // its 0.6 part, dashed, darker
+	colourObstacle   = "#b3261e" // the governing obstacle
 )
+
+// zoneFillOpacity is how opaque the first Fresnel zone's fill is, so the
+// ground stays visible through it where the zone is obstructed.
+const zoneFillOpacity = 0.16
 
 // Default chart size in pixels (SVG user units).
 const (
@@ -40,6 +47,7 @@ type profileChart struct {
 	fromHeightM       float64
 	toHeightM         float64
 	k                 float64 // effective earth-radius factor; 0 draws a flat earth
+	freqMHz           float64 // 0: no Fresnel zone
 }
 
 // ProfileOption changes how ProfileSVG and ProfilePNG draw a chart.
@@ -76,6 +84,20 @@ func WithAntennas(fromHeightM, toHeightM float64) ProfileOption {
 // radio ray bent by the atmosphere of that k. k must be between 0.1 and 100;
 // 4/3 is the usual median (propagation.DefaultKFactor).
 func WithEarthBulge(k float64) ProfileOption { return func(c *profileChart) { c.k = k } }
+
+// WithFrequency draws, around the line of sight of WithAntennas, the first
+// Fresnel zone at freqMHz (1 MHz to 100 GHz) and its 0.6 part, and marks
+// the governing obstacle: the intermediate sample whose clearance below the
+// ray is the smallest fraction of the first zone's radius there, with that
+// clearance in F1 units and in metres (feet with WithImperial). The radius
+// is R1 = √(λ d1 d2 / (d1 + d2)) (ITU-R P.526-16 eq. 2, n = 1,
+// propagation.FresnelRadiusWavelengthM) with λ = c/f. With WithEarthBulge
+// the ground is raised by the earth bulge, so clearances are those over an
+// earth of that k, as the terrain model measures them; 0.6 F1 is the usual
+// planning minimum (ITU-R P.526-16 §2.3). It needs WithAntennas.
+func WithFrequency(freqMHz float64) ProfileOption {
+	return func(c *profileChart) { c.freqMHz = freqMHz }
+}
 
 // newProfileChart applies opts to the defaults and checks them with the
 // data.
@@ -114,6 +136,14 @@ func (c *profileChart) check(distM, elevM []float64) error {
 	}
 	if c.antennas && (!finite(c.fromHeightM) || !finite(c.toHeightM) || c.fromHeightM < 0 || c.toHeightM < 0) {
 		return fmt.Errorf("%w: antenna heights %v m and %v m: give 0 m or more", ErrChartData, c.fromHeightM, c.toHeightM)
+	}
+	if c.freqMHz != 0 {
+		if !(c.freqMHz >= 1 && c.freqMHz <= 100_000) {
+			return fmt.Errorf("%w: frequency %v MHz is outside 1 MHz to 100 GHz", ErrChartData, c.freqMHz)
+		}
+		if !c.antennas {
+			return fmt.Errorf("%w: a Fresnel zone (frequency %v MHz) needs the antenna heights at both ends; give them with WithAntennas", ErrChartData, c.freqMHz)
+		}
 	}
 	if c.k != 0 && !(c.k >= 0.1 && c.k <= 100) {
 		return fmt.Errorf("%w: k-factor %v is outside 0.1 to 100 (4/3 is the usual median)", ErrChartData, c.k)

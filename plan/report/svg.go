@@ -81,14 +81,32 @@ func renderSVG(b *strings.Builder, l *profileLayout, distM []float64) {
 		b.WriteString("\"/>\n")
 	}
 
+	if l.fresnel {
+		fmt.Fprintf(b, `<path id="fresnel-zone" fill="%s" fill-opacity="%s" stroke="%s" stroke-width="%s" d="%s"/>`+"\n",
+			colourZone, num(zoneFillOpacity), colourZone, num(strokeZonePx), svgPolygon(l.zoneOutline(1)))
+		fmt.Fprintf(b, `<path id="fresnel-zone-06" fill="none" stroke="%s" stroke-width="%s" stroke-dasharray="%s %s" d="%s"/>`+"\n",
+			colourZone06, num(strokeZonePx), num(dashZone06Px[0]), num(dashZone06Px[1]), svgPolygon(l.zoneOutline(0.6)))
+	}
+
 	if l.antennas {
 		x0, x1 := l.px(distM[0]), l.px(distM[n-1])
-		fmt.Fprintf(b, `<g id="masts" stroke="%s" stroke-width="%s">`+"\n", colourMast, num(strokeMastPx))
+		fmt.Fprintf(b, `<g id="masts" stroke="%s" stroke-width="%s" fill="%s">`+"\n", colourMast, num(strokeMastPx), colourMast)
 		svgLine(b, x0, l.py(l.ground[0]), x0, l.py(l.rayFrom))
 		svgLine(b, x1, l.py(l.ground[n-1]), x1, l.py(l.rayTo))
+		fmt.Fprintf(b, `<circle cx="%s" cy="%s" r="%s" stroke="none"/>`+"\n", num(x0), num(l.py(l.rayFrom)), num(antennaDotPx))
+		fmt.Fprintf(b, `<circle cx="%s" cy="%s" r="%s" stroke="none"/>`+"\n", num(x1), num(l.py(l.rayTo)), num(antennaDotPx))
 		b.WriteString("</g>\n")
 		fmt.Fprintf(b, `<line id="line-of-sight" x1="%s" y1="%s" x2="%s" y2="%s" stroke="%s" stroke-width="%s"/>`+"\n",
 			num(x0), num(l.py(l.rayFrom)), num(x1), num(l.py(l.rayTo)), colourRay, num(strokeRayPx))
+	}
+
+	if l.obstacle {
+		x := l.px(l.obsDistM)
+		fmt.Fprintf(b, `<g id="obstacle" stroke="%s" stroke-width="%s" fill="%s">`+"\n", colourObstacle, num(strokeObstaclePx), colourObstacle)
+		fmt.Fprintf(b, `<title>%s</title>`+"\n", esc(l.obstacleLabel()))
+		svgLine(b, x, l.py(l.obsGround), x, l.py(l.obsRay))
+		fmt.Fprintf(b, `<path stroke="none" d="%s"/>`+"\n", svgPolygon(obstacleMark(x, l.py(l.obsGround))))
+		b.WriteString("</g>\n")
 	}
 
 	// Axes, ticks and labels.
@@ -128,10 +146,12 @@ func svgLine(b *strings.Builder, x1, y1, x2, y2 float64) {
 func svgLegend(b *strings.Builder, l *profileLayout) {
 	mid := num(legendLineY)
 	fmt.Fprintf(b, `<g id="legend" font-size="%d">`+"\n", legendFontSizePx)
-	fmt.Fprintf(b, `<rect x="%s" y="%s" width="%s" height="%s" fill="%s" fill-opacity="0.85" stroke="%s"/>`+"\n",
-		num(l.legendX-legendPadPx), num(l.legendY-legendPadPx), num(l.legendBoxW), num(l.legendBoxH), colourBackground, colourGrid)
-	for i, e := range l.legend {
-		ry := l.legendY + legendRowPx*float64(i)
+	if !l.legendBand {
+		fmt.Fprintf(b, `<rect x="%s" y="%s" width="%s" height="%s" fill="%s" fill-opacity="0.85" stroke="%s"/>`+"\n",
+			num(l.legendX-legendPadPx), num(l.legendY-legendPadPx), num(l.legendBoxW), num(l.legendBoxH), colourBackground, colourGrid)
+	}
+	for _, e := range l.legend {
+		ry := e.y
 		var swatch string
 		switch e.kind {
 		case legendGround:
@@ -141,11 +161,38 @@ func svgLegend(b *strings.Builder, l *profileLayout) {
 		case legendCurve:
 			swatch = fmt.Sprintf(`<line x1="0" y1="%s" x2="%s" y2="%s" stroke="%s" stroke-width="%s" stroke-dasharray="%s %s"/>`,
 				mid, num(legendSwatchPx), mid, colourCurve, num(strokeCurvePx), num(dashCurveLegendPx[0]), num(dashCurveLegendPx[1]))
+		case legendMast:
+			swatch = fmt.Sprintf(`<line x1="%s" y1="%s" x2="%s" y2="%s" stroke="%s" stroke-width="%s"/><circle cx="%s" cy="%s" r="%s" fill="%s"/>`,
+				num(legendSwatchPx/2), num(legendSwatchH+1), num(legendSwatchPx/2), num(1), colourMast, num(strokeMastPx), num(legendSwatchPx/2), num(1), num(antennaDotPx-0.5), colourMast)
+		case legendZone:
+			swatch = fmt.Sprintf(`<rect width="%s" height="%s" fill="%s" fill-opacity="%s" stroke="%s" stroke-width="%s"/>`,
+				num(legendSwatchPx), num(legendSwatchH), colourZone, num(zoneFillOpacity), colourZone, num(strokeZonePx))
+		case legendZone06:
+			swatch = fmt.Sprintf(`<line x1="0" y1="%s" x2="%s" y2="%s" stroke="%s" stroke-width="%s" stroke-dasharray="%s %s"/>`,
+				mid, num(legendSwatchPx), mid, colourZone06, num(strokeZonePx), num(dashCurveLegendPx[0]), num(dashCurveLegendPx[1]))
+		case legendObstacle:
+			swatch = fmt.Sprintf(`<line x1="%s" y1="0" x2="%s" y2="%s" stroke="%s" stroke-width="%s"/><path d="%s" fill="%s"/>`,
+				num(legendSwatchPx/2), num(legendSwatchPx/2), num(legendSwatchH), colourObstacle, num(strokeObstaclePx), svgPolygon(obstacleMark(legendSwatchPx/2, legendSwatchH+1)), colourObstacle)
 		}
-		fmt.Fprintf(b, `<g transform="translate(%s %s)">%s</g>`+"\n", num(l.legendX), num(ry), swatch)
-		fmt.Fprintf(b, `<text x="%s" y="%s">%s</text>`+"\n", num(l.legendX+legendTextPx), num(ry+legendBaseline), esc(e.text))
+		fmt.Fprintf(b, `<g transform="translate(%s %s)">%s</g>`+"\n", num(e.x), num(ry), swatch)
+		fmt.Fprintf(b, `<text x="%s" y="%s">%s</text>`+"\n", num(e.x+legendTextPx), num(ry+legendBaseline), esc(e.text))
 	}
 	b.WriteString("</g>\n")
+}
+
+// svgPolygon writes a closed path through pts.
+func svgPolygon(pts [][2]float64) string {
+	var b strings.Builder
+	for j, p := range pts {
+		if j == 0 {
+			b.WriteString("M")
+		} else {
+			b.WriteString(" L")
+		}
+		b.WriteString(num(p[0]) + " " + num(p[1]))
+	}
+	b.WriteString(" Z")
+	return b.String()
 }
 
 // num formats an SVG coordinate with two decimals, trimming zeros.
