@@ -13,7 +13,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/units"
 )
 
 // ErrBriefingData is wrapped by every error about the data given to
@@ -21,8 +21,8 @@ import (
 var ErrBriefingData = errors.New("briefing data")
 
 const (
-	metresPerFoot = plan.MetresPerFoot
-	metresPerMile = plan.MetresPerMile
+	metresPerFoot = units.MetresPerFoot
+	metresPerMile = units.MetresPerMile
 )
 
 // BriefingData is everything the printable deployment briefing shows, as

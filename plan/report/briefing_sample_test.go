@@ -8,7 +8,7 @@ import (
 	"math"
 	"time"
 
-	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/exposure"
 )
 
 // sampleMapPNG draws a stand-in for the plan's map: an invented terrain
@@ -146,7 +146,7 @@ func sampleBriefing() BriefingData {
 				AveragingPublicS: 1800, AveragingOccupationalS: 360, Standard: "FCC 47 CFR § 1.1310",
 				AntennaHeightM: 2, HeadHeightM: 2, KeepoutPublicM: 2.2100000001, KeepoutOccupationalM: 0.98},
 		},
-		Cautions: append(plan.ExposureCautions(), "Transmit only within your licence and the band plan; local rules on masts, land access and transmitting apply."),
+		Cautions: append(exposure.Cautions(), "Transmit only within your licence and the band plan; local rules on masts, land access and transmitting apply."),
 		Inputs: BriefingInputs{PlanFile: "harrow-fell.yaml", Model: "terrain: ITU-R P.526-16 delta-Bullington", K: 4.0 / 3,
 			TerrainFiles: []string{"N54W004.hgt"},
 			Kit: []BriefingKit{
