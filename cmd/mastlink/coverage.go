@@ -162,6 +162,19 @@ func runCoverage(ctx context.Context, g *globals, o *coverageOptions, args []str
 			return err
 		}
 	}
+	if o.value != "" {
+		if _, err := plan.ParseCoverageValue(o.value); err != nil {
+			return usagef("--value: %v", err)
+		}
+		if mode == plan.CoverageLOS {
+			return usagef("--value: a line-of-sight map holds visible or hidden; drop --value or use --mode loss")
+		}
+	}
+	if o.levels != "" {
+		if _, err := plan.ParseCoverageLevels(o.levels); err != nil {
+			return usagef("--levels: %v", err)
+		}
+	}
 	dir, err := plan.ParseCoverageDirection(o.direction)
 	if err != nil {
 		return usagef("--direction: %v", err)
@@ -190,8 +203,6 @@ func runCoverage(ctx context.Context, g *globals, o *coverageOptions, args []str
 		if req.Value, err = o.pickValue(su.budget); err != nil {
 			return err
 		}
-	} else if o.value != "" {
-		return usagef("--value: a line-of-sight map holds visible or hidden; drop --value or use --mode loss")
 	}
 	levels := defaultLevels(mode, req.Value)
 	if o.levels != "" {

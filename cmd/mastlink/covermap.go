@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
@@ -165,12 +166,11 @@ func writeCoverageFile(path, kind string, inputs []string, v *coverageView, ts *
 		if err != nil {
 			return err
 		}
-		if v.lowerIsBetter() { // back from the drawn negatives to losses
-			k := len(v.levels)
+		if v.lowerIsBetter() { // back from the drawn negatives to losses, in the levels' order
+			slices.Reverse(fc.Features)
 			for i, f := range fc.Features {
-				l := v.levels[k-1-i]
-				f.Properties["level"] = l
-				f.Properties["label"] = v.levelLabel(l)
+				f.Properties["level"] = v.levels[i]
+				f.Properties["label"] = v.levelLabel(v.levels[i])
 			}
 		}
 		return renderTo(path, inputs, func(w io.Writer) error { return writeJSON(w, fc) })
