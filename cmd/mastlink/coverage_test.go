@@ -13,6 +13,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -441,4 +442,66 @@ func overGrey(px [3]uint32, band color.NRGBA, opacity float64) bool {
 	}
 	tol := 2 / (1 - opacity)
 	return math.Abs(g[0]-g[1]) <= tol && math.Abs(g[1]-g[2]) <= tol && math.Abs(g[0]-g[2]) <= tol
+}
+
+// TestRouteAndSitesPNG decodes the route and site maps: full width, many
+// colours (relief and features), the legend's lowest band in the footer,
+// and the same bytes from a second run.
+func TestRouteAndSitesPNG(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range []struct {
+		name string
+		args []string
+	}{
+		{"route", []string{"route", demoHike, "--plan", demoPlanFile}},
+		{"sites", []string{"sites", demoCandidates, "--plan", demoPlanFile}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			var first []byte
+			for run := range 2 {
+				file := filepath.Join(dir, c.name+strconv.Itoa(run)+".png")
+				_, stderr, code := runCmd(t, append(c.args, "-o", file)...)
+				if code != 0 {
+					t.Fatalf("exit %d: %s", code, stderr)
+				}
+				b, err := os.ReadFile(file)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if run == 1 {
+					if !bytes.Equal(first, b) {
+						t.Error("the same map gave different bytes")
+					}
+					return
+				}
+				first = b
+				img, err := png.Decode(bytes.NewReader(b))
+				if err != nil {
+					t.Fatal(err)
+				}
+				bd := img.Bounds()
+				if bd.Dx() != report.DefaultMapWidthPx {
+					t.Errorf("width %d", bd.Dx())
+				}
+				colours := map[[3]uint32]bool{}
+				band0 := 0
+				lowest := report.BandColour(0, 4) // legend swatches of lines are the band colours themselves
+				for y := bd.Min.Y; y < bd.Max.Y; y++ {
+					for x := bd.Min.X; x < bd.Max.X; x++ {
+						r, g, bl, _ := img.At(x, y).RGBA()
+						colours[[3]uint32{r >> 8, g >> 8, bl >> 8}] = true
+						if y > bd.Max.Y-104 && uint8(r>>8) == lowest.R && uint8(g>>8) == lowest.G && uint8(bl>>8) == lowest.B {
+							band0++
+						}
+					}
+				}
+				if len(colours) < 300 {
+					t.Errorf("only %d colours", len(colours))
+				}
+				if band0 < 50 {
+					t.Errorf("legend: %d pixels of the lowest band's colour", band0)
+				}
+			}
+		})
+	}
 }

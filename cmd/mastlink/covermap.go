@@ -9,6 +9,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/report"
+	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -282,4 +283,84 @@ func featureBounds(pts []orb.Point) report.Bounds {
 	cx, cy := (b.West+b.East)/2, (b.South+b.North)/2
 	return report.Bounds{West: math.Max(cx-wM/2/lonM, -180), East: math.Min(cx+wM/2/lonM, 180),
 		South: math.Max(cy-hM/2/latM, -89.9), North: math.Min(cy+hM/2/latM, 89.9)}
+}
+
+// marginLevels are the levels of a map of margins with needDB needed: 0,
+// the need, and 10 and 20 dB above it (0, 10, 20, 30 dB for the usual
+// 10 dB), so a line drawn in colour meets the need from the second band
+// up.
+func marginLevels(needDB float64) []float64 {
+	need := math.Round(needDB*10) / 10
+	if !(need > 0) {
+		return []float64{0, 10, 20}
+	}
+	return []float64{0, need, need + 10, need + 20}
+}
+
+// targetMarkers marks the targets of a route or a site ranking.
+func targetMarkers(ts []plan.Target) []report.Marker {
+	out := make([]report.Marker, len(ts))
+	for i, t := range ts {
+		out[i] = report.Marker{At: t.Pos, Label: t.Name, Kind: report.MarkerTarget}
+	}
+	return out
+}
+
+// routeMap draws a route's coverage: the track coloured by the worst
+// margin over the required targets at each checked point, the dead
+// stretches under it, the best spots to call from, and the targets, over
+// a shaded relief of ts (nil: a plain base).
+func routeMap(w io.Writer, res *plan.RouteResult, targets []plan.Target, ts *terrain.Set, imperial bool) error {
+	tr := report.Track{Label: res.Name}
+	var pts []orb.Point
+	for _, p := range res.Points {
+		tr.Points = append(tr.Points, orb.Point{p.Lon, p.Lat})
+		tr.Values = append(tr.Values, p.WorstMarginDB)
+	}
+	pts = append(pts, tr.Points...)
+	m := report.Map{Title: "Coverage along " + res.Name, Imperial: imperial,
+		Subtitle: fmt.Sprintf("worst margin over the required targets, both ways; %s dB needed; checked every %s", trimNumber(math.Round(res.NeededMarginDB*10)/10), units.FormatLength(res.SpacingM, imperial)),
+		Scale:    report.Scale{Levels: marginLevels(res.NeededMarginDB), Name: "worst margin", Unit: "dB"},
+		Credit:   "ITU-R P.526-16 delta-Bullington over the terrain"}
+	if len(tr.Points) >= 2 {
+		m.Tracks = []report.Track{tr}
+	}
+	for _, g := range res.Gaps {
+		line := res.Piece(g.StartM, g.EndM)
+		if len(line) >= 2 {
+			m.Stretches = append(m.Stretches, report.Stretch{Line: line, Label: "no contact " + units.FormatLength(g.LengthM, imperial)})
+		}
+	}
+	for _, s := range res.BestSpots {
+		m.Markers = append(m.Markers, report.Marker{At: orb.Point{s.Lon, s.Lat}, Label: fmt.Sprintf("call %s %+.0f dB", s.Target, s.MarginDB), Kind: report.MarkerSpot})
+	}
+	for _, mk := range targetMarkers(targets) {
+		m.Markers = append(m.Markers, mk)
+		pts = append(pts, mk.At)
+	}
+	m.Bounds = featureBounds(pts)
+	m.Terrain = terrainGrid(ts, m.Bounds, 1600)
+	return report.MapPNG(w, m)
+}
+
+// sitesMap draws the candidate sites, each numbered by rank and coloured
+// by its worst margin, with the targets, over a shaded relief of ts (nil:
+// a plain base).
+func sitesMap(w io.Writer, res *plan.SitesResult, targets []plan.Target, ts *terrain.Set, imperial bool) error {
+	m := report.Map{Title: "Candidate sites for " + res.Station, Imperial: imperial,
+		Subtitle: fmt.Sprintf("numbered by rank, coloured by the worst margin over the required targets; %s dB needed", trimNumber(math.Round(res.NeededMarginDB*10)/10)),
+		Scale:    report.Scale{Levels: marginLevels(res.NeededMarginDB), Name: "worst margin", Unit: "dB"},
+		Credit:   "ITU-R P.526-16 delta-Bullington over the terrain"}
+	var pts []orb.Point
+	for _, s := range res.Sites {
+		m.Markers = append(m.Markers, report.Marker{At: orb.Point{s.Lon, s.Lat}, Label: s.Name, Kind: report.MarkerCandidate, Rank: s.Rank, Value: s.WorstMarginDB, HasValue: true})
+		pts = append(pts, orb.Point{s.Lon, s.Lat})
+	}
+	for _, mk := range targetMarkers(targets) {
+		m.Markers = append(m.Markers, mk)
+		pts = append(pts, mk.At)
+	}
+	m.Bounds = featureBounds(pts)
+	m.Terrain = terrainGrid(ts, m.Bounds, 1600)
+	return report.MapPNG(w, m)
 }
