@@ -505,3 +505,37 @@ func TestRouteAndSitesPNG(t *testing.T) {
 		})
 	}
 }
+
+// TestPlanCoverageOutputs checks that `plan -o DIR` writes the coverage
+// map the demo plan asks for (Valley Base, 12 km) as PNG and GeoTIFF, and
+// that the GeoTIFF is byte for byte the one `coverage` writes for the same
+// station and radius.
+func TestPlanCoverageOutputs(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	_, stderr, code := runCmd(t, "plan", demoPlanFile, "-o", dir)
+	if code != 0 {
+		t.Fatalf("code %d: %s", code, stderr)
+	}
+	if !strings.Contains(stderr, "coverage-valley-base.png, coverage-valley-base.tif") {
+		t.Errorf("stderr does not name the maps: %q", stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "coverage-valley-base.png"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := png.Decode(bytes.NewReader(b)); err != nil {
+		t.Fatal(err)
+	}
+	fromPlan, err := os.ReadFile(filepath.Join(dir, "coverage-valley-base.tif"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	single := filepath.Join(t.TempDir(), "single.tif")
+	coverageRun(t, single, "--plan", demoPlanFile, "--station", "valley base", "--radius", "12km")
+	if b, _ := os.ReadFile(single); !bytes.Equal(b, fromPlan) {
+		t.Error("plan -o and coverage give different GeoTIFFs for the same station and radius")
+	}
+	if fileSlug("  Team Ålder / 2 ") != "team-lder-2" || fileSlug("***") != "station" {
+		t.Errorf("fileSlug: %q %q", fileSlug("  Team Ålder / 2 "), fileSlug("***"))
+	}
+}

@@ -1,9 +1,11 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"slices"
 	"strings"
 
@@ -363,4 +365,84 @@ func sitesMap(w io.Writer, res *plan.SitesResult, targets []plan.Target, ts *ter
 	m.Bounds = featureBounds(pts)
 	m.Terrain = terrainGrid(ts, m.Bounds, 1600)
 	return report.MapPNG(w, m)
+}
+
+// writePlanCoverage computes the coverage maps the plan asks for
+// (`coverage:` under a station) and writes each as coverage-NAME.png and
+// coverage-NAME.tif into dir, NAME the station's name in lower case with
+// every run of other characters than letters and digits as one '-'. It
+// returns the files written.
+func writePlanCoverage(ctx context.Context, g *globals, p *plan.Plan, ts *terrain.Set, dir string) ([]string, error) {
+	var written []string
+	used := map[string]bool{}
+	cell, err := p.Walker("")
+	if err != nil {
+		return nil, err
+	}
+	for _, st := range p.Stations {
+		spec := st.Coverage
+		if spec == nil {
+			continue
+		}
+		su, err := planCoverageSetup(p, st, cell, p.FreqMHz, spec.Mode, plan.CoverageWorse)
+		if err != nil {
+			return nil, fmt.Errorf("%s:%d: stations: %s: coverage: %w", p.Path, spec.Line, st.Name, err)
+		}
+		req := &su.req
+		req.RadiusM, req.Mode, req.ResolutionM = spec.RadiusM, spec.Mode, spec.ResolutionM
+		req.Value = plan.ValueMargin
+		if spec.HasValue {
+			req.Value = spec.Value
+		}
+		levels := spec.Levels
+		if levels == nil {
+			levels = defaultLevels(spec.Mode, req.Value)
+		}
+		bar := newProgress(g, "coverage radials")
+		res, err := plan.CoverageMap(ctx, ts, *req, bar.update)
+		bar.done()
+		if err != nil {
+			return nil, fmt.Errorf("%s:%d: stations: %s: coverage: %w", p.Path, spec.Line, st.Name, err)
+		}
+		for _, w := range res.Warnings {
+			fmt.Fprintf(g.stderr, "mastlink: warning: %s: %s\n", st.Name, w)
+		}
+		v := &coverageView{res: res, mode: spec.Mode, value: req.Value, levels: levels, needDB: req.NeededMarginDB, budget: true,
+			siteName: st.Name, site: st.Pos, markers: su.markers, imperial: g.imperial()}
+		v.title, v.subtitle = coverageTitles(v, req, su.directions)
+		name := "coverage-" + fileSlug(st.Name)
+		for i := 2; used[name]; i++ {
+			name = fmt.Sprintf("coverage-%s-%d", fileSlug(st.Name), i)
+		}
+		used[name] = true
+		for _, kind := range []string{"png", "tif"} {
+			file := name + "." + kind
+			if err := writeCoverageFile(filepath.Join(dir, file), kind, p.InputFiles, v, ts); err != nil {
+				return nil, err
+			}
+			written = append(written, file)
+		}
+	}
+	return written, nil
+}
+
+// fileSlug is s in lower case with every run of characters other than
+// ASCII letters and digits as one '-' ("Valley Base" → "valley-base").
+func fileSlug(s string) string {
+	var b strings.Builder
+	dash := false
+	for _, r := range strings.ToLower(s) {
+		if r >= 'a' && r <= 'z' || r >= '0' && r <= '9' {
+			b.WriteRune(r)
+			dash = false
+		} else if !dash && b.Len() > 0 {
+			b.WriteByte('-')
+			dash = true
+		}
+	}
+	out := strings.TrimSuffix(b.String(), "-")
+	if out == "" {
+		return "station"
+	}
+	return out
 }
