@@ -2,6 +2,7 @@ package plan
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"testing"
 
@@ -87,4 +88,43 @@ func TestParseCoverageWords(t *testing.T) {
 	if v, err := ParseCoverageValue("MARGIN"); err != nil || v != ValueMargin {
 		t.Errorf("value: %v %v", v, err)
 	}
+}
+
+func FuzzParseCoverageLevels(f *testing.F) {
+	for _, s := range []string{"0,10,20", "-110dBm,-100dBm", "1", "10,0", "", ",", "1e400", "NaN"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		l, err := ParseCoverageLevels(s)
+		if err != nil {
+			return
+		}
+		if len(l) == 0 || len(l) > 12 {
+			t.Fatalf("%q gave %d levels", s, len(l))
+		}
+		for i := 1; i < len(l); i++ {
+			if !(l[i] > l[i-1]) {
+				t.Fatalf("%q gave levels not ascending: %v", s, l)
+			}
+		}
+	})
+}
+
+// ExampleCoverageBudgets prints the two ways of a coverage map around a
+// 25 W base with a 2.15 dBi antenna, reached by 5 W handhelds (invented
+// kit; no feedlines).
+func ExampleCoverageBudgets() {
+	base := End{Name: "base", Radio: Radio{PowerW: 25, SensitivityDBm: -119}, Antenna: Antenna{GainDBi: 2.15, HeightM: 9}}
+	hand := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: -119}, Antenna: Antenna{HeightM: 1.5}}
+	b, err := CoverageBudgets(base, hand, 146.55, CoverageWorse)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for i, x := range b {
+		fmt.Printf("way %d: EIRP %.1f dBm, receiving gain %.2f dB, sensitivity %.0f dBm\n", i+1, x.EIRPDBm, x.RxNetGainDB, x.RxSensitivityDBm)
+	}
+	// Output:
+	// way 1: EIRP 46.1 dBm, receiving gain 0.00 dB, sensitivity -119 dBm
+	// way 2: EIRP 37.0 dBm, receiving gain 2.15 dB, sensitivity -119 dBm
 }
