@@ -40,7 +40,9 @@ waypoint with the same kit.
 
 -o writes F.geojson (the track in covered and uncovered pieces), F.gpx (the
 track with waypoints at the ends of dead stretches and at the best spots) or
-F.csv (every checked point).`,
+F.csv (every checked point).
+
+` + itmHelp,
 		Example: "  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml -o hike-coverage.gpx\n" +
 			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
@@ -66,6 +68,7 @@ func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) e
 	var track gpx.Track
 	return runReach(ctx, g, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
 		outKinds: []string{"geojson", "gpx", "csv"},
+		warnings: func(res *plan.RouteResult) []string { return res.Warnings },
 		check: func(gf *gpx.File) error {
 			track, err = pickTrack(g, gf, o.track)
 			return err

@@ -32,7 +32,9 @@ comes from --power, --gain, --height, --rx-sens … and the targets from
 --targets, each a waypoint with the same kit.
 
 -o F.geojson writes the candidates as points with their figures, and
-F.csv the ranking.`,
+F.csv the ranking.
+
+` + itmHelp,
 		Example: "  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml -o sites.geojson",
 		Args: cobra.ExactArgs(1),
@@ -48,6 +50,7 @@ func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) e
 	return runReach(ctx, g, o, args[0], reachRun[*plan.SitesResult]{
 		forSites: true,
 		outKinds: []string{"geojson", "csv"},
+		warnings: func(res *plan.SitesResult) []string { return res.Warnings },
 		check: func(gf *gpx.File) error {
 			if len(gf.Waypoints) == 0 {
 				return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", gf.Path)
