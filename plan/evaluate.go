@@ -53,9 +53,14 @@ type PlanResult struct {
 type Progress func(done, total int)
 
 // NewEnv returns the link environment a plan asks for over the given
-// terrain (nil for a smooth earth).
+// terrain (nil for a smooth earth). With a model that gives its own
+// variability (Requirement.ByModel) there is no σ-based probability.
 func (p *Plan) NewEnv(ts *terrain.Set) *Env {
-	return &Env{Terrain: ts, Model: p.Model, K: p.K, Polarization: p.Polarization, Ground: p.Ground, SigmaDB: p.Require.SigmaDB}
+	sigma := p.Require.SigmaDB
+	if p.Require.ByModel {
+		sigma = 0
+	}
+	return &Env{Terrain: ts, Model: p.Model, K: p.K, Polarization: p.Polarization, Ground: p.Ground, SigmaDB: sigma}
 }
 
 // EvaluatePlan evaluates every station against every target in both

@@ -205,7 +205,7 @@ func (p *planParser) paths(n *yaml.Node, field string) ([]string, error) {
 	return []string{s}, nil
 }
 
-var topFields = []string{"name", "frequency", "terrain", "waypoints", "require", "k", "model", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites"}
+var topFields = []string{"name", "frequency", "terrain", "waypoints", "require", "k", "model", "itm", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites"}
 
 func (p *planParser) parse(data []byte) (*Plan, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
@@ -297,6 +297,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		if pl.Ground, err = ParseGround(s); err != nil {
 			return nil, p.wrap(n, "ground", err)
 		}
+	}
+	if err := p.itm(f); err != nil {
+		return nil, err
 	}
 	def := kit{antenna: Antenna{GainDBi: 0, HeightM: 1.5}} // a handheld at chest height; radios must be given
 	if n := f["defaults"]; n != nil {
@@ -422,6 +425,83 @@ func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 	}
 	o := RequirementOptions{Margin: text["margin"], Reliability: text["reliability"], Sigma: text["sigma"]}
 	return p.options(n, "require", f, o.Apply(r))
+}
+
+// itmKeys are the keys of a plan's itm: section: the ITMOptions keys and
+// the two variability switches.
+var itmKeys = []string{ITMOptClimate, ITMOptRefractivity, ITMOptSurfaceRefractivity, ITMOptPermittivity, ITMOptConductivity,
+	ITMOptVariability, ITMOptTime, ITMOptLocation, ITMOptSituation, ITMOptConfidence, "location_variability", "situation_variability"}
+
+// itm reads the itm: section (with ITMOptions, the parser the commands use
+// too) into the plan's Longley–Rice ITM model, and makes the requirement
+// and the model agree (ITMRequirement). f is the top level. With model:
+// itm the plan's k, ground and require.sigma are refused: the ITM takes
+// the earth's curvature from the refractivity, the ground from its own
+// permittivity and conductivity, and the location variability is its own.
+func (p *planParser) itm(f map[string]*yaml.Node) error {
+	pl := p.plan
+	m, isITM := pl.Model.(propagation.ITM)
+	n := f["itm"]
+	if !isITM {
+		if n != nil {
+			return p.errf(n, "itm", "the Longley–Rice ITM settings need model: itm (the model is %s)", pl.Model.Name())
+		}
+		return nil
+	}
+	for _, c := range []struct{ key, why string }{
+		{"k", "the ITM takes the earth's curvature from its refractivity (itm: {refractivity: 301})"},
+		{"ground", "give the ITM's ground as itm: {permittivity: 15, conductivity: 0.005} (sea water: 80 and 5)"},
+	} {
+		if v := f[c.key]; v != nil {
+			return p.errf(v, c.key, "not used with model: itm: %s; remove it", c.why)
+		}
+	}
+	var rf map[string]*yaml.Node
+	if r := f["require"]; r != nil {
+		rf, _ = p.fields(r, "require", "margin", "reliability", "sigma") // checked by require
+		if v := rf["sigma"]; v != nil {
+			return p.errf(v, "require.sigma", "not used with model: itm: the ITM gives the location variability itself, and require.reliability becomes its reliability; remove sigma")
+		}
+	}
+	m.Polarization = pl.Polarization
+	if n != nil {
+		sf, err := p.fields(n, "itm", itmKeys...)
+		if err != nil {
+			return err
+		}
+		text, err := p.texts(sf, "itm")
+		if err != nil {
+			return err
+		}
+		o := ITMOptions{Climate: text[ITMOptClimate], Refractivity: text[ITMOptRefractivity], SurfaceRefractivity: text[ITMOptSurfaceRefractivity],
+			Permittivity: text[ITMOptPermittivity], Conductivity: text[ITMOptConductivity], Variability: text[ITMOptVariability],
+			Time: text[ITMOptTime], Location: text[ITMOptLocation], Situation: text[ITMOptSituation], Confidence: text[ITMOptConfidence]}
+		for _, sw := range []struct {
+			key string
+			dst *bool
+		}{{"location_variability", &o.NoLocationVariability}, {"situation_variability", &o.NoSituationVariability}} {
+			if v := sf[sw.key]; v != nil {
+				c, err := p.choice(v, "itm."+sw.key, "yes", "no", "true", "false")
+				if err != nil {
+					return err
+				}
+				*sw.dst = c == "no" || c == "false"
+			}
+		}
+		if err := p.options(n, "itm", sf, o.Apply(&m)); err != nil {
+			return err
+		}
+	}
+	model, err := ITMRequirement(m, &pl.Require)
+	if err != nil {
+		at := f["require"]
+		if v := rf["reliability"]; v != nil {
+			at = v
+		}
+		return p.wrap(at, "require.reliability", errors.Unwrap(err))
+	}
+	pl.Model = model
+	return nil
 }
 
 // texts returns the scalar text of every value in f, by key.

@@ -12,14 +12,19 @@ type Requirement struct {
 	MarginDB    float64 // fade margin over the receiver sensitivity, dB
 	Reliability float64 // fraction of locations, 0 when not asked
 	SigmaDB     float64 // location variability σ used with Reliability, dB
+	// ByModel is set when the propagation model gives the variability
+	// itself (the Longley–Rice ITM, see ITMRequirement): the loss is then
+	// already the loss at Reliability, so no σ margin is added.
+	ByModel bool
 }
 
 // NeededMarginDB returns the margin a link needs: the larger of MarginDB and
 // the margin that gives Reliability with a log-normal location variability
-// of SigmaDB (ITU-R P.1812-8 §4.8, eq. 69: M = σ·I(1 − p)).
+// of SigmaDB (ITU-R P.1812-8 §4.8, eq. 69: M = σ·I(1 − p)). With ByModel
+// it is MarginDB: the model's loss already holds the reliability.
 func (r Requirement) NeededMarginDB() float64 {
 	m := r.MarginDB
-	if r.Reliability > 0 && r.SigmaDB > 0 {
+	if r.Reliability > 0 && r.SigmaDB > 0 && !r.ByModel {
 		if need := propagation.MarginForReliabilityDB(r.Reliability, r.SigmaDB); need > m {
 			m = need
 		}

@@ -120,8 +120,9 @@ type RouteResult struct {
 	Gaps            []RouteGap    `json:"gaps"` // where some required target is out of reach
 	BestSpots       []BestSpot    `json:"best_spots"`
 	Points          []RoutePoint  `json:"points"`
-	Paths           int           `json:"paths"`   // terrain profiles extracted
-	Terrain         string        `json:"terrain"` // "terrain" or "smooth earth" (no elevation data on any path)
+	Paths           int           `json:"paths"`              // terrain profiles extracted
+	Terrain         string        `json:"terrain"`            // "terrain" or "smooth earth" (no elevation data on any path)
+	Warnings        []string      `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
 	line            *trackLine    // for positions between points
 }
 
@@ -200,6 +201,7 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	// then follow nearly the same path, so the tile rows they read stay in
 	// the processor's cache.
 	smooth := make([]bool, n*nt)
+	warns := make([]propagation.ITMWarnings, n*nt)
 	err = runParallel(ctx, n*nt, progress, func(g *Geometry, job int) error {
 		t, i := job/n, job%n
 		p := &res.Points[i]
@@ -212,12 +214,14 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 			p.ElevationM = g.Profile.ElevM[0]
 		}
 		smooth[job] = g.Source == "smooth earth"
+		warns[job] = g.modelWarn
 		p.MarginsDB[t] = m
 		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
+	res.Warnings = itmWarningLines(warns)
 	res.Terrain = "smooth earth"
 	for _, s := range smooth {
 		if !s {

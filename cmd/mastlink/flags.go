@@ -15,18 +15,21 @@ import (
 )
 
 // envFlags are the radio-climate and model flags of the commands that
-// compute paths: link, route and sites.
+// compute paths: link, route, sites and mast. The Longley–Rice ITM's own
+// settings are a group of their own (itmflags.go).
 type envFlags struct {
 	k, model, polarization, ground, step string
+	itm                                  itmFlags
 }
 
 func addEnvFlags(cmd *cobra.Command, e *envFlags) {
 	f := cmd.Flags()
 	f.StringVar(&e.k, "k", "4/3", "effective earth-radius factor")
-	f.StringVar(&e.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington) or free-space")
+	f.StringVar(&e.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington), free-space, or itm (Longley–Rice ITM 1.2.2)")
 	f.StringVar(&e.polarization, "polarization", "vertical", "vertical or horizontal")
 	f.StringVar(&e.ground, "ground", "land", "ground constants: land or sea (ITU-R P.1812)")
 	f.StringVar(&e.step, "step", "", "profile sample spacing [m] (default: the elevation data's spacing)")
+	addITMFlags(cmd, &e.itm)
 }
 
 // env builds the link environment from the flags (terrain not yet set).
@@ -44,6 +47,9 @@ func (e *envFlags) env() (*plan.Env, error) {
 	}
 	if env.Ground, err = plan.ParseGround(e.ground); err != nil {
 		return nil, usagef("--ground: %v", err)
+	}
+	if env.Model, err = e.itm.model(env.Model, env.Polarization); err != nil {
+		return nil, err
 	}
 	if env.StepM, err = e.stepM(); err != nil {
 		return nil, err

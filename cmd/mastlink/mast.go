@@ -67,7 +67,8 @@ and do not raise them in storms.`))
 type mastOptions struct {
 	planFile, station           string
 	heights, cables, run, slack string
-	from, to, freq, k           string
+	from, to, freq              string
+	envFlags                                            // --k, --model (and the ITM's settings), --polarization, --ground, --step
 	station0, target            endFlags                // the station's kit (power, gain, sens, swr, connectors) and the target's (--to-…)
 	req                         plan.RequirementOptions // --margin, --reliability, --sigma
 	points                      pointResolver
@@ -87,7 +88,9 @@ cable at that height (cable mass per metre from the catalog).
 With --plan the station, targets and requirement come from a plan file
 (its mast section gives defaults for the flags). Without it, one station
 (--from, with link's station flags) and one simplex target (--to, with the
---to- flags) are checked both ways on --freq.`,
+--to- flags) are checked both ways on --freq.
+
+` + itmHelp,
 		Example: "  mastlink mast --plan examples/valley/plan.yaml\n" +
 			"  mastlink mast --plan examples/valley/plan.yaml --heights '2m..8m step 0.5m' --cables RG-58,RG-8X\n" +
 			"  mastlink mast --dem examples/terrain --waypoints examples/valley/points.gpx --from \"Marrowind Bend\" \\\n" +
@@ -122,7 +125,7 @@ With --plan the station, targets and requirement come from a plan file
 	f.StringVar(&tg.gain, "to-gain", "0dBi", "target antenna gain [dBi]")
 	f.StringVar(&tg.height, "to-height", "1.5m", "target antenna height [m]")
 	addSensFlag(cmd, tg, "to-sens", "target receiver sensitivity [dBm]")
-	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
+	addEnvFlags(cmd, &o.envFlags)
 	addWaypointsFlag(cmd, &o.points)
 	return cmd
 }
@@ -140,6 +143,11 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		inputs  []string
 	)
 	if o.planFile != "" {
+		for _, name := range append([]string{"k", "model", "polarization", "ground"}, itmFlagNames...) {
+			if o.itm.changed(name) {
+				return usagef("--%s: with --plan the model comes from the plan file; edit it, or drop --plan", name)
+			}
+		}
 		p, e, err := loadPlan(g, o.planFile)
 		if err != nil {
 			return err
@@ -148,6 +156,9 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 			return usagef("--station: %v", err)
 		}
 		env, targets, req, inputs = e, p.Targets, p.Require, p.InputFiles
+		if env.StepM, err = o.stepM(); err != nil {
+			return err
+		}
 		if p.Mast != nil {
 			sweep = *p.Mast
 		}
@@ -155,11 +166,10 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if o.from == "" || o.to == "" || o.freq == "" {
 			return usagef("give --plan FILE, or --from, --to and --freq")
 		}
-		k, err := quantity("k", o.k, units.ParseKFactor)
-		if err != nil {
+		var err error
+		if env, err = o.envFlags.env(); err != nil {
 			return err
 		}
-		env = &plan.Env{K: k}
 		freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 		if err != nil {
 			return err
@@ -233,6 +243,17 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 	if err := ro.Apply(&req); err != nil {
 		return optionUsage(err)
 	}
+	if o.planFile == "" {
+		if err := o.itm.requirement(env, &req); err != nil {
+			return err
+		}
+	} else if o.req.Reliability != "" && req.ByModel {
+		// The plan's ITM takes the reliability of --reliability.
+		var err error
+		if env.Model, err = plan.ITMRequirement(env.Model, &req); err != nil {
+			return optionUsage(err)
+		}
+	}
 	if err := ctx.Err(); err != nil {
 		return err
 	}
@@ -241,6 +262,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		return err
 	}
 	g.warnMissing(env.Terrain)
+	g.warn(res.Warnings)
 	if g.out != "" {
 		kind, err := outputKind(g.out, "csv", "json")
 		if err != nil {

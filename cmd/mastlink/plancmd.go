@@ -87,6 +87,7 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		}
 	}
 	res.Warnings = append(res.Warnings, planWarnings(res)...)
+	res.Warnings = append(res.Warnings, planModelWarnings(res)...)
 	for _, w := range res.Warnings {
 		fmt.Fprintf(g.stderr, "mastlink: warning: %s\n", w)
 	}
@@ -104,6 +105,28 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 	}
 	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
 		func(w io.Writer) error { renderPlanText(w, p, env, res, g.imperial()); return nil })
+}
+
+// planModelWarnings gathers the model's warnings (Longley–Rice ITM) of the
+// plan's links, mast sweep, routes and sites.
+func planModelWarnings(res *plan.PlanResult) []string {
+	out := linkModelWarnings(res.Links)
+	if res.Mast != nil {
+		for _, w := range res.Mast.Warnings {
+			out = append(out, "mast sweep: "+w)
+		}
+	}
+	for _, r := range res.Routes {
+		for _, w := range r.Warnings {
+			out = append(out, fmt.Sprintf("route %s: %s", r.Name, w))
+		}
+	}
+	if res.Sites != nil {
+		for _, w := range res.Sites.Warnings {
+			out = append(out, "sites: "+w)
+		}
+	}
+	return out
 }
 
 // planWarnings points out what a briefing should not miss.
@@ -137,7 +160,9 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	fmt.Fprintln(w, title)
 	fmt.Fprintln(w, strings.Repeat("=", len([]rune(title))))
 	req := fmt.Sprintf("%.1f dB of margin on every required link", res.NeededMarginDB)
-	if p.Require.Reliability > 0 {
+	if p.Require.ByModel {
+		req = itmRequirementText(p.Require)
+	} else if p.Require.Reliability > 0 {
 		req += fmt.Sprintf(" (asked: %.1f dB, and %.0f%% of locations with σ %.1f dB)", p.Require.MarginDB, 100*p.Require.Reliability, p.Require.SigmaDB)
 	}
 	fmt.Fprintf(w, "Requirement: %s\n", req)
@@ -145,7 +170,11 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	if env.Terrain != nil {
 		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), strings.Join(relPaths(p.Terrain), ", "))
 	}
-	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
+	if _, ok := p.Model.(propagation.ITM); ok {
+		fmt.Fprintf(w, "Terrain: %s; %s\n\n", terr, modelLine(p.Model))
+	} else {
+		fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
+	}
 
 	for _, s := range res.Stations {
 		cable := "no feedline given"
@@ -156,7 +185,12 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			units.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), units.FormatHeight(s.HeightM, im), cable)
 		fmt.Fprintf(w, "  reaches %d of %d required targets in both directions\n\n", s.Reached, s.Of)
 		t := newTable(w)
-		t.row("  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict")
+		head := []string{"  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict"}
+		_, itm := p.Model.(propagation.ITM)
+		if itm {
+			head = append(head, "ITM mode")
+		}
+		t.row(head...)
 		for _, l := range res.Links {
 			if l.From != s.Name && l.To != s.Name {
 				continue
@@ -170,8 +204,12 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			if l.Optional {
 				target += " (optional)"
 			}
-			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
-				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
+			row := []string{"  " + target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l)}
+			if itm && l.ITM != nil {
+				row = append(row, l.ITM.Mode)
+			}
+			t.row(row...)
 		}
 		t.flush()
 		fmt.Fprintln(w)

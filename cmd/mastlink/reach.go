@@ -40,7 +40,7 @@ func addReachFlags(cmd *cobra.Command, o *reachOptions, kitName string) {
 	f.StringVar(&o.req.Reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: raises the margin needed")
 	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
 	addEnvFlags(cmd, &o.envFlags)
-	o.kitFlags = []string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens", "margin", "reliability", "sigma", "k", "model", "polarization", "ground"}
+	o.kitFlags = append([]string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens", "margin", "reliability", "sigma", "k", "model", "polarization", "ground"}, itmFlagNames...)
 }
 
 // reach is everything a route or a site ranking needs, resolved.
@@ -105,6 +105,9 @@ func (o *reachOptions) resolve(g *globals, forSites bool) (*reach, error) {
 		var req plan.Requirement
 		if err := o.req.Apply(&req); err != nil {
 			return nil, optionUsage(err)
+		}
+		if err := o.envFlags.itm.requirement(r.env, &req); err != nil {
+			return nil, err
 		}
 		r.needDB = req.NeededMarginDB()
 		if o.targets == "" {
@@ -216,6 +219,8 @@ type reachRun[R any] struct {
 	write func(kind string, inputs []string, res R) error
 	// csv and text render the result on stdout.
 	csv, text func(w io.Writer, res R) error
+	// warnings are the result's warnings (the model's), for stderr.
+	warnings func(res R) []string
 }
 
 // runReach is the pipeline of route and sites: check the flags and -o,
@@ -257,6 +262,7 @@ func runReach[R any](ctx context.Context, g *globals, o *reachOptions, file stri
 		return err
 	}
 	g.warnMissing(r.env.Terrain)
+	g.warn(run.warnings(res))
 	if outKind != "" {
 		if err := run.write(outKind, inputs, res); err != nil {
 			return err

@@ -42,7 +42,9 @@ waypoint with the same kit.
 track with waypoints at the ends of dead stretches and at the best spots) or
 F.csv (every checked point) or F.png (a map: the track coloured by the
 worst margin, the dead stretches, the best spots to call from and the
-targets, over a shaded relief).`,
+targets, over a shaded relief).
+
+` + itmHelp,
 		Example: "  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml -o hike-coverage.gpx\n" +
 			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
@@ -69,6 +71,7 @@ func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) e
 	var rr *reach
 	return runReach(ctx, g, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
 		outKinds: []string{"geojson", "gpx", "csv", "png"},
+		warnings: func(res *plan.RouteResult) []string { return res.Warnings },
 		check: func(gf *gpx.File) error {
 			track, err = pickTrack(g, gf, o.track)
 			return err

@@ -33,7 +33,9 @@ comes from --power, --gain, --height, --rx-sens … and the targets from
 
 -o F.geojson writes the candidates as points with their figures, F.csv
 the ranking, and F.png a map of the candidates numbered by rank and
-coloured by their worst margin, with the targets, over a shaded relief.`,
+coloured by their worst margin, with the targets, over a shaded relief.
+
+` + itmHelp,
 		Example: "  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml -o sites.geojson",
 		Args: cobra.ExactArgs(1),
@@ -50,6 +52,7 @@ func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) e
 	return runReach(ctx, g, o, args[0], reachRun[*plan.SitesResult]{
 		forSites: true,
 		outKinds: []string{"geojson", "csv", "png"},
+		warnings: func(res *plan.SitesResult) []string { return res.Warnings },
 		check: func(gf *gpx.File) error {
 			if len(gf.Waypoints) == 0 {
 				return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", gf.Path)
