@@ -54,9 +54,9 @@ func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	ts, err := g.openTerrain(p.Terrain...)
+	ts, err := g.openTerrain(terrainSource{paths: p.Terrain, where: fmt.Sprintf("%s:%d: terrain", path, p.TerrainAt)})
 	if err != nil {
-		return nil, nil, fmt.Errorf("%s:%d: terrain: %w", path, p.TerrainAt, err)
+		return nil, nil, err
 	}
 	if ts == nil {
 		g.noticeSmoothEarth()
@@ -81,7 +81,11 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 	}
 	if env.Terrain != nil {
 		if m := env.Terrain.Missing(); len(m) > 0 {
-			w := fmt.Sprintf("no elevation data for %s: the ground there is taken as 0 m; obtain these tiles and add them to %s:%d (terrain)", strings.Join(m, ", "), path, p.TerrainAt)
+			where := "--dem"
+			if len(p.Terrain) > 0 {
+				where = fmt.Sprintf("%s:%d (terrain)", path, p.TerrainAt)
+			}
+			w := fmt.Sprintf("no elevation data for %s: the ground there is taken as 0 m; obtain these tiles and add them to %s", strings.Join(m, ", "), where)
 			res.Warnings = append(res.Warnings, w)
 		}
 	}
@@ -95,7 +99,20 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		}
 	}
 	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
-		func(w io.Writer) error { renderPlanText(w, p, env, res, g.imperial()); return nil })
+		func(w io.Writer) error { renderPlanText(w, p, env, terrainFrom(g, p), res, g.imperial()); return nil })
+}
+
+// terrainFrom names where the elevation data came from: the --dem paths
+// and the plan's terrain: line.
+func terrainFrom(g *globals, p *plan.Plan) string {
+	var parts []string
+	if d := g.demPaths(); len(d) > 0 {
+		parts = append(parts, strings.Join(d, ", ")+" (--dem)")
+	}
+	if len(p.Terrain) > 0 {
+		parts = append(parts, strings.Join(relPaths(p.Terrain), ", "))
+	}
+	return strings.Join(parts, " and ")
 }
 
 // planWarnings points out what a briefing should not miss.
@@ -121,7 +138,7 @@ func writeLinksCSV(w io.Writer, links []plan.LinkResult) error {
 }
 
 // renderPlanText writes the plan result as a briefing.
-func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResult, im bool) {
+func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string, res *plan.PlanResult, im bool) {
 	title := res.Name
 	if title == "" {
 		title = filepath.Base(p.Path)
@@ -129,13 +146,16 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	fmt.Fprintln(w, title)
 	fmt.Fprintln(w, strings.Repeat("=", len([]rune(title))))
 	req := fmt.Sprintf("%.1f dB of margin on every required link", res.NeededMarginDB)
+	if res.DefaultMargin {
+		req = fmt.Sprintf("%.1f dB of margin (default; the plan's require: asks for none)", res.NeededMarginDB)
+	}
 	if p.Require.Reliability > 0 {
 		req += fmt.Sprintf(" (asked: %.1f dB, and %.0f%% of locations with σ %.1f dB)", p.Require.MarginDB, 100*p.Require.Reliability, p.Require.SigmaDB)
 	}
 	fmt.Fprintf(w, "Requirement: %s\n", req)
 	terr := "smooth earth (no elevation data)"
 	if env.Terrain != nil {
-		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), strings.Join(relPaths(p.Terrain), ", "))
+		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), terrainFrom)
 	}
 	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
 
@@ -146,7 +166,11 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 		}
 		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, units.FormatHeight(s.GroundM, im),
 			units.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), units.FormatHeight(s.HeightM, im), cable)
-		fmt.Fprintf(w, "  reaches %d of %d required targets in both directions\n\n", s.Reached, s.Of)
+		what := "required targets"
+		if len(res.Stations) > 1 {
+			what = "required targets and other stations"
+		}
+		fmt.Fprintf(w, "  reaches %d of %d %s in both directions\n\n", s.Reached, s.Of, what)
 		t := newTable(w)
 		t.row("  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict")
 		for _, l := range res.Links {
@@ -168,7 +192,12 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 		t.flush()
 		fmt.Fprintln(w)
 	}
-	if res.Mast != nil {
+	switch {
+	case len(res.Masts) > 0:
+		for _, m := range res.Masts {
+			renderMastText(w, m, im)
+		}
+	case res.Mast != nil:
 		renderMastText(w, res.Mast, im)
 	}
 	renderPlanRoutesAndSites(w, res, im)
