@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"io"
@@ -269,16 +270,75 @@ func relPaths(ps []string) []string {
 }
 
 // writePlanOutputs writes links.geojson, keepout.geojson, plan.gpx and
-// links.csv into the directory g.out.
+// links.csv (and route-N.geojson, sites.geojson) into the directory g.out.
+// Every file is rendered and every name checked against the plan's inputs
+// before the first is written, so a refusal leaves nothing half done.
 func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 	dir := g.out
 	if ext := extension(dir); ext != "" {
 		return usagef("-o: %q: plan writes several files; give a directory", dir)
 	}
+	if st, err := os.Stat(dir); err == nil && !st.IsDir() {
+		return usagef("-o: %s is a file; plan writes several files, give a directory", dir)
+	}
+	type output struct {
+		name   string
+		render func(w io.Writer) error
+	}
+	outs := []output{
+		{"links.geojson", func(w io.Writer) error { return writeJSON(w, linksGeoJSON(p, res)) }},
+		{"keepout.geojson", func(w io.Writer) error {
+			var sites []keepoutSite
+			for _, e := range res.Exposure {
+				sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
+			}
+			fc, err := keepoutGeoJSON(sites)
+			if err != nil {
+				return err
+			}
+			return writeJSON(w, fc)
+		}},
+		{"plan.gpx", func(w io.Writer) error { return writePlanGPX(w, p, res) }},
+		{"links.csv", func(w io.Writer) error { return writeLinksCSV(w, res.Links) }},
+	}
+	for i := range res.Routes {
+		r := &res.Routes[i]
+		outs = append(outs, output{fmt.Sprintf("route-%d.geojson", i+1), func(w io.Writer) error { return writeJSON(w, routeGeoJSON(r)) }})
+	}
+	if res.Sites != nil {
+		outs = append(outs, output{"sites.geojson", func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res.Sites)) }})
+	}
+	data := make([][]byte, len(outs))
+	for i, o := range outs {
+		path := filepath.Join(dir, o.name)
+		if err := checkNotInput("-o", path, p.InputFiles); err != nil {
+			return usagef("-o: %s would be written over %s, an input of this plan; choose another directory", dir, path)
+		}
+		if st, err := os.Stat(path); err == nil && st.IsDir() {
+			return usagef("-o: %s is a directory; plan writes a file of that name there, choose another directory", path)
+		}
+		var buf bytes.Buffer
+		if err := o.render(&buf); err != nil {
+			return fmt.Errorf("%s: %w", o.name, err)
+		}
+		data[i] = buf.Bytes()
+	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("-o: %w", err)
 	}
-	inputs := p.InputFiles
+	written := make([]string, len(outs))
+	for i, o := range outs {
+		if err := writeFileAtomic(filepath.Join(dir, o.name), data[i], p.InputFiles); err != nil {
+			return err
+		}
+		written[i] = o.name
+	}
+	fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(written, ", "), dir)
+	return nil
+}
+
+// linksGeoJSON is every link of the plan as a line with its figures.
+func linksGeoJSON(p *plan.Plan, res *plan.PlanResult) *geojson.FeatureCollection {
 	fc := geojson.NewFeatureCollection()
 	for _, l := range res.Links {
 		a, b := endpoints(p, l)
@@ -301,39 +361,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 		f.Properties["optional"] = l.Optional
 		fc.Append(f)
 	}
-	if err := renderTo(filepath.Join(dir, "links.geojson"), inputs, func(w io.Writer) error { return writeJSON(w, fc) }); err != nil {
-		return err
-	}
-	var sites []keepoutSite
-	for _, e := range res.Exposure {
-		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
-	}
-	if err := writeKeepout(filepath.Join(dir, "keepout.geojson"), inputs, sites); err != nil {
-		return err
-	}
-	if err := writePlanGPX(filepath.Join(dir, "plan.gpx"), inputs, p, res); err != nil {
-		return err
-	}
-	if err := renderTo(filepath.Join(dir, "links.csv"), inputs, func(w io.Writer) error { return writeLinksCSV(w, res.Links) }); err != nil {
-		return err
-	}
-	written := []string{"links.geojson", "keepout.geojson", "plan.gpx", "links.csv"}
-	for i := range res.Routes {
-		r := &res.Routes[i]
-		name := fmt.Sprintf("route-%d.geojson", i+1)
-		if err := renderTo(filepath.Join(dir, name), inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(r)) }); err != nil {
-			return err
-		}
-		written = append(written, name)
-	}
-	if res.Sites != nil {
-		if err := renderTo(filepath.Join(dir, "sites.geojson"), inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res.Sites)) }); err != nil {
-			return err
-		}
-		written = append(written, "sites.geojson")
-	}
-	fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(written, ", "), dir)
-	return nil
+	return fc
 }
 
 // endpoints finds the positions of a link's two ends in the plan.
@@ -350,7 +378,7 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 
 // writePlanGPX writes the plan's places as waypoints annotated with their
 // worst margins, for a GPS.
-func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResult) error {
+func writePlanGPX(w io.Writer, p *plan.Plan, res *plan.PlanResult) error {
 	now := time.Now().UTC().Truncate(time.Second)
 	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
@@ -376,5 +404,6 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 	if err != nil {
 		return err
 	}
-	return writeFileAtomic(path, b, inputs)
+	_, err = w.Write(b)
+	return err
 }
