@@ -10,6 +10,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
@@ -143,7 +144,7 @@ func describe(n *yaml.Node) string {
 		if n.Tag == "!!null" {
 			return "nothing"
 		}
-		return fmt.Sprintf("%q", n.Value)
+		return quoteClip(n.Value)
 	case yaml.AliasNode:
 		return "an alias"
 	}
@@ -211,6 +212,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
 		return nil, p.errf(nil, "", "the plan is empty (start from examples/valley/plan.yaml)")
 	}
+	if looksBinary(data) {
+		return nil, p.errf(nil, "", "not a YAML plan: the file holds binary data (start from examples/valley/plan.yaml)")
+	}
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
 		return nil, p.yamlError(err)
@@ -219,6 +223,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		return nil, p.errf(nil, "", "the plan is empty (start from examples/valley/plan.yaml)")
 	}
 	root := doc.Content[0]
+	if root.Kind != yaml.MappingNode {
+		return nil, p.errf(root, "", "not a YAML plan: expected fields such as name, frequency, stations and targets, found %s (start from examples/valley/plan.yaml)", describe(root))
+	}
 	f, err := p.fields(root, "", topFields...)
 	if err != nil {
 		return nil, err
@@ -226,7 +233,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 	pl := &Plan{Path: p.file, K: propagation.DefaultKFactor, Model: propagation.Terrain{}, Polarization: propagation.Vertical,
 		Ground: propagation.Land, InputFiles: []string{p.file}}
 	p.plan = pl
-	pl.Require.SigmaDB = DefaultSigmaDB
+	pl.Require = DefaultRequirement() // unless require: asks for something
 
 	if n := f["name"]; n != nil {
 		if pl.Name, err = p.scalar(n, "name"); err != nil {
@@ -319,6 +326,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 		pl.Stations = append(pl.Stations, st)
 	}
+	if len(pl.Stations) > 1 && pl.FreqMHz == 0 {
+		return nil, p.errf(n, "frequency", "missing: with %d stations give frequency: at the top of the plan (the stations are checked against each other on it)", len(pl.Stations))
+	}
 	if n := f["targets"]; n != nil {
 		if n.Kind != yaml.SequenceNode {
 			return nil, p.errf(n, "targets", "expected a list of targets, found %s", describe(n))
@@ -388,7 +398,71 @@ func (p *planParser) yamlError(err error) error {
 			msg = strings.TrimLeft(strings.TrimPrefix(rest[j:], ":"), " ")
 		}
 	}
-	return &PlanError{File: p.file, Line: line, Err: fmt.Errorf("not valid YAML: %s", firstLineOf(msg))}
+	return &PlanError{File: p.file, Line: line, Err: fmt.Errorf("not a YAML plan: %s", clipQuoted(firstLineOf(msg)))}
+}
+
+// maxEcho is the most characters of the user's input an error repeats.
+const maxEcho = 60
+
+// clip shortens s to maxEcho characters, ending it with "…" when cut.
+func clip(s string) string {
+	r := []rune(s)
+	if len(r) <= maxEcho {
+		return s
+	}
+	return string(r[:maxEcho-1]) + "…"
+}
+
+// quoteClip quotes s for an error message, at most maxEcho characters of
+// it.
+func quoteClip(s string) string { return strconv.Quote(clip(s)) }
+
+// clipQuoted shortens the input the YAML parser echoes between backquotes
+// in its messages.
+func clipQuoted(msg string) string {
+	var b strings.Builder
+	for {
+		i := strings.IndexByte(msg, '`')
+		if i < 0 {
+			break
+		}
+		j := strings.IndexByte(msg[i+1:], '`')
+		if j < 0 {
+			break
+		}
+		b.WriteString(msg[:i+1])
+		b.WriteString(strings.Trim(strconv.Quote(clip(msg[i+1:i+1+j])), `"`))
+		b.WriteByte('`')
+		msg = msg[i+1+j+1:]
+	}
+	b.WriteString(msg)
+	return b.String()
+}
+
+// looksBinary reports whether data looks like something other than text: a NUL
+// byte, invalid UTF-8, or control characters other than tab, CR and LF in
+// its first 8 KiB.
+func looksBinary(data []byte) bool {
+	head := data
+	if len(head) > 8<<10 {
+		head = head[:8<<10]
+	}
+	if bytes.IndexByte(head, 0) >= 0 {
+		return true
+	}
+	whole := head
+	if len(head) < len(data) {
+		whole = head[:len(head)-utf8.UTFMax] // a character may be cut at the end
+	}
+	if !utf8.Valid(whole) {
+		return true
+	}
+	for _, c := range head {
+		if c < 0x20 && c != '\t' && c != '\n' && c != '\r' {
+			return true
+		}
+	}
+	return false
 }
 
 func firstLineOf(s string) string {

@@ -16,6 +16,21 @@ type Requirement struct {
 	// itself (the Longley–Rice ITM, see ITMRequirement): the loss is then
 	// already the loss at Reliability, so no σ margin is added.
 	ByModel bool
+	// Default is true when nothing was asked (neither a margin nor a
+	// reliability) and MarginDB is DefaultMarginDB.
+	Default bool
+}
+
+// DefaultMarginDB is the fade margin in dB every required link must meet
+// when neither a margin nor a reliability is asked for, by the plan file
+// and by every command alike: 10 dB (common practice for portable VHF/UHF
+// links, enough for the fading a few metres of movement gives).
+const DefaultMarginDB = 10.0
+
+// DefaultRequirement is the requirement when nothing is asked:
+// DefaultMarginDB of margin, σ DefaultSigmaDB, no reliability.
+func DefaultRequirement() Requirement {
+	return Requirement{MarginDB: DefaultMarginDB, SigmaDB: DefaultSigmaDB, Default: true}
 }
 
 // NeededMarginDB returns the margin a link needs: the larger of MarginDB and
@@ -47,6 +62,11 @@ type RequirementOptions struct {
 	Sigma       string // location variability σ in dB, 0 or more; more than 0 with a reliability
 }
 
+// Asked reports whether o asks for a margin or a reliability; when it
+// does not, the requirement is DefaultRequirement (and a σ alone changes
+// only the σ).
+func (o RequirementOptions) Asked() bool { return o.Margin != "" || o.Reliability != "" }
+
 // Apply parses and checks o and sets the matching fields of dst. A
 // reliability needs σ above 0 dB (from o or already in dst): with σ = 0 the
 // margin it asks for is undefined (ITU-R P.1812-8 eq. 69). Every error is
@@ -76,6 +96,16 @@ func (o RequirementOptions) Apply(dst *Requirement) error {
 	}
 	if r.Reliability > 0 && !(r.SigmaDB > 0) {
 		return fail("sigma", errors.New("must be more than 0 dB with a reliability (5.5 to 8 dB is usual at VHF/UHF)"))
+	}
+	if o.Asked() {
+		if dst.Default {
+			// Something is asked now: the default margin no longer
+			// stands unless the margin itself was given.
+			if o.Margin == "" {
+				r.MarginDB = 0
+			}
+			r.Default = false
+		}
 	}
 	*dst = r
 	return nil

@@ -113,6 +113,8 @@ type RouteResult struct {
 	Walker          string        `json:"walker"` // the kit carried
 	SpacingM        float64       `json:"spacing_m"`
 	NeededMarginDB  float64       `json:"needed_margin_db"`
+	DefaultMargin   bool          `json:"default_margin"`    // nothing was asked: plan.DefaultMarginDB
+	WhatIf          []string      `json:"what_if,omitempty"` // options that replaced the plan's figures, as given ("--power 10W")
 	LengthM         float64       `json:"length_m"`
 	OverallFraction float64       `json:"overall_fraction"` // of the length where every required direction meets the margin
 	CoveredM        float64       `json:"covered_m"`

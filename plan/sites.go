@@ -57,6 +57,8 @@ type SitesResult struct {
 	Station        string       `json:"station"` // whose kit is set up
 	HeightM        float64      `json:"height_m"`
 	NeededMarginDB float64      `json:"needed_margin_db"`
+	DefaultMargin  bool         `json:"default_margin"`           // nothing was asked: plan.DefaultMarginDB
+	WhatIf         []string     `json:"what_if,omitempty"`        // options that replaced the plan's figures, as given ("--power 10W")
 	MastHeightsM   []float64    `json:"mast_heights_m,omitempty"` // the sweep, when given
 	Sites          []SiteResult `json:"sites"`
 	Paths          int          `json:"paths"`              // terrain profiles extracted

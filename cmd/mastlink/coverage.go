@@ -356,9 +356,9 @@ func (o *coverageOptions) fromPlan(g *globals, mode plan.CoverageMode, dir plan.
 	if err != nil {
 		return nil, usagef("--station: %v", err)
 	}
-	ts, err := g.openTerrain(p.Terrain...)
+	ts, err := g.openTerrain(terrainSource{paths: p.Terrain, where: fmt.Sprintf("%s:%d: terrain", p.Path, p.TerrainAt)})
 	if err != nil {
-		return nil, fmt.Errorf("%s:%d: terrain: %w", p.Path, p.TerrainAt, err)
+		return nil, err
 	}
 	if ts == nil {
 		g.noticeSmoothEarth()

@@ -142,7 +142,7 @@ func TestITMFlagErrors(t *testing.T) {
 		{with(itm, "--sigma", "6dB"), 2, "--sigma: not used with --model itm"},
 		{with(itm, "--k", "4/3"), 2, "--k: not used with --model itm"},
 		{with(itm, "--ground", "sea"), 2, "--ground: not used with --model itm"},
-		{[]string{"route", demoHike, "--plan", demoPlanFile, "--climate", "5"}, 2, "--climate: with --plan the kit, requirement and model come from the plan file"},
+		{[]string{"route", demoHike, "--plan", demoPlanFile, "--climate", "5"}, 2, "--climate is a Longley–Rice ITM setting: add --model itm"},
 		{[]string{"mast", "--plan", demoPlanFile, "--model", "itm"}, 2, "--model: with --plan the model comes from the plan file"},
 		{[]string{"mast", "--from", "-48.5,-124", "--to", "-48.52,-123.9", "--freq", "146", "--heights", "2m..4m step 1m", "--cables", "RG-58", "--climate", "3"}, 2, "--climate is a Longley–Rice ITM setting"},
 		// The model's own limits (Hufford 1995): 20–20 000 MHz, 0.5–3000 m.

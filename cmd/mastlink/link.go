@@ -77,6 +77,10 @@ type linkOutput struct {
 }
 
 func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) error {
+	inputs := []string{o.points.file, o.profile}
+	if _, err := g.checkOut(inputs, "json", "csv", "txt"); err != nil {
+		return err
+	}
 	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
@@ -151,7 +155,7 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 	out.SMeter = units.SMeter(r.RxPowerDBm)
 	out.Warnings = append([]string{}, r.Warnings...)
 	g.warn(out.Warnings)
-	return g.emit(out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
+	return g.emitFile(inputs, out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
 		func(w io.Writer) error { renderLinkText(w, out, tx, rx, g.imperial()); return nil })
 }
 

@@ -72,6 +72,7 @@ type mastOptions struct {
 	station0, target            endFlags                // the station's kit (power, gain, sens, swr, connectors) and the target's (--to-…)
 	req                         plan.RequirementOptions // --margin, --reliability, --sigma
 	points                      pointResolver
+	changed                     func(flag string) bool // whether a flag was given
 }
 
 func newMastCmd(g *globals) *cobra.Command {
@@ -102,13 +103,14 @@ With --plan the station, targets and requirement come from a plan file
 		},
 	}
 	f := cmd.Flags()
+	o.changed = f.Changed
 	f.StringVar(&o.planFile, "plan", "", "plan file: station, targets and requirement")
 	f.StringVar(&o.station, "station", "", "with --plan: the station to sweep (default: the first)")
 	f.StringVar(&o.heights, "heights", "", "mast heights to try, e.g. '2m..12m step 1m' (quote it: it holds spaces)")
-	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (see `mastlink feedline --list`)")
+	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (names as mastlink feedline --list shows them)")
 	f.StringVar(&o.run, "run", "", "cable from the mast foot to the radio [m]")
 	f.StringVar(&o.slack, "slack", "", "extra cable for loops and the mast head [m] (default 1m)")
-	f.StringVar(&o.req.Margin, "margin", "", "required fade margin [dB]")
+	f.StringVar(&o.req.Margin, "margin", "", fmt.Sprintf("required fade margin [dB] (default: the plan's, else %g dB)", plan.DefaultMarginDB))
 	f.StringVar(&o.req.Reliability, "reliability", "", "required fraction of locations, e.g. 90%")
 	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
 	f.StringVar(&o.from, "from", "", "station position: LAT,LON or waypoint")
@@ -118,7 +120,8 @@ With --plan the station, targets and requirement come from a plan file
 	tg.prefix = "to-"
 	f.StringVar(&st.power, "power", "5W", "station transmitter power [W]")
 	f.StringVar(&st.gain, "gain", "0dBi", "station antenna gain [dBi]")
-	addSensFlag(cmd, st, "sens", "station receiver sensitivity [dBm]")
+	addSensFlag(cmd, st, "rx-sens", "station receiver sensitivity [dBm] (µV across 50 Ω accepted)")
+	deprecatedAlias(cmd, &st.sens, "sens", "rx-sens")
 	f.StringVar(&st.swr, "swr", "1", "SWR at the station antenna")
 	f.IntVar(&st.connectors, "connectors", 0, "mated connector pairs in the station feedline")
 	f.StringVar(&tg.power, "to-power", "5W", "target transmitter power [W]")
@@ -155,7 +158,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if st, err = p.StationNamed(o.station); err != nil {
 			return usagef("--station: %v", err)
 		}
-		env, targets, req, inputs = e, p.Targets, p.Require, p.InputFiles
+		env, targets, req, inputs = e, p.ReachTargets(st.Name), p.Require, p.InputFiles
 		if env.StepM, err = o.stepM(); err != nil {
 			return err
 		}
@@ -170,6 +173,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if env, err = o.envFlags.env(); err != nil {
 			return err
 		}
+		req = plan.DefaultRequirement()
 		freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 		if err != nil {
 			return err
@@ -182,7 +186,13 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if err != nil {
 			return err
 		}
-		end, err := o.station0.end(fn) // its height is swept
+		kit := o.station0
+		if old, err := oldName(g, o.changed, "sens", "rx-sens"); err != nil {
+			return err
+		} else if old {
+			kit.sensFlag = "sens" // errors name the flag given
+		}
+		end, err := kit.end(fn) // its height is swept
 		if err != nil {
 			return err
 		}
