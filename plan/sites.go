@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 )
@@ -58,7 +59,8 @@ type SitesResult struct {
 	NeededMarginDB float64      `json:"needed_margin_db"`
 	MastHeightsM   []float64    `json:"mast_heights_m,omitempty"` // the sweep, when given
 	Sites          []SiteResult `json:"sites"`
-	Paths          int          `json:"paths"` // terrain profiles extracted
+	Paths          int          `json:"paths"`    // terrain profiles extracted
+	Cautions       []string     `json:"cautions"` // exposure.MastCautions, always present
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -133,7 +135,8 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		return nil, err
 	}
 	need := req.NeededMarginDB
-	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt}
+	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
+		Cautions: exposure.MastCautions()}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {

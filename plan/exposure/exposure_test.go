@@ -548,10 +548,10 @@ func TestKeepOutRadiusM(t *testing.T) {
 		antM, headM      float64
 		wantPub, wantOcc float64
 	}{
-		{"3 m mast, 2 m head", 3, 0, 2.7121, 0.8192}, // [calc] default head 2 m
-		{"10 m mast: out of reach", 10, 0, 0, 0},     // antenna higher than both distances
+		{"3 m mast, 2 m head", 3, 0, 2.7121, 0.8192},    // [calc] default head 2 m
+		{"10 m mast: out of reach", 10, 0, 0, 0},        // antenna higher than both distances
 		{"antenna on the ground", 0, 0, 2.8906, 1.2927}, // whole compliance distances [calc]
-		{"3 m mast, 1.2 m head", 3, 1.2, 2.2617, 0},  // [calc] √(2.8906² − 1.8²); 1.2927 < 1.8
+		{"3 m mast, 1.2 m head", 3, 1.2, 2.2617, 0},     // [calc] √(2.8906² − 1.8²); 1.2927 < 1.8
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			rep, err := Evaluate(Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 146, Mode: ModeFM, AntennaHeightM: tc.antM, HeadHeightM: tc.headM})
