@@ -35,7 +35,7 @@ func ExampleEvaluate() {
 	// distance from the antenna: public 2.89 m, occupational 1.29 m
 	// keep-out from the mast foot (head at 2 m): public 2.71 m, occupational 0.82 m
 	// near field within 0.33 m; US routine-evaluation exemption beyond 3.61 m
-	// 8 cautions, first: These distances are far-field estimates (FCC OET Bulletin 65): conservative at the distances shown, but unreliable within about λ/2π of the antenna, where near fields dominate.
+	// 7 cautions, first: These distances are far-field estimates (FCC OET Bulletin 65): conservative at the distances shown, but unreliable within about λ/2π of the antenna, where near fields dominate.
 }
 
 // Transmitting 5 minutes, then listening 5 minutes: a 6-minute window can

@@ -538,9 +538,8 @@ var rfCautions = []string{
 // mastCautions are the cautions for putting up masts; see MastCautions.
 var mastCautions = []string{
 	"Keep masts and antennas well clear of power lines: a falling mast or antenna must not be able to reach one. Contact with a power line can kill.",
-	"Guy and ballast masts against wind as their maker specifies, and lower them when strong wind is forecast.",
+	"Guy and ballast masts against wind as their maker specifies, and lower them when strong wind is forecast; check local rules and permits before putting one up.",
 	"Do not raise, work on or climb masts or antennas in storms or when lightning is possible.",
-	"Local rules may limit mast heights or ask for a permit or the landowner's consent; check them before putting a mast up.",
 }
 
 // Cautions returns the cautions to show with every RF-exposure
