@@ -38,8 +38,11 @@ tier's window from the mode's duty factor and the worst-case time on the air.
 Limits: US 47 CFR § 1.1310 (fcc, the default), ICNIRP 2020 (icnirp2020) or
 ICNIRP 1998 (icnirp1998).
 
-With --height, the keep-out radius on the ground around the mast foot for a
-person whose head is at --head-height. With --at and -o keepout.geojson or
+With --height, the keep-out radius on the ground around the mast foot: beyond
+it no part of a person standing up to --head-height is within the compliance
+distance (the whole distance when the antenna is no higher than the head).
+Safety distances are printed rounded up. The US exemption from routine
+evaluation (47 CFR § 1.1307) is shown only with --standard fcc. With --at and -o keepout.geojson or
 keepout.gpx, the keep-out circles for a map or a GPS.
 
 This is an estimate, not a measurement; your licence conditions and local
