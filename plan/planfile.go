@@ -566,7 +566,7 @@ func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
 }
 
 func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, error) {
-	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", "exposure")
+	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", "exposure", "coverage")
 	if err != nil {
 		return Station{}, err
 	}
@@ -580,7 +580,84 @@ func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, erro
 			return Station{}, err
 		}
 	}
+	if c := f["coverage"]; c != nil {
+		cs, err := p.coverage(c, joinField(field, "coverage"))
+		if err != nil {
+			return Station{}, err
+		}
+		st.Coverage = cs
+	}
 	return st, nil
+}
+
+// coverage reads a station's coverage: the map to draw around it.
+func (p *planParser) coverage(n *yaml.Node, field string) (*CoverageSpec, error) {
+	f, err := p.fields(n, field, "radius", "mode", "value", "levels", "resolution")
+	if err != nil {
+		return nil, err
+	}
+	cs := &CoverageSpec{Line: n.Line}
+	c := f["radius"]
+	if c == nil {
+		return nil, p.errf(n, joinField(field, "radius"), "missing: give the radius of the map (e.g. radius: 10km)")
+	}
+	if cs.RadiusM, err = p.quantity(c, joinField(field, "radius"), units.ParseLengthM); err != nil {
+		return nil, err
+	}
+	if !(cs.RadiusM > 0) {
+		return nil, p.errf(c, joinField(field, "radius"), "give a radius above 0 m")
+	}
+	if c := f["mode"]; c != nil {
+		s, err := p.scalar(c, joinField(field, "mode"))
+		if err != nil {
+			return nil, err
+		}
+		if cs.Mode, err = ParseCoverageMode(s); err != nil {
+			return nil, p.wrap(c, joinField(field, "mode"), err)
+		}
+	}
+	if c := f["value"]; c != nil {
+		s, err := p.scalar(c, joinField(field, "value"))
+		if err != nil {
+			return nil, err
+		}
+		if cs.Value, err = ParseCoverageValue(s); err != nil {
+			return nil, p.wrap(c, joinField(field, "value"), err)
+		}
+		if cs.Mode == CoverageLOS {
+			return nil, p.errf(c, joinField(field, "value"), "a line-of-sight map holds visible or hidden; drop value or use mode: loss")
+		}
+		cs.HasValue = true
+	}
+	if c := f["levels"]; c != nil {
+		var text string
+		switch c.Kind {
+		case yaml.SequenceNode:
+			parts := make([]string, len(c.Content))
+			for i, e := range c.Content {
+				if parts[i], err = p.scalar(e, fmt.Sprintf("%s.levels[%d]", field, i)); err != nil {
+					return nil, err
+				}
+			}
+			text = strings.Join(parts, ",")
+		default:
+			if text, err = p.scalar(c, joinField(field, "levels")); err != nil {
+				return nil, err
+			}
+		}
+		if cs.Levels, err = ParseCoverageLevels(text); err != nil {
+			return nil, p.wrap(c, joinField(field, "levels"), err)
+		}
+	}
+	if c := f["resolution"]; c != nil {
+		if cs.ResolutionM, err = p.quantity(c, joinField(field, "resolution"), units.ParseLengthM); err != nil {
+			return nil, err
+		}
+		if !(cs.ResolutionM > 0) {
+			return nil, p.errf(c, joinField(field, "resolution"), "give a cell size above 0 m")
+		}
+	}
+	return cs, nil
 }
 
 func (p *planParser) end(n *yaml.Node, f map[string]*yaml.Node, field string, def kit, e *End, needRadio bool) error {

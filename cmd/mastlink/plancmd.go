@@ -37,7 +37,8 @@ and lightest cable that meet the requirement.
 
 With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
 into DIR for maps, GPS units and spreadsheets, and route-N.geojson and
-sites.geojson when the plan has routes and sites.`,
+sites.geojson when the plan has routes and sites, and coverage-NAME.png and
+coverage-NAME.tif for every station whose coverage: asks for a map.`,
 		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -91,6 +92,13 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 	if g.out != "" {
 		if err := writePlanOutputs(g, p, res); err != nil {
 			return err
+		}
+		maps, err := writePlanCoverage(ctx, g, p, env.Terrain, g.out)
+		if err != nil {
+			return err
+		}
+		if len(maps) > 0 {
+			fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(maps, ", "), g.out)
 		}
 	}
 	return g.emit(res, func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeLinksCSV(w, res.Links) },

@@ -159,6 +159,7 @@ a bare number takes the default unit named in each flag's help.`,
 		newMastCmd(g),
 		newRouteCmd(g),
 		newSitesCmd(g),
+		newCoverageCmd(g),
 		newVersionCmd(g),
 	)
 	return root

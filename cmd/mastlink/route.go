@@ -40,7 +40,9 @@ waypoint with the same kit.
 
 -o writes F.geojson (the track in covered and uncovered pieces), F.gpx (the
 track with waypoints at the ends of dead stretches and at the best spots) or
-F.csv (every checked point).`,
+F.csv (every checked point) or F.png (a map: the track coloured by the
+worst margin, the dead stretches, the best spots to call from and the
+targets, over a shaded relief).`,
 		Example: "  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml -o hike-coverage.gpx\n" +
 			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
@@ -64,13 +66,15 @@ func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) e
 		return usagef("--spacing: give a distance above 0 m")
 	}
 	var track gpx.Track
+	var rr *reach
 	return runReach(ctx, g, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
-		outKinds: []string{"geojson", "gpx", "csv"},
+		outKinds: []string{"geojson", "gpx", "csv", "png"},
 		check: func(gf *gpx.File) error {
 			track, err = pickTrack(g, gf, o.track)
 			return err
 		},
 		compute: func(ctx context.Context, r *reach, _ *gpx.File, progress plan.Progress) (*plan.RouteResult, error) {
+			rr = r
 			return r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, progress)
 		},
 		write: func(kind string, inputs []string, res *plan.RouteResult) error {
@@ -79,6 +83,8 @@ func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) e
 				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
 			case "gpx":
 				return writeRouteGPX(g.out, inputs, track, res)
+			case "png":
+				return renderTo(g.out, inputs, func(w io.Writer) error { return routeMap(w, res, rr.targets, rr.env.Terrain, g.imperial()) })
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
 		},

@@ -31,8 +31,9 @@ targets are the plan's targets and other stations. Without a plan the kit
 comes from --power, --gain, --height, --rx-sens … and the targets from
 --targets, each a waypoint with the same kit.
 
--o F.geojson writes the candidates as points with their figures, and
-F.csv the ranking.`,
+-o F.geojson writes the candidates as points with their figures, F.csv
+the ranking, and F.png a map of the candidates numbered by rank and
+coloured by their worst margin, with the targets, over a shaded relief.`,
 		Example: "  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml -o sites.geojson",
 		Args: cobra.ExactArgs(1),
@@ -45,9 +46,10 @@ F.csv the ranking.`,
 }
 
 func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) error {
+	var rr *reach
 	return runReach(ctx, g, o, args[0], reachRun[*plan.SitesResult]{
 		forSites: true,
-		outKinds: []string{"geojson", "csv"},
+		outKinds: []string{"geojson", "csv", "png"},
 		check: func(gf *gpx.File) error {
 			if len(gf.Waypoints) == 0 {
 				return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", gf.Path)
@@ -55,11 +57,15 @@ func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) e
 			return nil
 		},
 		compute: func(ctx context.Context, r *reach, gf *gpx.File, progress plan.Progress) (*plan.SitesResult, error) {
+			rr = r
 			return r.env.RankSites(ctx, plan.SitesRequest{Candidates: gf.Waypoints, Station: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, Mast: r.mast}, progress)
 		},
 		write: func(kind string, inputs []string, res *plan.SitesResult) error {
-			if kind == "geojson" {
+			switch kind {
+			case "geojson":
 				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res)) })
+			case "png":
+				return renderTo(g.out, inputs, func(w io.Writer) error { return sitesMap(w, res, rr.targets, rr.env.Terrain, g.imperial()) })
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
 		},
