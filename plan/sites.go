@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/propagation"
@@ -63,6 +64,7 @@ type SitesResult struct {
 	Sites          []SiteResult `json:"sites"`
 	Paths          int          `json:"paths"`              // terrain profiles extracted
 	Warnings       []string     `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
+	Cautions       []string     `json:"cautions"`           // exposure.MastCautions, always present
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -139,7 +141,8 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		return nil, err
 	}
 	need := req.NeededMarginDB
-	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt, Warnings: itmWarningLines(warns)}
+	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
+		Warnings: itmWarningLines(warns), Cautions: exposure.MastCautions()}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {
