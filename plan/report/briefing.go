@@ -38,6 +38,9 @@ type BriefingData struct {
 	Date time.Time
 	// Location is the plan's time zone; nil shows Date in its own zone.
 	Location *time.Location
+	// DateOnly shows Date as a day, without the time of day (for a plan
+	// that gives only the day).
+	DateOnly bool
 	// Area says where, in words (e.g. "Harrow Fell, north of Tarnby").
 	Area string
 	// Imperial shows lengths in feet and miles instead of metres and km.
@@ -413,7 +416,11 @@ func (p *page) render() error {
 	if d.Location != nil {
 		t = t.In(d.Location)
 	}
-	p.f(`<p class="when"><time datetime="%s">%s</time>`, h(t.Format(time.RFC3339)), h(t.Format("Monday 2 January 2006, 15:04 MST")))
+	if d.DateOnly {
+		p.f(`<p class="when"><time datetime="%s">%s</time>`, h(t.Format(time.DateOnly)), h(t.Format("Monday 2 January 2006")))
+	} else {
+		p.f(`<p class="when"><time datetime="%s">%s</time>`, h(t.Format(time.RFC3339)), h(t.Format("Monday 2 January 2006, 15:04 MST")))
+	}
 	if d.Area != "" {
 		p.f(`<span class="sep" aria-hidden="true"> · </span><span class="area">%s</span>`, h(d.Area))
 	}
