@@ -20,9 +20,11 @@ import (
 	"github.com/spf13/cobra"
 )
 
-// planOptions are the plan command's own options: none yet, as the plan
-// file says everything; the struct keeps the shape every command has.
-type planOptions struct{}
+// planOptions are the plan command's own options; the plan file says
+// everything else.
+type planOptions struct {
+	briefing string // --briefing FILE.html (else the plan file's briefing:)
+}
 
 func newPlanCmd(g *globals) *cobra.Command {
 	o := &planOptions{}
@@ -45,6 +47,7 @@ sites.geojson when the plan has routes and sites.`,
 			return runPlan(cmd.Context(), g, o, args)
 		},
 	}
+	cmd.Flags().StringVar(&o.briefing, "briefing", "", "write the printable briefing (one self-contained HTML page) to FILE.html; overrides the plan file's briefing:")
 	return cmd
 }
 
@@ -67,6 +70,10 @@ func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
 func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) error {
 	path := args[0]
 	p, env, err := loadPlan(g, path)
+	if err != nil {
+		return err
+	}
+	briefing, err := briefingTarget(g, o, p)
 	if err != nil {
 		return err
 	}
@@ -93,6 +100,9 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		if err := writePlanOutputs(g, p, res); err != nil {
 			return err
 		}
+	}
+	if err := writePlanPictures(g, briefing, p, env, res); err != nil {
+		return err
 	}
 	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
 		func(w io.Writer) error { renderPlanText(w, p, env, res, g.imperial()); return nil })

@@ -5,6 +5,7 @@ import (
 	"strings"
 	"testing"
 	"time"
+	_ "time/tzdata" // Etc/GMT+8 below, without a system zone database
 )
 
 // TestBriefingDate: the date line shows the time in the plan's zone, or
@@ -31,6 +32,30 @@ func TestBriefingDate(t *testing.T) {
 		if !strings.Contains(b.String(), c.want) {
 			i := strings.Index(b.String(), "<time")
 			t.Errorf("%s: page has %.90s, want %s", c.name, b.String()[i:], c.want)
+		}
+	}
+}
+
+// TestZoneLabel: IANA's Etc/GMT+8 is UTC−8 (its sign is POSIX's, inverted;
+// tzdata "etcetera" file) and has no abbreviation, so it is written from its
+// offset; zones with an abbreviation keep it.
+func TestZoneLabel(t *testing.T) {
+	at := time.Date(2025, 6, 14, 15, 30, 0, 0, time.UTC)
+	etc, err := time.LoadLocation("Etc/GMT+8")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		loc  *time.Location
+		want string
+	}{
+		{etc, "UTC−08"},
+		{time.FixedZone("", 5*3600+1800), "UTC+0530"},
+		{time.FixedZone("CEST", 2*3600), "CEST"},
+		{time.UTC, "UTC"},
+	} {
+		if got := zoneLabel(at.In(c.loc)); got != c.want {
+			t.Errorf("%v: %q, want %q", c.loc, got, c.want)
 		}
 	}
 }
