@@ -39,9 +39,12 @@ RF-exposure keep-out and, when the plan has a mast section, the lowest mast
 and lightest cable that meet the requirement.
 
 With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
-into DIR for maps, GPS units and spreadsheets, and route-N.geojson and
-sites.geojson when the plan has routes and sites.`,
-		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
+into DIR for maps, GPS units and spreadsheets, plan-map.png (the links by
+margin over shaded relief), and route-N.geojson and sites.geojson when the
+plan has routes and sites. With --briefing FILE.html (or briefing: in the
+plan file) it writes the printable briefing for the team: one
+self-contained page that prints on A4 or US Letter.`,
+		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/\n  mastlink plan examples/valley/plan.yaml --briefing briefing.html",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runPlan(cmd.Context(), g, o, args)
