@@ -173,3 +173,45 @@ func BenchmarkRadialLoss(b *testing.B) {
 	}
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*(len(p.DistKM)-1)), "ns/receiver")
 }
+
+// TestHorizonLOSMatchesRadial: the running maximum of HorizonLOS.Slope
+// answers HorizonLOS.Visible exactly as Radial.Visible does (itself checked
+// against Terrain's line of sight, ITU-R P.526-16 eq. 50, in
+// TestRadialMatchesTerrain), on seeded random profiles.
+func TestHorizonLOSMatchesRadial(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 8))
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	w, err := NewRadial(prm, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	visible, hidden := 0, 0
+	for trial := range 40 {
+		h0 := 300 + 200*rng.Float64()
+		hl, err := NewHorizonLOS(prm, h0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Reset(h0)
+		best := math.Inf(-1)
+		for i := 1; i < 800; i++ {
+			d := float64(i) * 0.03
+			h := h0 + 150*math.Sin(float64(i)/37+float64(trial)) + 40*rng.Float64()
+			if got, want := hl.Visible(best, d, h), w.Visible(d, h); got != want {
+				t.Fatalf("trial %d point %d: HorizonLOS %v, Radial %v", trial, i, got, want)
+			} else if got {
+				visible++
+			} else {
+				hidden++
+			}
+			w.Add(d, h)
+			best = math.Max(best, hl.Slope(d, h))
+		}
+	}
+	if visible == 0 || hidden == 0 {
+		t.Errorf("%d visible, %d hidden: the check needs both", visible, hidden)
+	}
+	if _, err := NewHorizonLOS(Params{FreqMHz: 146, TxHeightM: -1}, 0); err == nil {
+		t.Error("negative antenna accepted")
+	}
+}
