@@ -213,7 +213,7 @@ func newBriefingData(g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	}
 
 	for _, e := range res.Exposure {
-		d.Exposure = append(d.Exposure, report.BriefingKeepout{Station: exposureLabel(e), FreqMHz: e.FreqMHz, EIRPW: e.EIRPW,
+		d.Exposure = append(d.Exposure, report.BriefingKeepout{Station: briefingExposureLabel(e), FreqMHz: e.FreqMHz, EIRPW: e.EIRPW,
 			Mode: modeNames[e.Mode], DutyFactor: e.DutyFactor, TxFraction: math.Max(e.TxFractionPublic, e.TxFractionOccupational),
 			AveragingPublicS: e.AveragingPublicS, AveragingOccupationalS: e.AveragingOccupationalS, Standard: standardNames[e.Standard],
 			AntennaHeightM: e.AntennaHeightM, HeadHeightM: e.HeadHeightM, KeepoutPublicM: e.KeepoutPublicM, KeepoutOccupationalM: e.KeepoutOccupationalM})
@@ -447,4 +447,14 @@ func briefingRoute(p *plan.Plan, r *plan.RouteResult, im bool) report.BriefingRo
 		br.CallSpots = append(br.CallSpots, report.BriefingCallSpot{Target: s.Target, Side: s.Side, DistanceM: s.DistanceM, Lat: s.Lat, Lon: s.Lon, MarginDB: s.MarginDB})
 	}
 	return br
+}
+
+// briefingExposureLabel names a keep-out row of the briefing: the station,
+// and for the mast sweep's recommendation a short note (the table's
+// assumptions column gives the antenna height).
+func briefingExposureLabel(e plan.StationExposure) string {
+	if e.Configuration == plan.ConfigRecommended {
+		return e.Station + " (recommended mast)"
+	}
+	return e.Station
 }

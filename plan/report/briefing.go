@@ -752,7 +752,7 @@ func (p *page) exposure() {
 	p.section("exposure", "", "RF exposure keep-out")
 	p.el("p", ` class="lead"`, "Keep everyone farther than this from the foot of each mast while it transmits. Distances are rounded up.")
 	p.w("<table class=\"keepout\">\n<caption>Keep-out radius around each mast</caption>\n")
-	p.colHeads("", "Station", "Frequency (MHz)", "EIRP (W)", "Public ("+p.heightUnit()+")", "Workers ("+p.heightUnit()+")", "Assumed")
+	p.colHeads("", "Station", "MHz", "EIRP (W)", "Public ("+p.heightUnit()+")", "Workers ("+p.heightUnit()+")", "Assumed")
 	p.w("<tbody>\n")
 	for _, e := range d.Exposure {
 		p.w("<tr>")

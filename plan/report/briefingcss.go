@@ -6,7 +6,7 @@ package report
 // layout fits both. Text is near-black on white (contrast over 15:1, WCAG
 // 2.1 AA asks 4.5:1); the muted grey #4d4d4d is 8.5:1 and the accent blue
 // #2b5d88 6.6:1. Local fonts only: nothing is fetched.
-const briefingCSS = `@page { margin: 14mm 16mm 16mm 16mm; }
+const briefingCSS = `@page { margin: 12mm 15mm 12mm 15mm; }
 :root {
   --ink: #111111; --muted: #4d4d4d; --rule: #c9c9c9; --faint: #f2f2f0;
   --accent: #2b5d88; --ok: #1e6b34; --weak: #8a5300; --fail: #a1161d;
@@ -63,11 +63,11 @@ td.assume { font-size: 8.5pt; }
 .verdict.ok::before { content: "\2713\00a0"; }
 .verdict.weak::before { content: "!\00a0"; }
 .verdict.fail::before { content: "\2717\00a0"; }
-.keep, #requirement, #mast, #exposure, #inputs, .station, .route { break-inside: avoid; page-break-inside: avoid; }
+.keep, #requirement, #mast, #exposure, dl.inputs, .station, .route { break-inside: avoid; page-break-inside: avoid; }
 .choice { padding: 6px 10px; border: 1px solid var(--rule); border-left: 4px solid var(--ok); }
 .choice.short { border-left-color: var(--fail); }
 .cautions {
-  margin: 16px 0 10px; padding: 8px 14px 6px; border: 2.5px solid var(--ink); border-radius: 3px;
+  margin: 10px 0 8px; padding: 6px 14px 5px; border: 2.5px solid var(--ink); border-radius: 3px;
   break-inside: avoid; page-break-inside: avoid;
 }
 .cautions h2 { border: 0; margin: 0 0 4px; font-size: 13pt; text-transform: uppercase; letter-spacing: 0.08em; }
@@ -77,10 +77,11 @@ td.assume { font-size: 8.5pt; }
 dl.inputs { display: grid; grid-template-columns: max-content 1fr; gap: 2px 14px; margin: 4px 0 8px; font-size: 9pt; }
 dl.inputs dt { font-weight: 600; }
 dl.inputs dd { margin: 0; }
-footer { margin-top: 18px; padding-top: 6px; border-top: 1px solid var(--rule); font-size: 8pt; color: var(--muted); }
+footer { margin-top: 8px; padding-top: 4px; break-before: avoid; page-break-before: avoid; border-top: 1px solid var(--rule); font-size: 8pt; color: var(--muted); }
 @media print {
   body { padding: 0; max-width: none; font-size: 9.5pt; }
   a { color: inherit; text-decoration: none; }
   .map img { print-color-adjust: exact; -webkit-print-color-adjust: exact; }
 }
+table.keepout td.assume { width: 55%; }
 `
