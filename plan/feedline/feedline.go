@@ -206,7 +206,9 @@ func buildCatalog() []Cable {
 // relative error (each residual divided by the figure; by 1 when the figure
 // is 0) with k1, k2 ≥ 0. With two unknowns the non-negative optimum is the
 // unconstrained solution when that is non-negative, else the better of the
-// two one-term fits.
+// two one-term fits. Figures at a single frequency cannot tell the two
+// terms apart: they give the conductor term alone (k2 = 0), the loss that
+// dominates coax at HF–UHF, growing as √f (skin effect).
 func fitTwoTerm(pts []LossPoint) (k1, k2 float64, err error) {
 	if len(pts) == 0 {
 		return 0, 0, errors.New("no loss figures to fit")
@@ -243,7 +245,16 @@ func fitTwoTerm(pts []LossPoint) (k1, k2 float64, err error) {
 	}
 	// One-term candidates: conductor loss only, dielectric loss only.
 	k1, k2 = b1/s11, 0
-	if a := b2 / s22; resid(0, a) < resid(k1, 0) {
+	oneFreq := true
+	for _, p := range pts {
+		oneFreq = oneFreq && p.FreqMHz == pts[0].FreqMHz
+	}
+	if oneFreq {
+		return k1, k2, nil
+	}
+	// The dielectric-only fit wins only when clearly better, not on
+	// rounding residuals.
+	if a := b2 / s22; resid(0, a) < resid(k1, 0)*(1-1e-9) {
 		k1, k2 = 0, a
 	}
 	if det := s11*s22 - s12*s12; det > 1e-12*s11*s22 {
