@@ -100,6 +100,7 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 				}
 			}
 			res.Links = append(res.Links, links...)
+			res.Warnings = appendNew(res.Warnings, env.legWarnings(st.End, []Target{tg})...)
 			done++
 			if progress != nil {
 				progress(done, total)

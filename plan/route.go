@@ -122,7 +122,11 @@ type RouteResult struct {
 	Points          []RoutePoint  `json:"points"`
 	Paths           int           `json:"paths"`   // terrain profiles extracted
 	Terrain         string        `json:"terrain"` // "terrain" or "smooth earth" (no elevation data on any path)
-	line            *trackLine    // for positions between points
+	// Warnings are what the figures should be read with: a frequency
+	// outside the model's band or a cable's fitted range, a 75 Ω cable
+	// (see Env.FrequencyWarnings); commands add missing elevation data.
+	Warnings []string   `json:"warnings"`
+	line     *trackLine // for positions between points
 }
 
 // PositionAt returns the position in degrees and the time (UTC; zero when
@@ -189,6 +193,7 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	res := &RouteResult{
 		Name: req.Track.Name, Walker: req.Walker.Name, SpacingM: spacing, NeededMarginDB: req.NeededMarginDB,
 		LengthM: length, Points: make([]RoutePoint, n), Paths: n * nt, line: line,
+		Warnings: e.legWarnings(req.Walker, req.Targets),
 	}
 	margins := make([]float64, n*nt)
 	for k := range res.Points {

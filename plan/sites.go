@@ -59,6 +59,10 @@ type SitesResult struct {
 	MastHeightsM   []float64    `json:"mast_heights_m,omitempty"` // the sweep, when given
 	Sites          []SiteResult `json:"sites"`
 	Paths          int          `json:"paths"` // terrain profiles extracted
+	// Warnings are what the figures should be read with (see
+	// Env.FrequencyWarnings, and co-located candidates and targets);
+	// commands add missing elevation data.
+	Warnings []string `json:"warnings"`
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -133,7 +137,8 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		return nil, err
 	}
 	need := req.NeededMarginDB
-	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt}
+	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
+		Warnings: e.legWarnings(req.Station, req.Targets)}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {

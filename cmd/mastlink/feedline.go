@@ -29,6 +29,9 @@ type feedlineResult struct {
 	MassKg          float64 `json:"mass_kg"`
 	PowerInW        float64 `json:"power_in_w,omitempty"`
 	PowerAtAntennaW float64 `json:"power_at_antenna_w,omitempty"`
+	// Warnings (also on stderr): a frequency outside the cable's fitted
+	// range, a cable that is not 50 Ω.
+	Warnings []string `json:"warnings"`
 }
 
 func newFeedlineCmd(g *globals) *cobra.Command {
@@ -112,6 +115,10 @@ func runFeedline(ctx context.Context, g *globals, o *feedlineOptions, args []str
 		}
 		r.PowerInW, r.PowerAtAntennaW = p, p*loss.DeliveredFraction
 	}
+	r.Warnings = addWarnings(nil, c.RangeWarning(freq))
+	if length > 0 {
+		r.Warnings = addWarnings(r.Warnings, c.MismatchWarning())
+	}
 	err = g.emit(r, func(w io.Writer) error {
 		return writeCSV(w,
 			[]string{"cable", "length_m", "freq_mhz", "matched_loss_db", "swr_loss_db", "connector_loss_db", "total_loss_db", "delivered_fraction"},
@@ -120,9 +127,7 @@ func runFeedline(ctx context.Context, g *globals, o *feedlineOptions, args []str
 	if err != nil {
 		return err
 	}
-	if lo, hi := c.FittedRangeMHz(); freq < lo*0.8 || freq > hi*1.25 {
-		fmt.Fprintf(g.stderr, "mastlink: note: %s's published loss figures span %.0f–%.0f MHz; at %.0f MHz the figure is extrapolated\n", c.Name, lo, hi, freq)
-	}
+	g.warn(r.Warnings...)
 	return nil
 }
 

@@ -69,7 +69,11 @@ type linkOutput struct {
 	ToLat   float64 `json:"to_lat"`
 	ToLon   float64 `json:"to_lon"`
 	SigmaDB float64 `json:"sigma_db"`
-	SMeter  string  `json:"s_meter"`
+	SMeter  string  `json:"s_meter"` // IARU Region 1 R.1 at the link's frequency
+	// Warnings are also written to stderr: missing elevation data, a
+	// frequency outside the model's band or a cable's fitted range, a 75 Ω
+	// cable.
+	Warnings []string `json:"warnings"`
 }
 
 func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) error {
@@ -121,7 +125,7 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		if err := env.Measure(from, to, geo); err != nil {
 			return err
 		}
-		g.warnMissing(env.Terrain)
+		out.Warnings = addWarnings(out.Warnings, missingWarning(env.Terrain))
 	}
 	tx, err := o.tx.end(fromName)
 	if err != nil {
@@ -141,7 +145,9 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		r.NeededMarginDB, r.MeetsRequirement = &need, &ok
 	}
 	out.LinkResult = r
-	out.SMeter = units.SMeter(r.RxPowerDBm)
+	out.SMeter = units.SMeter(r.RxPowerDBm, r.FreqMHz)
+	out.Warnings = addWarnings(out.Warnings, env.FrequencyWarnings(freq, tx, rx)...)
+	g.warn(out.Warnings...)
 	return g.emit(out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
 		func(w io.Writer) error { renderLinkText(w, out, tx, rx, g.imperial()); return nil })
 }
@@ -189,7 +195,7 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
 	t.row("  receive antenna gain", "", dbi(r.RxGainDBi))
 	t.row("  receive feedline"+lineName(rx), "", db(-r.RxFeedlineLossDB))
-	t.row("  received level", units.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
+	t.row("  received level", units.SMeter(r.RxPowerDBm, r.FreqMHz), dbm(r.RxPowerDBm))
 	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", units.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
 	t.row("  margin", "", db(r.MarginDB))
 	if r.Probability != nil {

@@ -216,6 +216,9 @@ type reachRun[R any] struct {
 	write func(kind string, inputs []string, res R) error
 	// csv and text render the result on stdout.
 	csv, text func(w io.Writer, res R) error
+	// warnings points at the result's warnings, to which missing elevation
+	// data is added; all are written to stderr too.
+	warnings func(res R) *[]string
 }
 
 // runReach is the pipeline of route and sites: check the flags and -o,
@@ -256,7 +259,9 @@ func runReach[R any](ctx context.Context, g *globals, o *reachOptions, file stri
 	if err != nil {
 		return err
 	}
-	g.warnMissing(r.env.Terrain)
+	ws := run.warnings(res)
+	*ws = addWarnings(*ws, missingWarning(r.env.Terrain))
+	g.warn(*ws...)
 	if outKind != "" {
 		if err := run.write(outKind, inputs, res); err != nil {
 			return err

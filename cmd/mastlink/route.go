@@ -82,8 +82,9 @@ func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) e
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
 		},
-		csv:  writeRouteCSV,
-		text: func(w io.Writer, res *plan.RouteResult) error { renderRouteText(w, res, g.imperial()); return nil },
+		csv:      writeRouteCSV,
+		text:     func(w io.Writer, res *plan.RouteResult) error { renderRouteText(w, res, g.imperial()); return nil },
+		warnings: func(res *plan.RouteResult) *[]string { return &res.Warnings },
 	})
 }
 

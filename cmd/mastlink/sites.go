@@ -63,8 +63,9 @@ func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) e
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
 		},
-		csv:  writeSitesCSV,
-		text: func(w io.Writer, res *plan.SitesResult) error { renderSitesText(w, res, g.imperial()); return nil },
+		csv:      writeSitesCSV,
+		text:     func(w io.Writer, res *plan.SitesResult) error { renderSitesText(w, res, g.imperial()); return nil },
+		warnings: func(res *plan.SitesResult) *[]string { return &res.Warnings },
 	})
 }
 

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan/units"
@@ -327,6 +328,45 @@ func (c Cable) FittedRangeMHz() (lo, hi float64) {
 		lo, hi = math.Min(lo, p.FreqMHz), math.Max(hi, p.FreqMHz)
 	}
 	return lo, hi
+}
+
+// Extrapolated reports whether freqMHz lies well outside the figures the
+// cable's model was fitted to: below 0.8 × the lowest or above 1.25 × the
+// highest (a margin of common practice: the two-term model holds a little
+// beyond its data).
+func (c Cable) Extrapolated(freqMHz float64) bool {
+	lo, hi := c.FittedRangeMHz()
+	return len(c.Published) > 0 && (freqMHz < lo*0.8 || freqMHz > hi*1.25)
+}
+
+// RangeWarning returns a sentence when freqMHz lies outside the cable's
+// fitted range (Extrapolated), else "".
+func (c Cable) RangeWarning(freqMHz float64) string {
+	if !c.Extrapolated(freqMHz) {
+		return ""
+	}
+	lo, hi := c.FittedRangeMHz()
+	span := fmt.Sprintf("span %s–%s MHz", trimFloat(lo), trimFloat(hi))
+	if lo == hi {
+		span = fmt.Sprintf("are at %s MHz", trimFloat(lo))
+	}
+	return fmt.Sprintf("%s's loss figures %s; at %s MHz its loss is extrapolated", c.Name, span, trimFloat(freqMHz))
+}
+
+// MismatchWarning returns a sentence when the cable is not 50 Ω, saying
+// that the junction mismatch loss is applied, else "".
+func (c Cable) MismatchWarning() string {
+	if JunctionMismatchLossDB(c.ImpedanceOhm) == 0 {
+		return ""
+	}
+	g := math.Abs(c.ImpedanceOhm-SystemImpedanceOhm) / (c.ImpedanceOhm + SystemImpedanceOhm)
+	return fmt.Sprintf("%s is a %s Ω cable in a %d Ω system: SWR %s:1 where it meets the radio and the antenna; %.2f dB of mismatch loss is included in its line loss",
+		c.Name, trimFloat(c.ImpedanceOhm), SystemImpedanceOhm, trimFloat(math.Round(SWRFromReflection(g)*100)/100), 2*JunctionMismatchLossDB(c.ImpedanceOhm))
+}
+
+// trimFloat formats v with up to 3 decimals and no trailing zeros.
+func trimFloat(v float64) string {
+	return strconv.FormatFloat(math.Round(v*1000)/1000, 'f', -1, 64)
 }
 
 // Cables returns a copy of the catalog in listing order.

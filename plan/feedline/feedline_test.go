@@ -433,3 +433,26 @@ func TestLongLineFinite(t *testing.T) {
 		}
 	}
 }
+
+// TestRangeWarning: the catalog's RG-58 figures span 30–850 MHz (ARRL
+// Table 6-1 and the repeater-systems guide), so 7 MHz and 2400 MHz are
+// extrapolated and 146 MHz is not.
+func TestRangeWarning(t *testing.T) {
+	rg58, _ := LookupCable("RG-58")
+	if w := rg58.RangeWarning(146); w != "" {
+		t.Errorf("146 MHz: %q", w)
+	}
+	if w := rg58.RangeWarning(7.1); w != "RG-58's loss figures span 30–850 MHz; at 7.1 MHz its loss is extrapolated" {
+		t.Errorf("7.1 MHz: %q", w)
+	}
+	if !rg58.Extrapolated(2400) {
+		t.Error("2400 MHz not extrapolated")
+	}
+	rg59, _ := LookupCable("RG-59")
+	if w := rg59.MismatchWarning(); !strings.Contains(w, "75 Ω cable in a 50 Ω system: SWR 1.5:1") || !strings.Contains(w, "0.35 dB") {
+		t.Errorf("RG-59: %q", w)
+	}
+	if w := rg58.MismatchWarning(); w != "" {
+		t.Errorf("RG-58: %q", w)
+	}
+}
