@@ -131,13 +131,17 @@ type Obstacle struct {
 // LinkResult is one direction of one link: the path, its loss and the
 // budget. Field names carry their units.
 type LinkResult struct {
-	From             string    `json:"from,omitempty"`
-	To               string    `json:"to,omitempty"`
-	Direction        string    `json:"direction,omitempty"` // e.g. "talk-in", "talk-out", "out", "back"
-	FreqMHz          float64   `json:"freq_mhz"`
-	DistanceM        float64   `json:"distance_m"`
-	AzimuthDeg       float64   `json:"azimuth_deg"` // from the transmitting end, clockwise from true north
-	Terrain          string    `json:"terrain"`     // terrain, smooth earth or profile file
+	From       string  `json:"from,omitempty"`
+	To         string  `json:"to,omitempty"`
+	Direction  string  `json:"direction,omitempty"` // e.g. "talk-in", "talk-out", "out", "back"
+	FreqMHz    float64 `json:"freq_mhz"`
+	DistanceM  float64 `json:"distance_m"`
+	AzimuthDeg float64 `json:"azimuth_deg"` // at the transmitting end towards the receiver, clockwise from true north
+	// RxAzimuthDeg is the azimuth at the receiving end towards the
+	// transmitter. On a geodesic it differs from AzimuthDeg ± 180° (Karney
+	// 2013: the forward azimuths at the two ends are not opposite).
+	RxAzimuthDeg     float64   `json:"rx_azimuth_deg"`
+	Terrain          string    `json:"terrain"` // terrain, smooth earth or profile file
 	Model            string    `json:"model"`
 	FreeSpaceLossDB  float64   `json:"free_space_loss_db"`
 	ExcessLossDB     float64   `json:"excess_loss_db"`
@@ -221,9 +225,9 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		RxGroundM:        g.Profile.ElevM[n-1],
 	}
 	if txAtFrom {
-		r.AzimuthDeg = g.Profile.AzimuthDeg
+		r.AzimuthDeg, r.RxAzimuthDeg = g.Profile.AzimuthDeg, g.Profile.BackAzimuthDeg
 	} else {
-		r.AzimuthDeg = g.Profile.BackAzimuthDeg
+		r.AzimuthDeg, r.RxAzimuthDeg = g.Profile.BackAzimuthDeg, g.Profile.AzimuthDeg
 		r.TxGroundM, r.RxGroundM = r.RxGroundM, r.TxGroundM
 	}
 	if loss.ObstacleIndex >= 0 && !math.IsInf(loss.WorstClearanceF1, 0) {

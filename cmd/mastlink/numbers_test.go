@@ -1,12 +1,16 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/mastlink/mastlink/plan"
 )
 
 // offDEMTargets writes a GPX file with one waypoint outside the demo's two
@@ -102,4 +106,85 @@ func units_SMeterOver(dBm, s9 float64) string {
 		return fmt.Sprintf("S9+%gdB", over)
 	}
 	return "S9"
+}
+
+// geodSolveAzimuths runs GeographicLib's GeodSolve (Debian
+// geographiclib-tools) on the inverse problem and returns azi1 and azi2,
+// degrees in [0, 360).
+func geodSolveAzimuths(t *testing.T, lat1, lon1, lat2, lon2 float64) (azi1, azi2 float64) {
+	t.Helper()
+	path, err := exec.LookPath("GeodSolve")
+	if err != nil {
+		if os.Getenv("MASTLINK_REQUIRE_CROSSCHECKS") == "1" {
+			t.Fatal("GeodSolve (Debian geographiclib-tools) not found and MASTLINK_REQUIRE_CROSSCHECKS=1")
+		}
+		t.Skip("GeodSolve (Debian geographiclib-tools) not found; install it to run this cross-check")
+	}
+	cmd := exec.Command(path, "-i", "-p", "9")
+	cmd.Stdin = strings.NewReader(fmt.Sprintf("%.12f %.12f %.12f %.12f\n", lat1, lon1, lat2, lon2))
+	out, err := cmd.Output()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s12 float64
+	if _, err := fmt.Sscan(string(out), &azi1, &azi2, &s12); err != nil {
+		t.Fatalf("GeodSolve output %q: %v", out, err)
+	}
+	return math.Mod(azi1+360, 360), math.Mod(azi2+360, 360)
+}
+
+// TestPlanBearings: each link row's azimuth_deg is the forward azimuth at
+// its transmitting end and rx_azimuth_deg the one at its receiving end,
+// both checked against GeodSolve on the demo's station and repeater (the
+// azimuth at the far end back towards the station is GeodSolve's azi2 +
+// 180°, not the station's azi1 + 180°); the briefing table shows the
+// station's own bearing to the target in both rows.
+func TestPlanBearings(t *testing.T) {
+	p, err := plan.ReadPlan(demoPlan)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, rep := p.Stations[0], p.Targets[0]
+	fwd, azi2 := geodSolveAzimuths(t, st.Pos.Lat(), st.Pos.Lon(), rep.Pos.Lat(), rep.Pos.Lon())
+	back, _ := geodSolveAzimuths(t, rep.Pos.Lat(), rep.Pos.Lon(), st.Pos.Lat(), st.Pos.Lon())
+	if d := math.Abs(math.Mod(azi2+180, 360) - back); d > 1e-6 {
+		t.Fatalf("GeodSolve: back azimuth %.9f is not azi2 + 180° (%.9f)", back, azi2)
+	}
+	js, _, code := runCmd(t, "plan", demoPlan, "--format", "json")
+	if code != 0 {
+		t.Fatal(code)
+	}
+	var res plan.PlanResult
+	if err := json.Unmarshal([]byte(js), &res); err != nil {
+		t.Fatal(err)
+	}
+	angle := func(a, b float64) float64 { return math.Abs(math.Remainder(a-b, 360)) }
+	for _, l := range res.Links {
+		var tx, rx float64
+		switch {
+		case l.Direction == plan.DirTalkIn && l.To == rep.Name:
+			tx, rx = fwd, back
+		case l.Direction == plan.DirTalkOut && l.From == rep.Name:
+			tx, rx = back, fwd
+		default:
+			continue
+		}
+		if angle(l.AzimuthDeg, tx) > 1e-6 || angle(l.RxAzimuthDeg, rx) > 1e-6 {
+			t.Errorf("%s: azimuth %.9f / rx %.9f, GeodSolve %.9f / %.9f", l.Direction, l.AzimuthDeg, l.RxAzimuthDeg, tx, rx)
+		}
+	}
+	out, _, _ := runCmd(t, "plan", demoPlan)
+	want := fmt.Sprintf("%03.0f°", fwd)
+	n := 0
+	for _, line := range strings.Split(out, "\n") {
+		if strings.HasPrefix(line, "  "+rep.Name+" ") && (strings.Contains(line, " talk-in ") || strings.Contains(line, " talk-out ")) {
+			n++
+			if !strings.Contains(line, want) {
+				t.Errorf("row %q lacks the station's bearing %s", line, want)
+			}
+		}
+	}
+	if n != 2 {
+		t.Errorf("found %d repeater rows", n)
+	}
 }

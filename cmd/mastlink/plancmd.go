@@ -153,16 +153,18 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			if l.From != s.Name && l.To != s.Name {
 				continue
 			}
+			// The bearing is the station's own, towards the target, in every
+			// row: the receiving end's azimuth when the target transmits.
 			target := l.To
 			bearing := l.AzimuthDeg
 			if l.To == s.Name {
 				target = l.From
-				bearing = math.Mod(l.AzimuthDeg+180, 360) // shown from the station
+				bearing = l.RxAzimuthDeg
 			}
 			if l.Optional {
 				target += " (optional)"
 			}
-			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), bearingText(bearing),
 				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
 		}
 		t.flush()
@@ -195,6 +197,11 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	} else {
 		fmt.Fprintln(w, "Verdict: some required links fall short; see the table above and the mast sweep.")
 	}
+}
+
+// bearingText renders an azimuth as whole degrees "047°", 359.6° as "000°".
+func bearingText(deg float64) string {
+	return fmt.Sprintf("%03.0f°", math.Mod(math.Round(deg), 360))
 }
 
 func keepout(m float64, im bool) string {
