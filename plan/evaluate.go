@@ -89,9 +89,12 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 			}
 			ok := true
 			for _, l := range links {
-				ok = ok && *l.MeetsRequirement
+				ok = ok && l.MeetsRequirement != nil && *l.MeetsRequirement
 			}
-			if !tg.Optional {
+			if links[0].SamePlace {
+				res.Warnings = appendNew(res.Warnings, fmt.Sprintf("%s and %s are at the same place (%.6f,%.6f): their link is not evaluated and not counted; check the two positions",
+					st.Name, tg.Name, tg.Pos.Lat(), tg.Pos.Lon()))
+			} else if !tg.Optional {
 				sum.Of++
 				if ok {
 					sum.Reached++
@@ -132,8 +135,22 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 // targetLinks evaluates the links between a station and a target over g
 // (station at g.From): talk-in and talk-out for a repeater, out and back
 // for a simplex target, each judged against the needed margin.
+//
+// When the two are closer than SamePlaceM the links are marked SamePlace,
+// with the names, direction and frequency only.
 func (e *Env) targetLinks(g *Geometry, st End, tg Target, needDB float64) ([]LinkResult, error) {
 	out := make([]LinkResult, 0, 2)
+	if g.Profile.DistanceM < SamePlaceM {
+		for _, d := range tg.directions() {
+			r := LinkResult{From: st.Name, To: tg.Name, Direction: d.name, FreqMHz: d.freqMHz, DistanceM: g.Profile.DistanceM,
+				Terrain: g.Source, Model: e.model().Name(), SamePlace: true, Optional: tg.Optional}
+			if !d.nearTx {
+				r.From, r.To = tg.Name, st.Name
+			}
+			out = append(out, r)
+		}
+		return out, nil
+	}
 	for _, d := range tg.directions() {
 		var r LinkResult
 		var err error

@@ -12,6 +12,16 @@ import (
 	"github.com/paulmach/orb"
 )
 
+// SamePlaceM is the distance in metres below which the two ends of a link
+// are taken as one place: there is no path for a propagation model to
+// work on (ITU-R P.526 and P.525 need a path length), and two radios at one
+// spot reach each other anyway.
+const SamePlaceM = 1
+
+// ErrSamePlace is wrapped when the two ends of a link are closer than
+// SamePlaceM.
+var ErrSamePlace = errors.New("same place")
+
 // Env is what every link evaluation shares: the terrain, the propagation
 // model and the radio climate. An Env is safe for concurrent use; each
 // goroutine needs its own Geometry.
@@ -161,18 +171,26 @@ type LinkResult struct {
 	Probability      *float64  `json:"probability"`        // of a working link at the location, with σ; null without σ
 	NeededMarginDB   *float64  `json:"needed_margin_db,omitempty"`
 	MeetsRequirement *bool     `json:"meets_requirement,omitempty"`
-	Optional         bool      `json:"optional,omitempty"` // a target the requirement does not cover
-	TxGroundM        float64   `json:"tx_ground_m"`        // terrain height at the transmitting end, m
-	RxGroundM        float64   `json:"rx_ground_m"`
+	// SamePlace marks a link whose two ends are closer than SamePlaceM:
+	// nothing is evaluated (the figures are 0), it counts neither for nor
+	// against the requirement, and a warning says so.
+	SamePlace bool    `json:"same_place,omitempty"`
+	Optional  bool    `json:"optional,omitempty"` // a target the requirement does not cover
+	TxGroundM float64 `json:"tx_ground_m"`        // terrain height at the transmitting end, m
+	RxGroundM float64 `json:"rx_ground_m"`
 }
 
 // Evaluate computes the budget from tx to rx over g. tx is at g.From when
 // txAtFrom is true, else at g.To; the path loss is computed on g in its own
 // orientation (ITU-R P.526 diffraction is reciprocal), so one Geometry
-// serves both directions.
+// serves both directions. Ends closer than SamePlaceM give an error
+// wrapping ErrSamePlace.
 func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) (LinkResult, error) {
 	if !(freqMHz > 0) {
 		return LinkResult{}, errors.New("no frequency given")
+	}
+	if d := g.Profile.DistanceM; d < SamePlaceM {
+		return LinkResult{}, fmt.Errorf("%w: %s and %s are %.2f m apart; a link needs two places", ErrSamePlace, tx.Name, rx.Name, d)
 	}
 	fromEnd, toEnd := tx, rx
 	if !txAtFrom {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -136,6 +137,9 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		return err
 	}
 	r, err := env.Evaluate(geo, tx, rx, freq, true)
+	if errors.Is(err, plan.ErrSamePlace) {
+		return usagef("--from and --to are the same place (%s apart): a link needs two places", units.FormatLength(geo.Profile.DistanceM, g.imperial()))
+	}
 	if err != nil {
 		return err
 	}

@@ -188,3 +188,118 @@ func TestPlanBearings(t *testing.T) {
 		t.Errorf("found %d repeater rows", n)
 	}
 }
+
+// samePlacePlan writes a plan whose second target stands where the station
+// does (invented positions on the demo's terrain).
+func samePlacePlan(t *testing.T) string {
+	t.Helper()
+	dir := t.TempDir()
+	abs, err := filepath.Abs(demoTerrain)
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := `name: same place
+frequency: 146.55MHz
+terrain: ` + abs + `
+require: {margin: 10dB}
+defaults:
+  radio: {power: 5W, sensitivity: 0.25uV}
+  antenna: {gain: 0dBi, height: 1.5m}
+stations:
+  - name: Base
+    at: "-48.49666,-123.87788"
+    radio: {power: 25W, sensitivity: 0.25uV}
+    antenna: {gain: 2.15dBi, height: 9m}
+targets:
+  - name: Far Team
+    at: "-48.52,-123.95"
+  - name: Tent
+    at: "-48.49666,-123.87788"
+mast:
+  heights: 2m..4m step 1m
+  cables: [RG-58]
+  run: 10m
+`
+	p := filepath.Join(dir, "plan.yaml")
+	if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// TestPlanSamePlace: a target at the station's own place does not fail the
+// plan; its rows say "same place", are marked in JSON, are not counted, and
+// a warning names both.
+func TestPlanSamePlace(t *testing.T) {
+	p := samePlacePlan(t)
+	out, stderr, code := runCmd(t, "plan", p)
+	if code != 0 {
+		t.Fatalf("code %d: %s", code, stderr)
+	}
+	if !strings.Contains(out, "same place") || !strings.Contains(out, "reaches 1 of 1 required targets") && !strings.Contains(out, "reaches 0 of 1 required targets") {
+		t.Errorf("briefing:\n%s", out)
+	}
+	if !strings.Contains(stderr, "Base and Tent are at the same place") {
+		t.Errorf("stderr: %q", stderr)
+	}
+	js, _, code := runCmd(t, "plan", p, "--format", "json")
+	if code != 0 {
+		t.Fatal(code)
+	}
+	var res plan.PlanResult
+	if err := json.Unmarshal([]byte(js), &res); err != nil {
+		t.Fatal(err)
+	}
+	marked := 0
+	for _, l := range res.Links {
+		if l.SamePlace {
+			marked++
+			if l.MeetsRequirement != nil {
+				t.Errorf("same-place link judged: %+v", l)
+			}
+		}
+	}
+	if marked != 2 || res.Stations[0].Of != 1 || res.Mast == nil {
+		t.Errorf("marked %d, of %d, mast %v", marked, res.Stations[0].Of, res.Mast)
+	}
+	// -o writes the outputs without a line of zero length or an infinite margin.
+	dir := filepath.Join(t.TempDir(), "out")
+	if _, stderr, code := runCmd(t, "plan", p, "-o", dir); code != 0 {
+		t.Fatalf("-o: code %d: %s", code, stderr)
+	}
+	b, _ := os.ReadFile(filepath.Join(dir, "plan.gpx"))
+	if strings.Contains(string(b), "Inf") || !strings.Contains(string(b), "not evaluated") {
+		t.Errorf("plan.gpx:\n%s", b)
+	}
+}
+
+// TestSitesSamePlace: a candidate at a target's place leaves that target
+// out of its figures and says so (stderr and JSON warnings).
+func TestSitesSamePlace(t *testing.T) {
+	// The demo's candidate "Quillet Col" is a waypoint of candidates.gpx; a
+	// target file with a waypoint at the same place and one elsewhere.
+	dir := t.TempDir()
+	cands := filepath.Join(dir, "c.gpx")
+	tg := filepath.Join(dir, "t.gpx")
+	os.WriteFile(cands, []byte(`<?xml version="1.0"?><gpx version="1.1" creator="t" xmlns="http://www.topografix.com/GPX/1/1">
+<wpt lat="-48.50" lon="-123.90"><name>Knoll</name></wpt><wpt lat="-48.51" lon="-123.92"><name>Ridge</name></wpt></gpx>`), 0o644)
+	os.WriteFile(tg, []byte(`<?xml version="1.0"?><gpx version="1.1" creator="t" xmlns="http://www.topografix.com/GPX/1/1">
+<wpt lat="-48.50" lon="-123.90"><name>Hut</name></wpt><wpt lat="-48.53" lon="-123.96"><name>Camp</name></wpt></gpx>`), 0o644)
+	out, stderr, code := runCmd(t, "sites", cands, "--dem", demoTerrain, "--targets", tg, "--freq", "146.55", "--format", "json")
+	if code != 0 {
+		t.Fatalf("code %d: %s", code, stderr)
+	}
+	if !strings.Contains(stderr, "candidate Knoll is at the same place as Hut") {
+		t.Errorf("stderr: %q", stderr)
+	}
+	m := decodeJSON(t, out)
+	for _, s := range m["sites"].([]any) {
+		site := s.(map[string]any)
+		if site["name"] == "Knoll" && site["of"].(float64) != 1 {
+			t.Errorf("Knoll counts %v targets, want 1 (Hut left out)", site["of"])
+		}
+		if site["name"] == "Ridge" && site["of"].(float64) != 2 {
+			t.Errorf("Ridge counts %v targets, want 2", site["of"])
+		}
+	}
+}

@@ -164,6 +164,10 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			if l.Optional {
 				target += " (optional)"
 			}
+			if l.SamePlace {
+				t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), "-", "-", "-", "-", "-", "same place")
+				continue
+			}
 			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), bearingText(bearing),
 				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
 		}
@@ -259,6 +263,9 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 	inputs := p.InputFiles
 	fc := geojson.NewFeatureCollection()
 	for _, l := range res.Links {
+		if l.SamePlace { // no line to draw
+			continue
+		}
 		a, b := endpoints(p, l)
 		f := geojson.NewFeature(orb.LineString{a, b})
 		f.Properties["from"] = l.From
@@ -340,15 +347,18 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 		worst := math.Inf(1)
 		var parts []string
 		for _, l := range res.Links {
-			if l.From == t.Name || l.To == t.Name {
+			if (l.From == t.Name || l.To == t.Name) && !l.SamePlace {
 				if l.MarginDB < worst {
 					worst = l.MarginDB
 				}
 				parts = append(parts, fmt.Sprintf("%s %+.1f dB", l.Direction, l.MarginDB))
 			}
 		}
-		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
-			Description: fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))})
+		desc := fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))
+		if len(parts) == 0 {
+			desc = "not evaluated: at a station's place"
+		}
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint", Description: desc})
 	}
 	b, err := gpx.Encode(out)
 	if err != nil {
