@@ -124,7 +124,14 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		}
 		geo = &plan.Geometry{}
 		if err := env.Measure(from, to, geo); err != nil {
+			if errors.Is(err, terrain.ErrTooManySamples) {
+				return usagef("--step: %v", err)
+			}
 			return err
+		}
+		if env.StepM > geo.Profile.DistanceM && geo.Profile.DistanceM >= plan.SamePlaceM {
+			return usagef("--step %s is longer than the path (%s): give a shorter step, or leave it out for the elevation data's spacing",
+				units.FormatLength(env.StepM, g.imperial()), units.FormatLength(geo.Profile.DistanceM, g.imperial()))
 		}
 		out.Warnings = addWarnings(out.Warnings, missingWarning(env.Terrain))
 	}

@@ -303,3 +303,30 @@ func TestSitesSamePlace(t *testing.T) {
 		}
 	}
 }
+
+// TestStepRefusals: a step longer than the path, or so short that the
+// profile would need more samples than allowed, is refused in plain words
+// naming --step (exit 2, no 19-digit sample count); at the pole the
+// elevation data's spacing no longer collapses to nothing.
+func TestStepRefusals(t *testing.T) {
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"profile", "--from", "-48.5,-123.9", "--to", "-48.6,-123.95", "--step", "1e9m"}, "--step 1000000.00 km is longer than the path (11.72 km)"},
+		{[]string{"link", "--from", "-48.5,-123.9", "--to", "-48.6,-123.95", "--freq", "146", "--step", "1e9m"}, "--step 1000000.00 km is longer than the path"},
+		{[]string{"profile", "--from", "-48.5,-123.9", "--to", "-48.6,-123.95", "--step", "1e-9m"}, "--step: a profile of 11717 m at a 1e-09 m step would need more than 10000000 samples; use a step of at least 0.002 m"},
+		{[]string{"link", "--from", "-48.5,-123.9", "--to", "-48.6,-123.95", "--freq", "146", "--step", "1e-9m"}, "--step: a profile of 11717 m"},
+	}
+	for _, c := range cases {
+		_, stderr, code := runCmd(t, append(c.args, "--dem", demoTerrain)...)
+		if code != 2 || !strings.Contains(stderr, c.want) {
+			t.Errorf("%v: code %d, stderr %q; want %q", c.args, code, stderr, c.want)
+		}
+	}
+	// A pole with elevation data given: the automatic step is at least 1 m.
+	_, stderr, code := runCmd(t, "profile", "--from", "90,0", "--to", "89.9,0", "--dem", demoTerrain)
+	if code != 0 || strings.Contains(stderr, "samples") {
+		t.Errorf("pole: code %d, %q", code, stderr)
+	}
+}
