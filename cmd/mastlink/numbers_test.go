@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -11,6 +12,7 @@ import (
 	"testing"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/gpx"
 )
 
 // offDEMTargets writes a GPX file with one waypoint outside the demo's two
@@ -328,5 +330,57 @@ func TestStepRefusals(t *testing.T) {
 	_, stderr, code := runCmd(t, "profile", "--from", "90,0", "--to", "89.9,0", "--dem", demoTerrain)
 	if code != 0 || strings.Contains(stderr, "samples") {
 		t.Errorf("pole: code %d, %q", code, stderr)
+	}
+}
+
+// TestPlanOutputsSameBytes: the same plan written twice with -o gives the
+// same bytes in every file (no time of writing); plan.gpx carries ground
+// heights to 0.1 m (267.5 m at Valley Base: the demo tile, bilinear) and
+// each place once; the route GPX of the demo has no duplicate waypoints.
+func TestPlanOutputsSameBytes(t *testing.T) {
+	a, b := filepath.Join(t.TempDir(), "a"), filepath.Join(t.TempDir(), "b")
+	for _, dir := range []string{a, b} {
+		if _, stderr, code := runCmd(t, "plan", demoPlan, "-o", dir); code != 0 {
+			t.Fatalf("code %d: %s", code, stderr)
+		}
+	}
+	names, _ := filepath.Glob(filepath.Join(a, "*"))
+	if len(names) < 4 {
+		t.Fatalf("wrote %v", names)
+	}
+	for _, n := range names {
+		x, _ := os.ReadFile(n)
+		y, err := os.ReadFile(filepath.Join(b, filepath.Base(n)))
+		if err != nil || !bytes.Equal(x, y) {
+			t.Errorf("%s differs between two runs (%v)", filepath.Base(n), err)
+		}
+	}
+	g, _ := os.ReadFile(filepath.Join(a, "plan.gpx"))
+	s := string(g)
+	if strings.Contains(s, "<time>") || !strings.Contains(s, "<ele>267.5</ele>") {
+		t.Errorf("plan.gpx:\n%s", s)
+	}
+	noDuplicateWaypoints(t, "plan.gpx", g)
+	r := filepath.Join(t.TempDir(), "hike.gpx")
+	if _, stderr, code := runCmd(t, "route", demoHike, "--plan", demoPlan, "-o", r); code != 0 {
+		t.Fatalf("route: %s", stderr)
+	}
+	rb, _ := os.ReadFile(r)
+	noDuplicateWaypoints(t, "route GPX", rb)
+}
+
+func noDuplicateWaypoints(t *testing.T, what string, doc []byte) {
+	t.Helper()
+	f, err := gpx.Decode(doc, what)
+	if err != nil {
+		t.Fatal(err)
+	}
+	seen := map[string]bool{}
+	for _, w := range f.Waypoints {
+		k := fmt.Sprintf("%s@%v", w.Name, w.Pos)
+		if seen[k] {
+			t.Errorf("%s: waypoint %q twice at %v", what, w.Name, w.Pos)
+		}
+		seen[k] = true
 	}
 }

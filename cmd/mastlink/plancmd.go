@@ -8,7 +8,6 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
-	"time"
 
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/exposure"
@@ -336,11 +335,11 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 // writePlanGPX writes the plan's places as waypoints annotated with their
 // worst margins, for a GPS.
 func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResult) error {
-	now := time.Now().UTC().Truncate(time.Second)
+	// No time of writing: the same plan gives the same bytes.
 	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
 		sum := res.Stations[i]
-		out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Symbol: "Flag",
 			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", units.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
 	}
 	for _, t := range p.Targets {
@@ -358,7 +357,7 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 		if len(parts) == 0 {
 			desc = "not evaluated: at a station's place"
 		}
-		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint", Description: desc})
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Symbol: "Waypoint", Description: desc})
 	}
 	b, err := gpx.Encode(out)
 	if err != nil {

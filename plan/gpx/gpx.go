@@ -465,11 +465,15 @@ type Output struct {
 	Routes    []Track // written as <rte>, e.g. closed keep-out circles
 }
 
-// Encode renders out as a GPX 1.1 document. Times are written in UTC
-// (xsd:dateTime with a Z suffix); NaN elevations are omitted.
+// Encode renders out as a GPX 1.1 document, the same bytes for the same
+// Output. Times are written in UTC (xsd:dateTime with a Z suffix), and only
+// where a Place has one (no time of writing is added); elevations are
+// rounded to 0.1 m and NaN ones omitted. Waypoints with the same name at
+// the same position are written once, their descriptions joined with
+// "; ".
 func Encode(out Output) ([]byte, error) {
 	g := &gpxgo.GPX{Version: "1.1", Creator: "mastlink", Name: out.Name}
-	for _, w := range out.Waypoints {
+	for _, w := range uniqueWaypoints(out.Waypoints) {
 		g.Waypoints = append(g.Waypoints, gpxPoint(w))
 	}
 	for _, t := range out.Tracks {
@@ -498,11 +502,37 @@ func gpxPoint(p Place) gpxgo.GPXPoint {
 		Point: gpxgo.Point{Latitude: p.Pos.Lat(), Longitude: p.Pos.Lon()},
 		Name:  p.Name, Description: p.Description, Symbol: p.Symbol,
 	}
-	if !math.IsNaN(p.ElevM) {
-		w.Elevation = *gpxgo.NewNullableFloat64(p.ElevM)
+	if !math.IsNaN(p.ElevM) && !math.IsInf(p.ElevM, 0) {
+		w.Elevation = *gpxgo.NewNullableFloat64(math.Round(p.ElevM*10) / 10)
 	}
 	if !p.Time.IsZero() {
 		w.Timestamp = p.Time.UTC()
 	}
 	return w
+}
+
+// uniqueWaypoints returns ws with later waypoints of the same name and
+// position merged into the first: descriptions not yet present are joined
+// with "; ".
+func uniqueWaypoints(ws []Place) []Place {
+	out := make([]Place, 0, len(ws))
+	for _, w := range ws {
+		dup := false
+		for i := range out {
+			if out[i].Name == w.Name && out[i].Pos == w.Pos {
+				if w.Description != "" && !strings.Contains(out[i].Description, w.Description) {
+					if out[i].Description != "" {
+						out[i].Description += "; "
+					}
+					out[i].Description += w.Description
+				}
+				dup = true
+				break
+			}
+		}
+		if !dup {
+			out = append(out, w)
+		}
+	}
+	return out
 }

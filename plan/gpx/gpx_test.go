@@ -1,6 +1,7 @@
 package gpx
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"math"
@@ -260,4 +261,33 @@ func FuzzDecodeTrack(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestEncodeSameBytes: Encode adds no time of writing, rounds elevations
+// to 0.1 m and writes a waypoint given twice (same name and position) once.
+func TestEncodeSameBytes(t *testing.T) {
+	out := Output{Name: "x", Waypoints: []Place{
+		{Name: "Base", Pos: orb.Point{-123.8778833, -48.4966558}, ElevM: 267.4599599999922, Description: "station"},
+		{Name: "Spot", Pos: orb.Point{-124, -48.5}, ElevM: math.NaN(), Description: "before gap 2"},
+		{Name: "Spot", Pos: orb.Point{-124, -48.5}, ElevM: math.NaN(), Description: "after gap 1"},
+		{Name: "Spot", Pos: orb.Point{-124.1, -48.5}, ElevM: math.NaN()},
+	}}
+	a, err := Encode(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := Encode(out)
+	if !bytes.Equal(a, b) {
+		t.Error("two encodings differ")
+	}
+	s := string(a)
+	if strings.Contains(s, "<time>") {
+		t.Errorf("a time was added:\n%s", s)
+	}
+	if !strings.Contains(s, "<ele>267.5</ele>") {
+		t.Errorf("elevation not rounded to 0.1 m:\n%s", s)
+	}
+	if n := strings.Count(s, "<wpt"); n != 3 || !strings.Contains(s, "before gap 2; after gap 1") {
+		t.Errorf("%d waypoints, want 3 with the duplicate merged:\n%s", n, s)
+	}
 }
