@@ -266,7 +266,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 			continue
 		}
 		a, b := endpoints(p, l)
-		f := geojson.NewFeature(orb.LineString{a, b})
+		f := geojson.NewFeature(splitAntimeridian(orb.LineString{a, b}))
 		f.Properties["from"] = l.From
 		f.Properties["to"] = l.To
 		f.Properties["direction"] = l.Direction

@@ -205,7 +205,7 @@ func routeGeoJSON(r *plan.RouteResult) *geojson.FeatureCollection {
 			j++
 		}
 		from, to := edge(k), edge(j)
-		f := geojson.NewFeature(r.Piece(from, to))
+		f := geojson.NewFeature(splitAntimeridian(r.Piece(from, to)))
 		f.Properties["covered"] = pts[k].Covered
 		f.Properties["start_m"] = round2(from)
 		f.Properties["end_m"] = round2(to)
