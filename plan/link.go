@@ -82,6 +82,9 @@ type Geometry struct {
 	// Source says where the heights came from: "terrain", "smooth earth"
 	// (no elevation data covered the path), or "profile file".
 	Source string
+	// modelWarn gathers the ITM warnings of every PathLoss over the path
+	// since it was measured.
+	modelWarn propagation.ITMWarnings
 }
 
 // Measure fills g with the terrain profile between a and b along the WGS84
@@ -92,6 +95,7 @@ func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 		return err
 	}
 	g.Source = "terrain"
+	g.modelWarn = 0
 	if g.Profile.NoData == len(g.Profile.ElevM) {
 		g.Source = "smooth earth"
 	}
@@ -150,27 +154,29 @@ type LinkResult struct {
 	// RxAzimuthDeg is the azimuth at the receiving end towards the
 	// transmitter. On a geodesic it differs from AzimuthDeg ± 180° (Karney
 	// 2013: the forward azimuths at the two ends are not opposite).
-	RxAzimuthDeg     float64   `json:"rx_azimuth_deg"`
-	Terrain          string    `json:"terrain"` // terrain, smooth earth or profile file
-	Model            string    `json:"model"`
-	FreeSpaceLossDB  float64   `json:"free_space_loss_db"`
-	ExcessLossDB     float64   `json:"excess_loss_db"`
-	PathLossDB       float64   `json:"path_loss_db"`
-	TxPowerDBm       float64   `json:"tx_power_dbm"`
-	TxFeedlineLossDB float64   `json:"tx_feedline_loss_db"`
-	TxGainDBi        float64   `json:"tx_gain_dbi"`
-	EIRPDBm          float64   `json:"eirp_dbm"`
-	RxGainDBi        float64   `json:"rx_gain_dbi"`
-	RxFeedlineLossDB float64   `json:"rx_feedline_loss_db"`
-	RxPowerDBm       float64   `json:"rx_power_dbm"`
-	RxSensitivityDBm float64   `json:"rx_sensitivity_dbm"`
-	MarginDB         float64   `json:"margin_db"`
-	LineOfSight      bool      `json:"line_of_sight"`
-	WorstClearanceF1 *float64  `json:"worst_clearance_f1"` // null when the path has no intermediate points
-	Obstacle         *Obstacle `json:"obstacle"`           // null when the path has no intermediate points
-	Probability      *float64  `json:"probability"`        // of a working link at the location, with σ; null without σ
-	NeededMarginDB   *float64  `json:"needed_margin_db,omitempty"`
-	MeetsRequirement *bool     `json:"meets_requirement,omitempty"`
+	RxAzimuthDeg     float64    `json:"rx_azimuth_deg"`
+	Terrain          string     `json:"terrain"` // terrain, smooth earth or profile file
+	Model            string     `json:"model"`
+	FreeSpaceLossDB  float64    `json:"free_space_loss_db"`
+	ExcessLossDB     float64    `json:"excess_loss_db"`
+	PathLossDB       float64    `json:"path_loss_db"`
+	TxPowerDBm       float64    `json:"tx_power_dbm"`
+	TxFeedlineLossDB float64    `json:"tx_feedline_loss_db"`
+	TxGainDBi        float64    `json:"tx_gain_dbi"`
+	EIRPDBm          float64    `json:"eirp_dbm"`
+	RxGainDBi        float64    `json:"rx_gain_dbi"`
+	RxFeedlineLossDB float64    `json:"rx_feedline_loss_db"`
+	RxPowerDBm       float64    `json:"rx_power_dbm"`
+	RxSensitivityDBm float64    `json:"rx_sensitivity_dbm"`
+	MarginDB         float64    `json:"margin_db"`
+	ITM              *ITMReport `json:"itm,omitempty"`      // the Longley–Rice ITM's intermediate values and settings (model itm only)
+	Warnings         []string   `json:"warnings,omitempty"` // the model's warnings for this path
+	LineOfSight      bool       `json:"line_of_sight"`
+	WorstClearanceF1 *float64   `json:"worst_clearance_f1"` // null when the path has no intermediate points
+	Obstacle         *Obstacle  `json:"obstacle"`           // null when the path has no intermediate points
+	Probability      *float64   `json:"probability"`        // of a working link at the location, with σ; null without σ
+	NeededMarginDB   *float64   `json:"needed_margin_db,omitempty"`
+	MeetsRequirement *bool      `json:"meets_requirement,omitempty"`
 	// SamePlace marks a link whose two ends are closer than SamePlaceM:
 	// nothing is evaluated (the figures are 0), it counts neither for nor
 	// against the requirement, and a warning says so.
@@ -258,6 +264,12 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		}
 		r.Obstacle = &Obstacle{DistanceM: d, Lat: g.Profile.Lat[i], Lon: g.Profile.Lon[i], ElevationM: g.Profile.ElevM[i]}
 	}
+	if m, ok := e.model().(propagation.ITM); ok {
+		r.ITM = newITMReport(m, loss.ITM, !txAtFrom)
+		for _, w := range loss.ITM.Warnings.Messages() {
+			r.Warnings = append(r.Warnings, "ITM: "+w)
+		}
+	}
 	if e.SigmaDB > 0 {
 		p := propagation.LinkProbability(r.MarginDB, e.SigmaDB)
 		r.Probability = &p
@@ -266,7 +278,8 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 }
 
 // PathLoss returns the propagation loss over g between antennas hFromM and
-// hToM metres above the ground at g.From and g.To, at freqMHz.
+// hToM metres above the ground at g.From and g.To, at freqMHz. The
+// model's warnings (Longley–Rice ITM) are added to g's.
 func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.Result, error) {
 	k := e.K
 	if k == 0 {
@@ -280,7 +293,9 @@ func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.
 		Polarization:  e.Polarization,
 		Ground:        e.Ground,
 	}
-	return e.model().Loss(g.path, prm)
+	r, err := e.model().Loss(g.path, prm)
+	g.modelWarn |= r.ITM.Warnings
+	return r, err
 }
 
 // ParsePolarization returns the polarization named by s: "vertical" or

@@ -113,6 +113,8 @@ type RouteResult struct {
 	Walker          string        `json:"walker"` // the kit carried
 	SpacingM        float64       `json:"spacing_m"`
 	NeededMarginDB  float64       `json:"needed_margin_db"`
+	DefaultMargin   bool          `json:"default_margin"`    // nothing was asked: plan.DefaultMarginDB
+	WhatIf          []string      `json:"what_if,omitempty"` // options that replaced the plan's figures, as given ("--power 10W")
 	LengthM         float64       `json:"length_m"`
 	OverallFraction float64       `json:"overall_fraction"` // of the length where every required direction meets the margin
 	CoveredM        float64       `json:"covered_m"`
@@ -124,7 +126,8 @@ type RouteResult struct {
 	Terrain         string        `json:"terrain"` // "terrain" or "smooth earth" (no elevation data on any path)
 	// Warnings are what the figures should be read with: a frequency
 	// outside the model's band or a cable's fitted range, a 75 Ω cable
-	// (see Env.FrequencyWarnings); commands add missing elevation data.
+	// (see Env.FrequencyWarnings), the model's warnings (Longley–Rice ITM)
+	// with the number of paths; commands add missing elevation data.
 	Warnings []string   `json:"warnings"`
 	line     *trackLine // for positions between points
 }
@@ -205,6 +208,7 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	// then follow nearly the same path, so the tile rows they read stay in
 	// the processor's cache.
 	smooth := make([]bool, n*nt)
+	warns := make([]propagation.ITMWarnings, n*nt)
 	err = runParallel(ctx, n*nt, progress, func(g *Geometry, job int) error {
 		t, i := job/n, job%n
 		p := &res.Points[i]
@@ -217,12 +221,14 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 			p.ElevationM = g.Profile.ElevM[0]
 		}
 		smooth[job] = g.Source == "smooth earth"
+		warns[job] = g.modelWarn
 		p.MarginsDB[t] = m
 		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
+	res.Warnings = appendNew(res.Warnings, itmWarningLines(warns)...)
 	res.Terrain = "smooth earth"
 	for _, s := range smooth {
 		if !s {

@@ -8,6 +8,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/propagation"
 )
 
 // SitesRequest is what Env.RankSites ranks: candidate places for a station,
@@ -59,12 +60,15 @@ type SitesResult struct {
 	Station        string       `json:"station"` // whose kit is set up
 	HeightM        float64      `json:"height_m"`
 	NeededMarginDB float64      `json:"needed_margin_db"`
+	DefaultMargin  bool         `json:"default_margin"`           // nothing was asked: plan.DefaultMarginDB
+	WhatIf         []string     `json:"what_if,omitempty"`        // options that replaced the plan's figures, as given ("--power 10W")
 	MastHeightsM   []float64    `json:"mast_heights_m,omitempty"` // the sweep, when given
 	Sites          []SiteResult `json:"sites"`
 	Paths          int          `json:"paths"` // terrain profiles extracted
 	// Warnings are what the figures should be read with (see
-	// Env.FrequencyWarnings, and co-located candidates and targets);
-	// commands add missing elevation data.
+	// Env.FrequencyWarnings, co-located candidates and targets, and the
+	// model's warnings with the number of paths); commands add missing
+	// elevation data.
 	Warnings []string `json:"warnings"`
 }
 
@@ -117,6 +121,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	swept := make([]float64, nc*nt*nk) // worst over both legs, per config
 	ground := make([]float64, nc*nt)
 	same := make([]bool, nc*nt) // candidate and target at one place
+	warns := make([]propagation.ITMWarnings, nc*nt)
 	err = runParallel(ctx, nc*nt, progress, func(g *Geometry, i int) error {
 		c, t := i/nt, i%nt
 		pos := req.Candidates[c].Pos
@@ -139,6 +144,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 			}
 			swept[i*nk+k] = cf.legs[t].margins(&loss, buf[:])
 		}
+		warns[i] = g.modelWarn
 		return nil
 	})
 	if err != nil {
@@ -146,7 +152,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	}
 	need := req.NeededMarginDB
 	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
-		Warnings: e.legWarnings(req.Station, req.Targets)}
+		Warnings: appendNew(e.legWarnings(req.Station, req.Targets), itmWarningLines(warns)...)}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {

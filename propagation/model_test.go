@@ -14,6 +14,7 @@ func TestModelByName(t *testing.T) {
 	}{
 		{"terrain", "terrain", nil},
 		{" Free-Space ", "free-space", nil},
+		{"ITM", "itm", nil},
 		{"okumura", "", ErrUnknownModel},
 		{"", "", ErrUnknownModel},
 	}
@@ -35,7 +36,7 @@ func TestModelByName(t *testing.T) {
 // A model added to the registry shows up here and in ModelNames, with no
 // other edit.
 func TestModelRegistry(t *testing.T) {
-	want := []string{"terrain", "free-space"}
+	want := []string{"terrain", "free-space", "itm"}
 	names := ModelNames()
 	if len(names) < len(want) {
 		t.Fatalf("ModelNames() = %v, want at least %v", names, want)
@@ -195,6 +196,9 @@ func FuzzTerrainLoss(f *testing.F) {
 func TestFrequencyRange(t *testing.T) {
 	if lo, hi, ok := FrequencyRange(Terrain{}); !ok || lo != 30 || hi != 6000 {
 		t.Errorf("terrain: %v–%v MHz, %v", lo, hi, ok)
+	}
+	if lo, hi, ok := FrequencyRange(ITM{}); !ok || lo != 20 || hi != 20000 { // Hufford 1995
+		t.Errorf("itm: %v–%v MHz, %v", lo, hi, ok)
 	}
 	if _, _, ok := FrequencyRange(FreeSpace{}); ok {
 		t.Error("free space states a band")

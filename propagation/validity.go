@@ -27,3 +27,8 @@ func FrequencyRange(m Model) (loMHz, hiMHz float64, ok bool) {
 	lo, hi := r.FrequencyRangeMHz()
 	return lo, hi, true
 }
+
+// FrequencyRangeMHz returns 20–20 000 MHz, the range of the Longley–Rice
+// ITM (G. A. Hufford, "The ITS Irregular Terrain Model, version 1.2.2: the
+// Algorithm", NTIA/ITS, 1995); Loss refuses frequencies outside it.
+func (ITM) FrequencyRangeMHz() (loMHz, hiMHz float64) { return 20, 20000 }

@@ -18,9 +18,6 @@ func addPlanRoutesAndSites(ctx context.Context, g *globals, p *plan.Plan, env *p
 			return err
 		}
 		res.Routes = routes
-		for _, r := range routes {
-			res.Warnings = addWarnings(res.Warnings, r.Warnings...)
-		}
 	}
 	if len(p.Sites) > 0 {
 		bar := newProgress(g, "site paths")
@@ -30,7 +27,6 @@ func addPlanRoutesAndSites(ctx context.Context, g *globals, p *plan.Plan, env *p
 			return err
 		}
 		res.Sites = sites
-		res.Warnings = addWarnings(res.Warnings, sites.Warnings...)
 	}
 	return nil
 }
