@@ -42,4 +42,8 @@ type MastSweep struct {
 	Cables  []feedline.Cable // from the catalog, or described by the user
 	RunM    float64          // cable from the mast foot to the radio, metres
 	SlackM  float64          // extra cable for drip loops and the mast head, metres
+	// KeepoutLimitM, when above 0, is the largest public RF-exposure
+	// keep-out radius in metres the site allows (the clear space around
+	// the mast foot); rows above it are marked and never recommended.
+	KeepoutLimitM float64
 }

@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/propagation"
@@ -70,6 +71,7 @@ type SitesResult struct {
 	// model's warnings with the number of paths); commands add missing
 	// elevation data.
 	Warnings []string `json:"warnings"`
+	Cautions []string `json:"cautions"` // exposure.MastCautions, always present
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -152,7 +154,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	}
 	need := req.NeededMarginDB
 	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
-		Warnings: appendNew(e.legWarnings(req.Station, req.Targets), itmWarningLines(warns)...)}
+		Warnings: appendNew(e.legWarnings(req.Station, req.Targets), itmWarningLines(warns)...), Cautions: exposure.MastCautions()}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {
