@@ -19,6 +19,6 @@ func ExampleLinkBudget_Levels() {
 	}
 	l := b.Levels()
 	fmt.Printf("EIRP %.1f dBm, received %.1f dBm (%s), margin %.1f dB\n",
-		l.EIRPDBm, l.RxPowerDBm, units.SMeter(l.RxPowerDBm), l.MarginDB)
+		l.EIRPDBm, l.RxPowerDBm, units.SMeter(l.RxPowerDBm, 146.52), l.MarginDB)
 	// Output: EIRP 37.6 dBm, received -78.4 dBm (S9+15dB), margin 40.7 dB
 }

@@ -101,18 +101,26 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 	}
 	sums := make([]StationSummary, ns)
 	count := func(sum *StationSummary, links []LinkResult, optional bool) {
+		if optional || len(links) > 0 && links[0].SamePlace { // not counted
+			return
+		}
 		ok := true
 		for _, l := range links {
-			ok = ok && *l.MeetsRequirement
-		}
-		if optional {
-			return
+			ok = ok && l.MeetsRequirement != nil && *l.MeetsRequirement
 		}
 		sum.Of++
 		if ok {
 			sum.Reached++
 		} else {
 			res.MeetsRequirement = false
+		}
+	}
+	// samePlace warns of a pair whose links were not evaluated because its
+	// two ends are at one place.
+	samePlace := func(links []LinkResult, a, b string, lat, lon float64) {
+		if len(links) > 0 && links[0].SamePlace {
+			res.Warnings = appendNew(res.Warnings, fmt.Sprintf("%s and %s are at the same place (%.6f,%.6f): their link is not evaluated and not counted; check the two positions",
+				a, b, lat, lon))
 		}
 	}
 	geoms := make([][]*Geometry, ns)
@@ -137,7 +145,9 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 				return nil, err
 			}
 			count(&sums[si], links, tg.Optional)
+			samePlace(links, st.Name, tg.Name, tg.Pos.Lat(), tg.Pos.Lon())
 			res.Links = append(res.Links, links...)
+			res.Warnings = appendNew(res.Warnings, env.legWarnings(st.End, []Target{tg})...)
 			step()
 		}
 		if nt == 0 {
@@ -165,7 +175,9 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 			}
 			count(&sums[si], links, false)
 			count(&sums[sj], links, false)
+			samePlace(links, st.Name, other.Name, other.Pos.Lat(), other.Pos.Lon())
 			res.Links = append(res.Links, links...)
+			res.Warnings = appendNew(res.Warnings, env.legWarnings(st.End, []Target{stationTarget(p, other)})...)
 			step()
 		}
 	}
@@ -225,8 +237,22 @@ func stationTarget(p *Plan, s Station) Target {
 // targetLinks evaluates the links between a station and a target over g
 // (station at g.From): talk-in and talk-out for a repeater, out and back
 // for a simplex target, each judged against the needed margin.
+//
+// When the two are closer than SamePlaceM the links are marked SamePlace,
+// with the names, direction and frequency only.
 func (e *Env) targetLinks(g *Geometry, st End, tg Target, needDB float64) ([]LinkResult, error) {
 	out := make([]LinkResult, 0, 2)
+	if g.Profile.DistanceM < SamePlaceM {
+		for _, d := range tg.directions() {
+			r := LinkResult{From: st.Name, To: tg.Name, Direction: d.name, FreqMHz: d.freqMHz, DistanceM: g.Profile.DistanceM,
+				Terrain: g.Source, Model: e.model().Name(), SamePlace: true, Optional: tg.Optional}
+			if !d.nearTx {
+				r.From, r.To = tg.Name, st.Name
+			}
+			out = append(out, r)
+		}
+		return out, nil
+	}
 	for _, d := range tg.directions() {
 		var r LinkResult
 		var err error

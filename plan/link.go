@@ -12,6 +12,16 @@ import (
 	"github.com/paulmach/orb"
 )
 
+// SamePlaceM is the distance in metres below which the two ends of a link
+// are taken as one place: there is no path for a propagation model to
+// work on (ITU-R P.526 and P.525 need a path length), and two radios at one
+// spot reach each other anyway.
+const SamePlaceM = 1
+
+// ErrSamePlace is wrapped when the two ends of a link are closer than
+// SamePlaceM.
+var ErrSamePlace = errors.New("same place")
+
 // Env is what every link evaluation shares: the terrain, the propagation
 // model and the radio climate. An Env is safe for concurrent use; each
 // goroutine needs its own Geometry.
@@ -135,13 +145,17 @@ type Obstacle struct {
 // LinkResult is one direction of one link: the path, its loss and the
 // budget. Field names carry their units.
 type LinkResult struct {
-	From             string     `json:"from,omitempty"`
-	To               string     `json:"to,omitempty"`
-	Direction        string     `json:"direction,omitempty"` // e.g. "talk-in", "talk-out", "out", "back"
-	FreqMHz          float64    `json:"freq_mhz"`
-	DistanceM        float64    `json:"distance_m"`
-	AzimuthDeg       float64    `json:"azimuth_deg"` // from the transmitting end, clockwise from true north
-	Terrain          string     `json:"terrain"`     // terrain, smooth earth or profile file
+	From       string  `json:"from,omitempty"`
+	To         string  `json:"to,omitempty"`
+	Direction  string  `json:"direction,omitempty"` // e.g. "talk-in", "talk-out", "out", "back"
+	FreqMHz    float64 `json:"freq_mhz"`
+	DistanceM  float64 `json:"distance_m"`
+	AzimuthDeg float64 `json:"azimuth_deg"` // at the transmitting end towards the receiver, clockwise from true north
+	// RxAzimuthDeg is the azimuth at the receiving end towards the
+	// transmitter. On a geodesic it differs from AzimuthDeg ± 180° (Karney
+	// 2013: the forward azimuths at the two ends are not opposite).
+	RxAzimuthDeg     float64    `json:"rx_azimuth_deg"`
+	Terrain          string     `json:"terrain"` // terrain, smooth earth or profile file
 	Model            string     `json:"model"`
 	FreeSpaceLossDB  float64    `json:"free_space_loss_db"`
 	ExcessLossDB     float64    `json:"excess_loss_db"`
@@ -163,18 +177,26 @@ type LinkResult struct {
 	Probability      *float64   `json:"probability"`        // of a working link at the location, with σ; null without σ
 	NeededMarginDB   *float64   `json:"needed_margin_db,omitempty"`
 	MeetsRequirement *bool      `json:"meets_requirement,omitempty"`
-	Optional         bool       `json:"optional,omitempty"` // a target the requirement does not cover
-	TxGroundM        float64    `json:"tx_ground_m"`        // terrain height at the transmitting end, m
-	RxGroundM        float64    `json:"rx_ground_m"`
+	// SamePlace marks a link whose two ends are closer than SamePlaceM:
+	// nothing is evaluated (the figures are 0), it counts neither for nor
+	// against the requirement, and a warning says so.
+	SamePlace bool    `json:"same_place,omitempty"`
+	Optional  bool    `json:"optional,omitempty"` // a target the requirement does not cover
+	TxGroundM float64 `json:"tx_ground_m"`        // terrain height at the transmitting end, m
+	RxGroundM float64 `json:"rx_ground_m"`
 }
 
 // Evaluate computes the budget from tx to rx over g. tx is at g.From when
 // txAtFrom is true, else at g.To; the path loss is computed on g in its own
 // orientation (ITU-R P.526 diffraction is reciprocal), so one Geometry
-// serves both directions.
+// serves both directions. Ends closer than SamePlaceM give an error
+// wrapping ErrSamePlace.
 func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) (LinkResult, error) {
 	if !(freqMHz > 0) {
 		return LinkResult{}, errors.New("no frequency given")
+	}
+	if d := g.Profile.DistanceM; d < SamePlaceM {
+		return LinkResult{}, fmt.Errorf("%w: %s and %s are %.2f m apart; a link needs two places", ErrSamePlace, tx.Name, rx.Name, d)
 	}
 	fromEnd, toEnd := tx, rx
 	if !txAtFrom {
@@ -227,9 +249,9 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		RxGroundM:        g.Profile.ElevM[n-1],
 	}
 	if txAtFrom {
-		r.AzimuthDeg = g.Profile.AzimuthDeg
+		r.AzimuthDeg, r.RxAzimuthDeg = g.Profile.AzimuthDeg, g.Profile.BackAzimuthDeg
 	} else {
-		r.AzimuthDeg = g.Profile.BackAzimuthDeg
+		r.AzimuthDeg, r.RxAzimuthDeg = g.Profile.BackAzimuthDeg, g.Profile.AzimuthDeg
 		r.TxGroundM, r.RxGroundM = r.RxGroundM, r.TxGroundM
 	}
 	if loss.ObstacleIndex >= 0 && !math.IsInf(loss.WorstClearanceF1, 0) {

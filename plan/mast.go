@@ -111,6 +111,10 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 				if err != nil {
 					return nil, err
 				}
+				if links[0].SamePlace { // nothing to reach: left out
+					required--
+					continue
+				}
 				if row.FeedlineLossDB == 0 {
 					// The station transmits in the first direction
 					// (Target.directions): its line at that frequency.
@@ -124,7 +128,7 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 				}
 			}
 			if required == 0 {
-				return nil, fmt.Errorf("mast sweep: every target is optional; mark at least one as required")
+				return nil, fmt.Errorf("mast sweep: no required target away from %s's place; mark at least one target as required", st.Name)
 			}
 			row.MeetsRequirement = row.WorstMarginDB >= need
 			ex, err := stationExposureReport(s, targets, 0, false)

@@ -122,10 +122,14 @@ type RouteResult struct {
 	Gaps            []RouteGap    `json:"gaps"` // where some required target is out of reach
 	BestSpots       []BestSpot    `json:"best_spots"`
 	Points          []RoutePoint  `json:"points"`
-	Paths           int           `json:"paths"`              // terrain profiles extracted
-	Terrain         string        `json:"terrain"`            // "terrain" or "smooth earth" (no elevation data on any path)
-	Warnings        []string      `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
-	line            *trackLine    // for positions between points
+	Paths           int           `json:"paths"`   // terrain profiles extracted
+	Terrain         string        `json:"terrain"` // "terrain" or "smooth earth" (no elevation data on any path)
+	// Warnings are what the figures should be read with: a frequency
+	// outside the model's band or a cable's fitted range, a 75 Ω cable
+	// (see Env.FrequencyWarnings), the model's warnings (Longley–Rice ITM)
+	// with the number of paths; commands add missing elevation data.
+	Warnings []string   `json:"warnings"`
+	line     *trackLine // for positions between points
 }
 
 // PositionAt returns the position in degrees and the time (UTC; zero when
@@ -192,6 +196,7 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	res := &RouteResult{
 		Name: req.Track.Name, Walker: req.Walker.Name, SpacingM: spacing, NeededMarginDB: req.NeededMarginDB,
 		LengthM: length, Points: make([]RoutePoint, n), Paths: n * nt, line: line,
+		Warnings: e.legWarnings(req.Walker, req.Targets),
 	}
 	margins := make([]float64, n*nt)
 	for k := range res.Points {
@@ -223,7 +228,7 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	if err != nil {
 		return nil, err
 	}
-	res.Warnings = itmWarningLines(warns)
+	res.Warnings = appendNew(res.Warnings, itmWarningLines(warns)...)
 	res.Terrain = "smooth earth"
 	for _, s := range smooth {
 		if !s {

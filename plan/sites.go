@@ -31,6 +31,9 @@ type SiteTarget struct {
 	MarginDB float64 `json:"margin_db"` // the lower of both directions
 	Meets    bool    `json:"meets_requirement"`
 	Optional bool    `json:"optional,omitempty"`
+	// SamePlace marks a target closer than SamePlaceM to the candidate:
+	// left out of the candidate's figures (MarginDB 0), with a warning.
+	SamePlace bool `json:"same_place,omitempty"`
 }
 
 // SiteResult is one ranked candidate site.
@@ -62,9 +65,13 @@ type SitesResult struct {
 	WhatIf         []string     `json:"what_if,omitempty"`        // options that replaced the plan's figures, as given ("--power 10W")
 	MastHeightsM   []float64    `json:"mast_heights_m,omitempty"` // the sweep, when given
 	Sites          []SiteResult `json:"sites"`
-	Paths          int          `json:"paths"`              // terrain profiles extracted
-	Warnings       []string     `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
-	Cautions       []string     `json:"cautions"`           // exposure.MastCautions, always present
+	Paths          int          `json:"paths"` // terrain profiles extracted
+	// Warnings are what the figures should be read with (see
+	// Env.FrequencyWarnings, co-located candidates and targets, and the
+	// model's warnings with the number of paths); commands add missing
+	// elevation data.
+	Warnings []string `json:"warnings"`
+	Cautions []string `json:"cautions"` // exposure.MastCautions, always present
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -115,6 +122,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	own := make([]float64, nc*nt*2)    // margins per leg with the own kit
 	swept := make([]float64, nc*nt*nk) // worst over both legs, per config
 	ground := make([]float64, nc*nt)
+	same := make([]bool, nc*nt) // candidate and target at one place
 	warns := make([]propagation.ITMWarnings, nc*nt)
 	err = runParallel(ctx, nc*nt, progress, func(g *Geometry, i int) error {
 		c, t := i/nt, i%nt
@@ -123,6 +131,10 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 			return fmt.Errorf("%s: %w", req.Candidates[c].Name, err)
 		}
 		ground[i] = g.Profile.ElevM[0]
+		if g.Profile.DistanceM < SamePlaceM {
+			same[i] = true
+			return nil
+		}
 		var loss [2]float64
 		var buf [2]float64
 		for k := 0; k < nk; k++ {
@@ -142,12 +154,18 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	}
 	need := req.NeededMarginDB
 	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
-		Warnings: itmWarningLines(warns), Cautions: exposure.MastCautions()}
+		Warnings: appendNew(e.legWarnings(req.Station, req.Targets), itmWarningLines(warns)...), Cautions: exposure.MastCautions()}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {
 			tl := &legs[t]
 			i := c*nt + t
+			if same[i] {
+				s.Targets = append(s.Targets, SiteTarget{Name: tl.target.Name, Optional: tl.target.Optional, SamePlace: true})
+				res.Warnings = appendNew(res.Warnings, fmt.Sprintf("candidate %s is at the same place as %s: that target is left out of %s's figures",
+					cand.Name, tl.target.Name, cand.Name))
+				continue
+			}
 			worst := math.Min(own[i*2], own[i*2+1])
 			st := SiteTarget{Name: tl.target.Name, MarginDB: worst, Meets: worst >= need, Optional: tl.target.Optional}
 			s.Targets = append(s.Targets, st)
@@ -165,6 +183,9 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 				}
 			}
 		}
+		if math.IsInf(s.WorstMarginDB, 1) { // every required target at this place
+			s.WorstMarginDB, s.WorstLink = 0, "none away from this place"
+		}
 		if req.Mast == nil {
 			if s.WorstMarginDB >= need {
 				h := req.Station.Antenna.HeightM
@@ -179,7 +200,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 				}
 				ok := true
 				for t := range legs {
-					if !legs[t].target.Optional && swept[(c*nt+t)*nk+k] < need {
+					if !legs[t].target.Optional && !same[c*nt+t] && swept[(c*nt+t)*nk+k] < need {
 						ok = false
 						break
 					}

@@ -189,3 +189,18 @@ func FuzzTerrainLoss(f *testing.F) {
 		}
 	})
 }
+
+// TestFrequencyRange: the terrain model is meant for 30 MHz–6 GHz (the
+// scope of ITU-R P.1812-8, which applies P.526 delta-Bullington; from
+// memory); free space states no band.
+func TestFrequencyRange(t *testing.T) {
+	if lo, hi, ok := FrequencyRange(Terrain{}); !ok || lo != 30 || hi != 6000 {
+		t.Errorf("terrain: %v–%v MHz, %v", lo, hi, ok)
+	}
+	if lo, hi, ok := FrequencyRange(ITM{}); !ok || lo != 20 || hi != 20000 { // Hufford 1995
+		t.Errorf("itm: %v–%v MHz, %v", lo, hi, ok)
+	}
+	if _, _, ok := FrequencyRange(FreeSpace{}); ok {
+		t.Error("free space states a band")
+	}
+}

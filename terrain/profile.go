@@ -1,9 +1,11 @@
 package terrain
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 )
 
 // NoDEMStepM is the default profile step in metres when the set holds no
@@ -13,6 +15,22 @@ const NoDEMStepM = 90
 // MaxProfileSamples bounds the number of samples of one profile, so that a
 // tiny step over a long path is refused instead of exhausting memory.
 const MaxProfileSamples = 10_000_000
+
+// MinAutoStepM is the shortest step the elevation data's own spacing gives:
+// near the poles the east–west spacing of a geographic grid shrinks towards
+// 0 (to 5.7e−15 m at 90°), and a profile there is sampled every metre
+// instead.
+const MinAutoStepM = 1.0
+
+// ErrTooManySamples is wrapped when a profile would need more than
+// MaxProfileSamples samples.
+var ErrTooManySamples = errors.New("too many profile samples")
+
+// samplesError is a too-many-samples error in its own words.
+type samplesError string
+
+func (e samplesError) Error() string        { return string(e) }
+func (e samplesError) Is(target error) bool { return target == ErrTooManySamples }
 
 // Profile is the terrain along the WGS84 geodesic between two points,
 // sampled at equal distances with both ends included. The slices have one
@@ -50,7 +68,7 @@ func grow(s []float64, n int) []float64 {
 //
 // stepM is the distance between samples in metres; 0 takes the set's finest
 // sample spacing at the higher of the two end latitudes (SpacingM), or
-// NoDEMStepM when the set is empty. The step is then shortened so that the
+// NoDEMStepM when the set is empty, and never less than MinAutoStepM. The step is then shortened so that the
 // samples are equally spaced and both ends are samples: n = ⌈D/step⌉ + 1
 // samples (at least 2; coincident ends give two samples at 0 m).
 //
@@ -62,8 +80,9 @@ func grow(s []float64, n int) []float64 {
 // dst's slices are reused: no allocation happens when they are large
 // enough. Profile is safe for concurrent use with one dst per goroutine. Where no file covers a sample its height is 0 m and it counts in
 // NoData (uncovered HGT tiles are added to Missing). An error means invalid
-// coordinates or step, too many samples, or an elevation file that cannot
-// be read.
+// coordinates or step, too many samples (wrapping ErrTooManySamples, with
+// the shortest step that would do), or an elevation file that cannot be
+// read.
 func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error {
 	if err := checkPoint(lat1, lon1); err != nil {
 		return fmt.Errorf("profile start: %w", err)
@@ -81,10 +100,13 @@ func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
 		if stepM == 0 {
 			stepM = NoDEMStepM
 		}
+		stepM = math.Max(stepM, MinAutoStepM)
 	}
 	nf := math.Ceil(distM/stepM) + 1
 	if nf > MaxProfileSamples {
-		return fmt.Errorf("profile of %.0f m at a %.3g m step needs %.0f samples (limit %d): use a longer step", distM, stepM, nf, MaxProfileSamples)
+		least := distM / (MaxProfileSamples - 1)
+		return samplesError(fmt.Sprintf("a profile of %.0f m at a %s m step would need more than %d samples; use a step of at least %s m",
+			distM, strconv.FormatFloat(stepM, 'g', 3, 64), MaxProfileSamples, strconv.FormatFloat(math.Ceil(least*1000)/1000, 'f', -1, 64)))
 	}
 	n := max(int(nf), 2)
 	step := distM / float64(n-1)

@@ -2,6 +2,7 @@ package terrain
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -236,7 +237,10 @@ func TestProfileErrors(t *testing.T) {
 		{"start latitude", 95, 0, 45, 7, 30, "profile start: latitude"},
 		{"end longitude", 45, 7, 45, math.NaN(), 30, "profile end: longitude"},
 		{"negative step", 45, 7, 46, 7, -5, "profile step"},
-		{"too many samples", 0, 0, 0, 90, 0.5, "use a longer step"},
+		// 90° of the equator is 10 018 754 m (GeodSolve: 0 0 0 90 →
+		// s12 10018754.171395); at 1e−9 m it would need 1e16 samples.
+		{"too many samples", 0, 0, 0, 90, 0.5, "would need more than 10000000 samples; use a step of at least 1.002 m"},
+		{"tiny step", 0, 0, 0, 90, 1e-9, "a profile of 10018754 m at a 1e-09 m step would need more than 10000000 samples"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -244,7 +248,35 @@ func TestProfileErrors(t *testing.T) {
 			if err == nil || !strings.Contains(err.Error(), c.want) {
 				t.Errorf("error %v; want one containing %q", err, c.want)
 			}
+			if strings.Contains(c.name, "step") || strings.Contains(c.name, "samples") {
+				if !errors.Is(err, ErrTooManySamples) && c.stepM > 0 && c.stepM < 1 {
+					t.Errorf("error %v does not wrap ErrTooManySamples", err)
+				}
+			}
 		})
+	}
+}
+
+// TestProfilePole: at the pole the east–west spacing of a geographic grid
+// is 0 (cos 90° = 0); the automatic step stops at MinAutoStepM instead of
+// asking for 10^18 samples. The path from 90°N to 89.9°N along a meridian
+// is 11 169.398 m (GeodSolve -i -p 6: 90 0 89.9 0 → s12 11169.397841).
+func TestProfilePole(t *testing.T) {
+	dir := t.TempDir()
+	raw := htRaw(HGTSamples3, func(r, c int) int16 { return 100 })
+	if err := os.WriteFile(filepath.Join(dir, HGTName(89, 0)), raw, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	set, err := Open(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var p Profile
+	if err := set.Profile(90, 0, 89.9, 0, 0, &p); err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(p.DistanceM-11169.397841) > 0.001 || p.Len() != int(math.Ceil(p.DistanceM/MinAutoStepM))+1 {
+		t.Errorf("pole profile: %.3f m, %d samples", p.DistanceM, p.Len())
 	}
 }
 

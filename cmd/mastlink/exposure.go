@@ -338,7 +338,7 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 				name string
 				r    float64
 			}{{"public", s.rep.KeepoutPublicM}, {"operators", s.rep.KeepoutOccupationalM}} {
-				if tier.r <= 0 {
+				if up(tier.r) <= 0 { // nothing to keep out: no ring
 					continue
 				}
 				poly, err := exposure.KeepOutCircle(s.pos, tier.r)
@@ -372,13 +372,16 @@ func keepoutGeoJSON(sites []keepoutSite) (*geojson.FeatureCollection, error) {
 			name string
 			r, d float64
 		}{{"public", s.rep.KeepoutPublicM, s.rep.DistancePublicM}, {"occupational", s.rep.KeepoutOccupationalM, s.rep.DistanceOccupationalM}} {
+			// A keep-out that rounds up to nothing is the antenna's point,
+			// never a ring of no size; rings across the antimeridian are cut
+			// in two (RFC 7946 §3.1.9).
 			var geom orb.Geometry = s.pos
-			if tier.r > 0 {
+			if up(tier.r) > 0 {
 				poly, err := exposure.KeepOutCircle(s.pos, tier.r)
 				if err != nil {
 					return nil, err
 				}
-				geom = poly
+				geom = splitAntimeridian(poly)
 			}
 			f := geojson.NewFeature(geom)
 			f.Properties["station"] = s.name

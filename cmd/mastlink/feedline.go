@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 
 	"github.com/mastlink/mastlink/plan/feedline"
@@ -28,6 +29,9 @@ type feedlineResult struct {
 	MassKg          float64 `json:"mass_kg"`
 	PowerInW        float64 `json:"power_in_w,omitempty"`
 	PowerAtAntennaW float64 `json:"power_at_antenna_w,omitempty"`
+	// Warnings (also on stderr): a frequency outside the cable's fitted
+	// range, a cable that is not 50 Ω.
+	Warnings []string `json:"warnings"`
 }
 
 func newFeedlineCmd(g *globals) *cobra.Command {
@@ -115,6 +119,10 @@ func runFeedline(ctx context.Context, g *globals, o *feedlineOptions, args []str
 		}
 		r.PowerInW, r.PowerAtAntennaW = p, p*loss.DeliveredFraction
 	}
+	r.Warnings = addWarnings(nil, c.RangeWarning(freq))
+	if length > 0 {
+		r.Warnings = addWarnings(r.Warnings, c.MismatchWarning())
+	}
 	err = g.emitFile(inputs, r, func(w io.Writer) error {
 		return writeCSV(w,
 			[]string{"cable", "length_m", "freq_mhz", "matched_loss_db", "swr_loss_db", "connector_loss_db", "total_loss_db", "delivered_fraction"},
@@ -123,9 +131,7 @@ func runFeedline(ctx context.Context, g *globals, o *feedlineOptions, args []str
 	if err != nil {
 		return err
 	}
-	if lo, hi := c.FittedRangeMHz(); freq < lo*0.8 || freq > hi*1.25 {
-		fmt.Fprintf(g.stderr, "mastlink: note: %s's published loss figures span %.0f–%.0f MHz; at %.0f MHz the figure is extrapolated\n", c.Name, lo, hi, freq)
-	}
+	g.warn(r.Warnings)
 	return nil
 }
 
@@ -167,12 +173,15 @@ func renderFeedlineText(w io.Writer, r feedlineResult, c feedline.Cable, connect
 	fmt.Fprintf(w, "%s, %s at %s\n", c.Name, units.FormatLength(loss.LengthM, im), units.FormatFreq(loss.FreqMHz))
 	t := newTable(w)
 	t.row("  matched cable loss", fmt.Sprintf("%.2f dB", loss.MatchedLossDB))
-	t.row(fmt.Sprintf("  extra loss from SWR %.2g:1", r.SWRAtAntenna), fmt.Sprintf("%.2f dB", loss.SWRLossDB))
+	t.row(fmt.Sprintf("  extra loss from SWR %s", units.FormatSWR(r.SWRAtAntenna)), fmt.Sprintf("%.2f dB", loss.SWRLossDB))
 	t.row(fmt.Sprintf("  connectors (%d pairs)", connectors), fmt.Sprintf("%.2f dB", loss.ConnectorLossDB))
+	if loss.ImpedanceMismatchLossDB > 0 {
+		t.row(fmt.Sprintf("  %.0f Ω cable in a %.0f Ω system (applied)", loss.ImpedanceOhm, loss.SystemImpedanceOhm), fmt.Sprintf("%.2f dB", loss.ImpedanceMismatchLossDB))
+	}
 	t.row("  total line loss", fmt.Sprintf("%.2f dB", loss.TotalLossDB))
-	t.row("  reaches the antenna", percent(loss.DeliveredFraction))
+	t.row("  reaches the antenna", deliveredText(loss.DeliveredFraction))
 	if r.SWRAtAntenna > 1 {
-		t.row("  SWR seen at the radio", fmt.Sprintf("%.2f:1", r.SWRAtRadio))
+		t.row("  SWR seen at the radio", units.FormatSWR(r.SWRAtRadio))
 	}
 	if r.PowerInW > 0 {
 		t.row(fmt.Sprintf("  of %s from the radio", units.FormatPower(r.PowerInW)), units.FormatPower(r.PowerAtAntennaW)+" at the antenna")
@@ -180,5 +189,27 @@ func renderFeedlineText(w io.Writer, r feedlineResult, c feedline.Cable, connect
 	if r.MassKg > 0 {
 		t.row("  cable mass (typical)", fmt.Sprintf("%.1f kg", r.MassKg))
 	}
-	return t.flush()
+	if err := t.flush(); err != nil {
+		return err
+	}
+	if loss.ImpedanceMismatchLossDB > 0 {
+		fmt.Fprintf(w, "  The %.0f Ω cable meets the %.0f Ω radio and antenna with SWR %s at each end: %.2f dB of\n"+
+			"  mismatch loss is included (−10 log10(1 − Γ²) per junction); a short line's actual loss swings\n"+
+			"  between 0 and about twice that with its electrical length. Use 50 Ω cable where you can.\n",
+			loss.ImpedanceOhm, loss.SystemImpedanceOhm, units.FormatSWR(feedline.SWRFromReflection(math.Abs(loss.ImpedanceOhm-loss.SystemImpedanceOhm)/(loss.ImpedanceOhm+loss.SystemImpedanceOhm))), loss.ImpedanceMismatchLossDB)
+	}
+	return nil
+}
+
+// deliveredText renders the share of the power that reaches the antenna:
+// a whole percentage, "under 1 %" and "none (under 1e-6)" for lines so
+// lossy that a percentage would read 0.
+func deliveredText(f float64) string {
+	switch {
+	case f >= 0.01:
+		return percent(f)
+	case f >= 1e-6:
+		return fmt.Sprintf("%.2g %%", 100*f)
+	}
+	return "none (under a millionth)"
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -73,5 +74,59 @@ func TestFeedlineErrors(t *testing.T) {
 		if code != 2 || stderr == "" {
 			t.Errorf("%v: code %d, stderr %q", args, code, stderr)
 		}
+	}
+}
+
+// TestFeedlineOneFigure: one custom loss figure is conductor loss (∝ √f,
+// standard physics), so 6.1 dB/100 ft at 146 MHz gives 6.1·√(440/146) =
+// 10.59 dB over 100 ft at 440 MHz, and the same figure per 100 m (× 100/30.48)
+// gives the same.
+func TestFeedlineOneFigure(t *testing.T) {
+	want := 6.1 * math.Sqrt(440.0/146)
+	for _, cable := range []string{"custom:6.1dB/100ft@146MHz", "custom:20.0131233595800525dB/100m@146MHz", "custom:0.200131233595800525dB/m@146MHz"} {
+		out, stderr, code := runCmd(t, "feedline", "--cable", cable, "--length", "100ft", "--freq", "440", "--format", "json")
+		if code != 0 {
+			t.Fatalf("%s: code %d: %s", cable, code, stderr)
+		}
+		if got := decodeJSON(t, out)["matched_loss_db"].(float64); math.Abs(got-want) > 1e-6 {
+			t.Errorf("%s: %.4f dB over 100 ft at 440 MHz, want %.4f", cable, got, want)
+		}
+	}
+}
+
+// TestFeedlineOddInputs: a very long line prints its loss (no NaN) and
+// delivers nothing; an SWR of 100 prints as 100:1; a 75 Ω cable says that
+// its junction mismatch is applied (0.35 dB: 2 × −10 log10(1 − 0.2²), the
+// transmission-line relations, from memory).
+func TestFeedlineOddInputs(t *testing.T) {
+	out, stderr, code := runCmd(t, "feedline", "--cable", "RG-58", "--length", "100km", "--freq", "146", "--swr", "100")
+	if code != 0 {
+		t.Fatalf("code %d: %s", code, stderr)
+	}
+	for _, bad := range []string{"NaN", "Inf", "e+"} {
+		if strings.Contains(out, bad) {
+			t.Errorf("output has %q:\n%s", bad, out)
+		}
+	}
+	for _, want := range []string{"SWR 100:1", "none (under a millionth)"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q:\n%s", want, out)
+		}
+	}
+	out, _, code = runCmd(t, "feedline", "--cable", "RG-58", "--length", "100km", "--freq", "146", "--format", "json")
+	if code != 0 || strings.Contains(out, "NaN") {
+		t.Errorf("JSON (code %d):\n%s", code, out)
+	}
+	out, _, _ = runCmd(t, "feedline", "--cable", "RG-59", "--length", "20m", "--freq", "146")
+	if !strings.Contains(out, "75 Ω cable in a 50 Ω system (applied)  0.35 dB") {
+		t.Errorf("75 Ω cable: mismatch not shown:\n%s", out)
+	}
+	out, _, _ = runCmd(t, "feedline", "--cable", "RG-59", "--length", "20m", "--freq", "146", "--format", "json")
+	m := decodeJSON(t, out)
+	if got := m["impedance_mismatch_loss_db"].(float64); math.Abs(got-0.3546) > 1e-4 {
+		t.Errorf("impedance_mismatch_loss_db %v", got)
+	}
+	if strings.Contains(out, "-0,") || strings.Contains(out, "-0\n") {
+		t.Errorf("JSON has -0:\n%s", out)
 	}
 }

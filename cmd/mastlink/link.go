@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -71,8 +72,10 @@ type linkOutput struct {
 	ToLat   float64 `json:"to_lat"`
 	ToLon   float64 `json:"to_lon"`
 	SigmaDB float64 `json:"sigma_db"`
-	SMeter  string  `json:"s_meter"`
-	// Warnings are the model's warnings (Longley–Rice ITM), as on stderr.
+	SMeter  string  `json:"s_meter"` // IARU Region 1 R.1 at the link's frequency
+	// Warnings are also written to stderr: missing elevation data, the
+	// model's warnings (Longley–Rice ITM), a frequency outside the model's
+	// band or a cable's fitted range, a 75 Ω cable.
 	Warnings []string `json:"warnings"`
 }
 
@@ -130,9 +133,16 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		}
 		geo = &plan.Geometry{}
 		if err := env.Measure(from, to, geo); err != nil {
+			if errors.Is(err, terrain.ErrTooManySamples) {
+				return usagef("--step: %v", err)
+			}
 			return err
 		}
-		g.warnMissing(env.Terrain)
+		if env.StepM > geo.Profile.DistanceM && geo.Profile.DistanceM >= plan.SamePlaceM {
+			return usagef("--step %s is longer than the path (%s): give a shorter step, or leave it out for the elevation data's spacing",
+				units.FormatLength(env.StepM, g.imperial()), units.FormatLength(geo.Profile.DistanceM, g.imperial()))
+		}
+		out.Warnings = addWarnings(out.Warnings, missingWarning(env.Terrain))
 	}
 	tx, err := o.tx.end(fromName)
 	if err != nil {
@@ -143,6 +153,9 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		return err
 	}
 	r, err := env.Evaluate(geo, tx, rx, freq, true)
+	if errors.Is(err, plan.ErrSamePlace) {
+		return usagef("--from and --to are the same place (%s apart): a link needs two places", units.FormatLength(geo.Profile.DistanceM, g.imperial()))
+	}
 	if err != nil {
 		return err
 	}
@@ -152,8 +165,9 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		r.NeededMarginDB, r.MeetsRequirement = &need, &ok
 	}
 	out.LinkResult = r
-	out.SMeter = units.SMeter(r.RxPowerDBm)
-	out.Warnings = append([]string{}, r.Warnings...)
+	out.SMeter = units.SMeter(r.RxPowerDBm, r.FreqMHz)
+	out.Warnings = addWarnings(out.Warnings, r.Warnings...)
+	out.Warnings = addWarnings(out.Warnings, env.FrequencyWarnings(freq, tx, rx)...)
 	g.warn(out.Warnings)
 	return g.emitFile(inputs, out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
 		func(w io.Writer) error { renderLinkText(w, out, tx, rx, g.imperial()); return nil })
@@ -212,7 +226,7 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	}
 	t.row("  receive antenna gain", "", dbi(r.RxGainDBi))
 	t.row("  receive feedline"+lineName(rx), "", db(-r.RxFeedlineLossDB))
-	t.row("  received level", units.SMeter(r.RxPowerDBm), dbm(r.RxPowerDBm))
+	t.row("  received level", units.SMeter(r.RxPowerDBm, r.FreqMHz), dbm(r.RxPowerDBm))
 	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", units.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
 	t.row("  margin", "", db(r.MarginDB))
 	if r.Probability != nil {

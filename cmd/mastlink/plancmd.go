@@ -9,7 +9,6 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
-	"time"
 
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/gpx"
@@ -100,8 +99,8 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 			res.Warnings = append(res.Warnings, w)
 		}
 	}
-	res.Warnings = append(res.Warnings, planWarnings(res)...)
-	res.Warnings = append(res.Warnings, planModelWarnings(res)...)
+	res.Warnings = addWarnings(res.Warnings, planWarnings(res)...)
+	res.Warnings = addWarnings(res.Warnings, planModelWarnings(res)...)
 	for _, w := range res.Warnings {
 		fmt.Fprintf(g.stderr, "mastlink: warning: %s\n", w)
 	}
@@ -234,16 +233,22 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string
 			if l.From != s.Name && l.To != s.Name {
 				continue
 			}
+			// The bearing is the station's own, towards the target, in every
+			// row: the receiving end's azimuth when the target transmits.
 			target := l.To
 			bearing := l.AzimuthDeg
 			if l.To == s.Name {
 				target = l.From
-				bearing = math.Mod(l.AzimuthDeg+180, 360) // shown from the station
+				bearing = l.RxAzimuthDeg
 			}
 			if l.Optional {
 				target += " (optional)"
 			}
-			row := []string{"  " + target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+			if l.SamePlace {
+				t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), "-", "-", "-", "-", "-", "same place")
+				continue
+			}
+			row := []string{"  " + target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), bearingText(bearing),
 				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l)}
 			if itm && l.ITM != nil {
 				row = append(row, l.ITM.Mode)
@@ -289,6 +294,11 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string
 	} else {
 		fmt.Fprintln(w, "Verdict: some required links fall short; see the table above and the mast sweep.")
 	}
+}
+
+// bearingText renders an azimuth as whole degrees "047°", 359.6° as "000°".
+func bearingText(deg float64) string {
+	return fmt.Sprintf("%03.0f°", math.Mod(math.Round(deg), 360))
 }
 
 // keepout renders a keep-out radius for the plan's table, rounded up.
@@ -416,8 +426,11 @@ func writePlanOutputs(g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanRes
 func linksGeoJSON(p *plan.Plan, res *plan.PlanResult) *geojson.FeatureCollection {
 	fc := geojson.NewFeatureCollection()
 	for _, l := range res.Links {
+		if l.SamePlace { // no line to draw
+			continue
+		}
 		a, b := endpoints(p, l)
-		f := geojson.NewFeature(orb.LineString{a, b})
+		f := geojson.NewFeature(splitAntimeridian(orb.LineString{a, b}))
 		f.Properties["from"] = l.From
 		f.Properties["to"] = l.To
 		f.Properties["direction"] = l.Direction
@@ -454,26 +467,29 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 // writePlanGPX writes the plan's places as waypoints annotated with their
 // worst margins, for a GPS.
 func writePlanGPX(w io.Writer, p *plan.Plan, res *plan.PlanResult) error {
-	now := time.Now().UTC().Truncate(time.Second)
+	// No time of writing: the same plan gives the same bytes.
 	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
 		sum := res.Stations[i]
-		out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Time: now, Symbol: "Flag",
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.Name, Pos: s.Pos, ElevM: sum.GroundM, Symbol: "Flag",
 			Description: fmt.Sprintf("station: %s, antenna %.1f m; reaches %d of %d required targets", units.FormatPower(s.Radio.PowerW), s.Antenna.HeightM, sum.Reached, sum.Of)})
 	}
 	for _, t := range p.Targets {
 		worst := math.Inf(1)
 		var parts []string
 		for _, l := range res.Links {
-			if l.From == t.Name || l.To == t.Name {
+			if (l.From == t.Name || l.To == t.Name) && !l.SamePlace {
 				if l.MarginDB < worst {
 					worst = l.MarginDB
 				}
 				parts = append(parts, fmt.Sprintf("%s %+.1f dB", l.Direction, l.MarginDB))
 			}
 		}
-		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Time: now, Symbol: "Waypoint",
-			Description: fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))})
+		desc := fmt.Sprintf("worst margin %+.1f dB (%s)", worst, strings.Join(parts, ", "))
+		if len(parts) == 0 {
+			desc = "not evaluated: at a station's place"
+		}
+		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Symbol: "Waypoint", Description: desc})
 	}
 	b, err := gpx.Encode(out)
 	if err != nil {

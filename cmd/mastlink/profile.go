@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"strings"
@@ -176,7 +177,14 @@ func runProfile(ctx context.Context, g *globals, o *profileOptions, args []strin
 	}
 	var p terrain.Profile
 	if err := set.Profile(from.Lat(), from.Lon(), to.Lat(), to.Lon(), stepM, &p); err != nil {
+		if errors.Is(err, terrain.ErrTooManySamples) {
+			return usagef("--step: %v", err)
+		}
 		return fmt.Errorf("profile: %w", err)
+	}
+	if stepM > p.DistanceM {
+		return usagef("--step %s is longer than the path (%s): give a shorter step, or leave it out for the elevation data's spacing",
+			units.FormatLength(stepM, g.imperial()), units.FormatLength(p.DistanceM, g.imperial()))
 	}
 	if !smooth {
 		g.warnMissing(set)

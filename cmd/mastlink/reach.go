@@ -286,8 +286,10 @@ type reachRun[R any] struct {
 	write func(kind string, inputs []string, res R) error
 	// csv and text render the result on stdout.
 	csv, text func(w io.Writer, res R) error
-	// warnings are the result's warnings (the model's), for stderr.
-	warnings func(res R) []string
+	// warnings points at the result's warnings (the model's, the
+	// frequency's), to which missing elevation data is added; all are
+	// written to stderr too.
+	warnings func(res R) *[]string
 }
 
 // runReach is the pipeline of route and sites: check the flags and -o,
@@ -329,8 +331,9 @@ func runReach[R any](ctx context.Context, g *globals, cmd *cobra.Command, o *rea
 		return err
 	}
 	run.note(res, r.defaultMargin, r.whatIf)
-	g.warnMissing(r.env.Terrain)
-	g.warn(run.warnings(res))
+	ws := run.warnings(res)
+	*ws = addWarnings(*ws, missingWarning(r.env.Terrain))
+	g.warn(*ws)
 	if outKind != "" {
 		if err := run.write(outKind, inputs, res); err != nil {
 			return err

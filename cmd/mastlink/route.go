@@ -81,7 +81,7 @@ func runRoute(ctx context.Context, g *globals, cmd *cobra.Command, o *routeOptio
 	var rr *reach
 	return runReach(ctx, g, cmd, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
 		outKinds: []string{"geojson", "gpx", "csv", "png"},
-		warnings: func(res *plan.RouteResult) []string { return res.Warnings },
+		warnings: func(res *plan.RouteResult) *[]string { return &res.Warnings },
 		check: func(gf *gpx.File) error {
 			track, err = pickTrack(g, gf, o.track)
 			return err
@@ -225,7 +225,7 @@ func routeGeoJSON(r *plan.RouteResult) *geojson.FeatureCollection {
 			j++
 		}
 		from, to := edge(k), edge(j)
-		f := geojson.NewFeature(r.Piece(from, to))
+		f := geojson.NewFeature(splitAntimeridian(r.Piece(from, to)))
 		f.Properties["covered"] = pts[k].Covered
 		f.Properties["start_m"] = round2(from)
 		f.Properties["end_m"] = round2(to)

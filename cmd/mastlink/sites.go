@@ -56,7 +56,7 @@ func runSites(ctx context.Context, g *globals, cmd *cobra.Command, o *reachOptio
 	return runReach(ctx, g, cmd, o, args[0], reachRun[*plan.SitesResult]{
 		forSites: true,
 		outKinds: []string{"geojson", "csv", "png"},
-		warnings: func(res *plan.SitesResult) []string { return res.Warnings },
+		warnings: func(res *plan.SitesResult) *[]string { return &res.Warnings },
 		check: func(gf *gpx.File) error {
 			if len(gf.Waypoints) == 0 {
 				return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", gf.Path)

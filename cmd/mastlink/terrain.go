@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 
 	"github.com/mastlink/mastlink/terrain"
@@ -58,12 +59,35 @@ func (g *globals) openTerrain(extra ...terrainSource) (*terrain.Set, error) {
 
 // warnMissing tells once on stderr which SRTM tiles were needed but absent.
 func (g *globals) warnMissing(s *terrain.Set) {
+	if w := missingWarning(s); w != "" {
+		g.warn([]string{w})
+	}
+}
+
+// missingWarning returns the sentence naming the SRTM tiles that were
+// needed but absent, or "" when none were (or no elevation data is in use).
+func missingWarning(s *terrain.Set) string {
 	if s == nil {
-		return
+		return ""
 	}
 	if m := s.Missing(); len(m) > 0 {
-		fmt.Fprintf(g.stderr, "mastlink: warning: no elevation data for %s; the ground there is taken as 0 m (sea level). Add these tiles to --dem.\n", strings.Join(m, ", "))
+		return fmt.Sprintf("no elevation data for %s; the ground there is taken as 0 m (sea level). Add these tiles to --dem.", strings.Join(m, ", "))
 	}
+	return ""
+}
+
+// addWarnings appends to list the non-empty strings of add it does not
+// hold yet, and never returns nil (JSON then shows []).
+func addWarnings(list []string, add ...string) []string {
+	if list == nil {
+		list = []string{}
+	}
+	for _, w := range add {
+		if w != "" && !slices.Contains(list, w) {
+			list = append(list, w)
+		}
+	}
+	return list
 }
 
 // noticeSmoothEarth says once on stderr that no elevation data is in use.

@@ -14,8 +14,9 @@ import (
 //	custom:6.1dB/100ft@146MHz
 //	custom:20dB/100m@146MHz,38dB/100m@440MHz
 //
-// (loss per 100 ft or per 100 m; frequencies with units as units.ParseFreqMHz
-// takes them). One figure fits the conductor term only; two fit the
+// (loss per 100 ft, per 100 m, per m or any length with its unit;
+// frequencies with units as units.ParseFreqMHz takes them). One figure is
+// conductor loss, A ∝ √f, whatever the unit it is written in; two fit the
 // two-term model (see CustomCable). Unknown names wrap ErrUnknownCable.
 func ResolveCable(spec string) (Cable, error) {
 	s := strings.TrimSpace(spec)
@@ -44,7 +45,19 @@ func cutPrefixFold(s, prefix string) (string, bool) {
 	return s, false
 }
 
-// parseLossPoint parses "6.1dB/100ft@146MHz" or "20dB/100m@146MHz".
+// unitGiven reports whether a length ends in a unit (letters), so that a
+// bare "/100" is refused rather than taken as metres.
+func unitGiven(s string) bool {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return false
+	}
+	c := s[len(s)-1]
+	return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z')
+}
+
+// parseLossPoint parses "6.1dB/100ft@146MHz", "20dB/100m@146MHz" or
+// "0.2dB/m@146MHz": a loss per any length with its unit.
 func parseLossPoint(s string) (LossPoint, error) {
 	const want = "write e.g. custom:6.1dB/100ft@146MHz or custom:20dB/100m@146MHz,38dB/100m@440MHz"
 	loss, freq, ok := strings.Cut(s, "@")
@@ -62,15 +75,16 @@ func parseLossPoint(s string) (LossPoint, error) {
 	if !(db > 0) {
 		return LossPoint{}, fmt.Errorf("a cable loss must be more than 0 dB")
 	}
-	var perFt float64
-	switch strings.ToLower(strings.TrimSpace(per)) {
-	case "100ft":
-		perFt = db
-	case "100m":
-		perFt = DBPer100FtFromDBPer100M(db)
-	default:
-		return LossPoint{}, fmt.Errorf("loss per %q: use /100ft or /100m (%s)", per, want)
+	// The length the loss is per: "100ft", "100m", "m", "ft", "km", …
+	perS := strings.TrimSpace(per)
+	if perS != "" && (perS[0] < '0' || perS[0] > '9') && perS[0] != '.' {
+		perS = "1" + perS
 	}
+	perM, err := units.ParseLengthM(perS)
+	if err != nil || !(perM > 0) || !unitGiven(perS) {
+		return LossPoint{}, fmt.Errorf("loss per %q: use /100ft, /100m or /m (%s)", per, want)
+	}
+	perFt := db / perM * MetresPer100Ft
 	f, err := units.ParseFreqMHz(strings.TrimSpace(freq))
 	if err != nil {
 		return LossPoint{}, err

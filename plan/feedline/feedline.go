@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/mastlink/mastlink/plan/units"
@@ -206,7 +207,9 @@ func buildCatalog() []Cable {
 // relative error (each residual divided by the figure; by 1 when the figure
 // is 0) with k1, k2 ≥ 0. With two unknowns the non-negative optimum is the
 // unconstrained solution when that is non-negative, else the better of the
-// two one-term fits.
+// two one-term fits. Figures at a single frequency cannot tell the two
+// terms apart: they give the conductor term alone (k2 = 0), the loss that
+// dominates coax at HF–UHF, growing as √f (skin effect).
 func fitTwoTerm(pts []LossPoint) (k1, k2 float64, err error) {
 	if len(pts) == 0 {
 		return 0, 0, errors.New("no loss figures to fit")
@@ -243,7 +246,16 @@ func fitTwoTerm(pts []LossPoint) (k1, k2 float64, err error) {
 	}
 	// One-term candidates: conductor loss only, dielectric loss only.
 	k1, k2 = b1/s11, 0
-	if a := b2 / s22; resid(0, a) < resid(k1, 0) {
+	oneFreq := true
+	for _, p := range pts {
+		oneFreq = oneFreq && p.FreqMHz == pts[0].FreqMHz
+	}
+	if oneFreq {
+		return k1, k2, nil
+	}
+	// The dielectric-only fit wins only when clearly better, not on
+	// rounding residuals.
+	if a := b2 / s22; resid(0, a) < resid(k1, 0)*(1-1e-9) {
 		k1, k2 = 0, a
 	}
 	if det := s11*s22 - s12*s12; det > 1e-12*s11*s22 {
@@ -316,6 +328,45 @@ func (c Cable) FittedRangeMHz() (lo, hi float64) {
 		lo, hi = math.Min(lo, p.FreqMHz), math.Max(hi, p.FreqMHz)
 	}
 	return lo, hi
+}
+
+// Extrapolated reports whether freqMHz lies well outside the figures the
+// cable's model was fitted to: below 0.8 × the lowest or above 1.25 × the
+// highest (a margin of common practice: the two-term model holds a little
+// beyond its data).
+func (c Cable) Extrapolated(freqMHz float64) bool {
+	lo, hi := c.FittedRangeMHz()
+	return len(c.Published) > 0 && (freqMHz < lo*0.8 || freqMHz > hi*1.25)
+}
+
+// RangeWarning returns a sentence when freqMHz lies outside the cable's
+// fitted range (Extrapolated), else "".
+func (c Cable) RangeWarning(freqMHz float64) string {
+	if !c.Extrapolated(freqMHz) {
+		return ""
+	}
+	lo, hi := c.FittedRangeMHz()
+	span := fmt.Sprintf("span %s–%s MHz", trimFloat(lo), trimFloat(hi))
+	if lo == hi {
+		span = fmt.Sprintf("are at %s MHz", trimFloat(lo))
+	}
+	return fmt.Sprintf("%s's loss figures %s; at %s MHz its loss is extrapolated", c.Name, span, trimFloat(freqMHz))
+}
+
+// MismatchWarning returns a sentence when the cable is not 50 Ω, saying
+// that the junction mismatch loss is applied, else "".
+func (c Cable) MismatchWarning() string {
+	if JunctionMismatchLossDB(c.ImpedanceOhm) == 0 {
+		return ""
+	}
+	g := math.Abs(c.ImpedanceOhm-SystemImpedanceOhm) / (c.ImpedanceOhm + SystemImpedanceOhm)
+	return fmt.Sprintf("%s is a %s Ω cable in a %d Ω system: SWR %s:1 where it meets the radio and the antenna; %.2f dB of mismatch loss is included in its line loss",
+		c.Name, trimFloat(c.ImpedanceOhm), SystemImpedanceOhm, trimFloat(math.Round(SWRFromReflection(g)*100)/100), 2*JunctionMismatchLossDB(c.ImpedanceOhm))
+}
+
+// trimFloat formats v with up to 3 decimals and no trailing zeros.
+func trimFloat(v float64) string {
+	return strconv.FormatFloat(math.Round(v*1000)/1000, 'f', -1, 64)
 }
 
 // Cables returns a copy of the catalog in listing order.
@@ -405,7 +456,7 @@ func SWRFromReflection(gamma float64) float64 { return (1 + gamma) / (1 - gamma)
 // SWR ≥ 1: the share of forward power reflected by the load.
 func MismatchLossDB(swr float64) float64 {
 	g := ReflectionCoefficient(swr)
-	return -10 * math.Log10(1-g*g)
+	return 10 * math.Log10(1/(1-g*g)) // never −0
 }
 
 // SWRTotalLossDB returns the total loss in dB of a line with matched loss
@@ -417,10 +468,16 @@ func MismatchLossDB(swr float64) float64 {
 //
 // It is the ratio of the power entering the line to the power the load
 // accepts. SWR 1 gives ML; an infinite SWR gives +Inf.
+//
+// It is evaluated as ML + 10 log10[(1 − Γ²/a²)/(1 − Γ²)], the same
+// relation, which stays finite for the thousands of dB of a very long line.
 func SWRTotalLossDB(matchedLossDB, swr float64) float64 {
-	a := math.Pow(10, matchedLossDB/10)
 	g := ReflectionCoefficient(swr)
-	return 10 * math.Log10((a*a-g*g)/(a*(1-g*g)))
+	if g >= 1 {
+		return math.Inf(1)
+	}
+	ga := g * math.Pow(10, -matchedLossDB/10) // Γ/a
+	return matchedLossDB + 10*math.Log10((1-ga*ga)/(1-g*g))
 }
 
 // SWRExtraLossDB returns the loss in dB that an SWR at the load adds to a
@@ -434,6 +491,25 @@ func SWRExtraLossDB(matchedLossDB, swr float64) float64 {
 // |Γ|/a with a = 10^(ML/10), as it crosses the line twice.
 func InputSWR(matchedLossDB, loadSWR float64) float64 {
 	return SWRFromReflection(ReflectionCoefficient(loadSWR) / math.Pow(10, matchedLossDB/10))
+}
+
+// SystemImpedanceOhm is the impedance radios and antennas are built for at
+// VHF/UHF, 50 Ω (common practice).
+const SystemImpedanceOhm = 50
+
+// JunctionMismatchLossDB returns the loss in dB where a cable of
+// impedance zOhm meets the 50 Ω system, at each of its two ends: the
+// impedance step reflects |Γ| = |Z − 50|/(Z + 50) and passes 1 − Γ² of the
+// power, a mismatch loss of −10 log10(1 − Γ²) per junction (the
+// transmission-line relations, e.g. ARRL Antenna Book, transmission-line
+// chapter; from memory). A 75 Ω cable gives |Γ| = 0.2, SWR 1.5, 0.177 dB
+// per junction. 0 or 50 Ω gives 0.
+func JunctionMismatchLossDB(zOhm float64) float64 {
+	if !(zOhm > 0) || zOhm == SystemImpedanceOhm {
+		return 0
+	}
+	g := math.Abs(zOhm-SystemImpedanceOhm) / (zOhm + SystemImpedanceOhm)
+	return -10 * math.Log10(1-g*g)
 }
 
 // Line is the whole line between a radio and its antenna.
@@ -454,20 +530,32 @@ func NewLine(c Cable, lengthM float64) Line {
 // Loss is the loss of a Line at one frequency; the JSON names
 // follow the `feedline` contract.
 type Loss struct {
-	Cable             string  `json:"cable"`
-	LengthM           float64 `json:"length_m"`
-	FreqMHz           float64 `json:"freq_mhz"`
-	MatchedLossDB     float64 `json:"matched_loss_db"`    // the cable at SWR 1
-	SWRLossDB         float64 `json:"swr_loss_db"`        // extra cable loss from the SWR at the antenna
-	ConnectorLossDB   float64 `json:"connector_loss_db"`  // all mated pairs
-	TotalLossDB       float64 `json:"total_loss_db"`      // the three above
-	DeliveredFraction float64 `json:"delivered_fraction"` // 10^(−total/10): power accepted by the antenna over power into the line
+	Cable           string  `json:"cable"`
+	LengthM         float64 `json:"length_m"`
+	FreqMHz         float64 `json:"freq_mhz"`
+	MatchedLossDB   float64 `json:"matched_loss_db"`   // the cable at SWR 1
+	SWRLossDB       float64 `json:"swr_loss_db"`       // extra cable loss from the SWR at the antenna
+	ConnectorLossDB float64 `json:"connector_loss_db"` // all mated pairs
+	// ImpedanceMismatchLossDB is the loss at the cable's two junctions with
+	// the 50 Ω radio and antenna when the cable is not 50 Ω (2 ×
+	// JunctionMismatchLossDB); 0 for a 50 Ω cable or no cable.
+	ImpedanceMismatchLossDB float64 `json:"impedance_mismatch_loss_db"`
+	ImpedanceOhm            float64 `json:"impedance_ohm"`        // the cable's
+	SystemImpedanceOhm      float64 `json:"system_impedance_ohm"` // SystemImpedanceOhm
+	TotalLossDB             float64 `json:"total_loss_db"`        // the four above
+	DeliveredFraction       float64 `json:"delivered_fraction"`   // 10^(−total/10): power accepted by the antenna over power into the line
 }
 
 // Loss computes the line's loss at freqMHz (more than 0): matched loss from
-// the cable model, the extra loss from SWR (SWRExtraLossDB), and the
-// connectors. It does not include the mismatch loss at the radio, which
-// depends on the transmitter (see MismatchLossDB and InputSWR).
+// the cable model, the extra loss from SWR (SWRExtraLossDB), the
+// connectors, and for a cable that is not 50 Ω the mismatch at its two
+// junctions with the 50 Ω system (JunctionMismatchLossDB, each taken
+// alone: with a lossy line the two reflections add on average; a short
+// line's actual loss swings between 0 and about twice that with its
+// electrical length). It does not include the mismatch loss at the radio
+// from the SWR at the antenna, which depends on the transmitter (see
+// MismatchLossDB and InputSWR). A very long line gives a large but finite
+// loss and a delivered fraction of 0.
 func (f Line) Loss(freqMHz float64) (Loss, error) {
 	swr := f.SWR
 	if swr == 0 {
@@ -488,15 +576,22 @@ func (f Line) Loss(freqMHz float64) (Loss, error) {
 	ml := f.Cable.MatchedLossDB(f.LengthM, freqMHz)
 	extra := SWRExtraLossDB(ml, swr)
 	conn := float64(f.Connectors) * f.ConnectorLossDB
-	total := ml + extra + conn
+	var junctions float64
+	if f.LengthM > 0 {
+		junctions = 2 * JunctionMismatchLossDB(f.Cable.ImpedanceOhm)
+	}
+	total := ml + extra + conn + junctions
 	return Loss{
-		Cable:             f.Cable.Name,
-		LengthM:           f.LengthM,
-		FreqMHz:           freqMHz,
-		MatchedLossDB:     ml,
-		SWRLossDB:         extra,
-		ConnectorLossDB:   conn,
-		TotalLossDB:       total,
-		DeliveredFraction: math.Pow(10, -total/10),
+		Cable:                   f.Cable.Name,
+		LengthM:                 f.LengthM,
+		FreqMHz:                 freqMHz,
+		MatchedLossDB:           ml,
+		SWRLossDB:               extra,
+		ConnectorLossDB:         conn,
+		ImpedanceMismatchLossDB: junctions,
+		ImpedanceOhm:            f.Cable.ImpedanceOhm,
+		SystemImpedanceOhm:      SystemImpedanceOhm,
+		TotalLossDB:             total,
+		DeliveredFraction:       math.Pow(10, -total/10),
 	}, nil
 }

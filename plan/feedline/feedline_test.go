@@ -367,3 +367,92 @@ func FuzzLookupCable(f *testing.F) {
 		}
 	})
 }
+
+// TestImpedanceMismatch: a 75 Ω cable in a 50 Ω system meets an impedance
+// step at each end, |Γ| = (75 − 50)/(75 + 50) = 0.2, SWR 1.5; each junction
+// passes 1 − Γ² of the power, a mismatch loss of −10 log10(1 − 0.04) =
+// 0.177 dB (transmission-line relations, e.g. ARRL Antenna Book, chapter
+// on transmission lines, from memory; 0.177 dB at SWR 1.5 computed from
+// them), 0.355 dB for the two.
+func TestImpedanceMismatch(t *testing.T) {
+	rg59, err := LookupCable("RG-59")
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := NewLine(rg59, 10).Loss(146)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := -2 * 10 * math.Log10(1-0.2*0.2)
+	if math.Abs(got.ImpedanceMismatchLossDB-want) > 1e-9 || math.Abs(want-0.3546) > 1e-4 {
+		t.Errorf("75 Ω in 50 Ω: mismatch %.4f dB, want %.4f", got.ImpedanceMismatchLossDB, want)
+	}
+	if sum := got.MatchedLossDB + got.SWRLossDB + got.ConnectorLossDB + got.ImpedanceMismatchLossDB; math.Abs(got.TotalLossDB-sum) > 1e-12 {
+		t.Errorf("total %.4f dB, parts add to %.4f", got.TotalLossDB, sum)
+	}
+	if got.ImpedanceOhm != 75 || got.SystemImpedanceOhm != SystemImpedanceOhm {
+		t.Errorf("impedances %v / %v", got.ImpedanceOhm, got.SystemImpedanceOhm)
+	}
+	rg58, _ := LookupCable("RG-58")
+	if l, _ := NewLine(rg58, 10).Loss(146); l.ImpedanceMismatchLossDB != 0 {
+		t.Errorf("50 Ω cable: mismatch %v dB, want 0", l.ImpedanceMismatchLossDB)
+	}
+	if l, _ := NewLine(rg59, 0).Loss(146); l.ImpedanceMismatchLossDB != 0 {
+		t.Errorf("no cable: mismatch %v dB, want 0", l.ImpedanceMismatchLossDB)
+	}
+}
+
+// TestLongLineFinite: a very long line has a huge but finite loss in dB and
+// delivers nothing; the SWR formula stays finite (written as ML + 10
+// log10[(1 − Γ²/a²)/(1 − Γ²)], the same relation as TL = 10 log10[(a² −
+// Γ²)/(a (1 − Γ²))]).
+func TestLongLineFinite(t *testing.T) {
+	rg58, _ := LookupCable("RG-58")
+	for _, swr := range []float64{1, 1.5, 3, 100} {
+		l := NewLine(rg58, 100_000)
+		l.SWR = swr
+		got, err := l.Loss(146)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, v := range []float64{got.MatchedLossDB, got.SWRLossDB, got.TotalLossDB, got.DeliveredFraction} {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("SWR %g: %+v", swr, got)
+			}
+		}
+		// RG-58 at 146 MHz: about 5.6–6.1 dB/100 ft (ARRL Table 6-1 and the
+		// repeater-systems guide) → about 18 000–20 000 dB over 100 km.
+		if got.TotalLossDB < 17000 || got.TotalLossDB > 21000 || got.DeliveredFraction != 0 {
+			t.Errorf("SWR %g: total %.0f dB, delivered %g", swr, got.TotalLossDB, got.DeliveredFraction)
+		}
+	}
+	// The rewritten formula agrees with the handbook check values.
+	for _, c := range []struct{ ml, swr, tl float64 }{{1, 1.5, 1.066}, {1, 2, 1.196}, {3, 3, 3.968}} {
+		if got := SWRTotalLossDB(c.ml, c.swr); math.Abs(got-c.tl) > 0.001 {
+			t.Errorf("TL(%g dB, SWR %g) = %.4f, want %.3f", c.ml, c.swr, got, c.tl)
+		}
+	}
+}
+
+// TestRangeWarning: the catalog's RG-58 figures span 30–850 MHz (ARRL
+// Table 6-1 and the repeater-systems guide), so 7 MHz and 2400 MHz are
+// extrapolated and 146 MHz is not.
+func TestRangeWarning(t *testing.T) {
+	rg58, _ := LookupCable("RG-58")
+	if w := rg58.RangeWarning(146); w != "" {
+		t.Errorf("146 MHz: %q", w)
+	}
+	if w := rg58.RangeWarning(7.1); w != "RG-58's loss figures span 30–850 MHz; at 7.1 MHz its loss is extrapolated" {
+		t.Errorf("7.1 MHz: %q", w)
+	}
+	if !rg58.Extrapolated(2400) {
+		t.Error("2400 MHz not extrapolated")
+	}
+	rg59, _ := LookupCable("RG-59")
+	if w := rg59.MismatchWarning(); !strings.Contains(w, "75 Ω cable in a 50 Ω system: SWR 1.5:1") || !strings.Contains(w, "0.35 dB") {
+		t.Errorf("RG-59: %q", w)
+	}
+	if w := rg58.MismatchWarning(); w != "" {
+		t.Errorf("RG-58: %q", w)
+	}
+}

@@ -1,6 +1,7 @@
 package gpx
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/xml"
 	"errors"
@@ -8,8 +9,8 @@ import (
 	"io"
 	"math"
 	"os"
-	"regexp"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 
@@ -39,6 +40,7 @@ type Place struct {
 type Track struct {
 	Name   string
 	Points []Place
+	route  bool // read from an <rte>
 }
 
 // File is what mastlink uses from a GPX 1.0 or 1.1 file.
@@ -48,133 +50,343 @@ type File struct {
 	Tracks    []Track // tracks first, then routes, in file order
 }
 
-// Read reads waypoints, tracks and routes from the GPX file at path.
-// Times with a zone offset or fractional seconds are normalised to UTC
-// before decoding (the GPX 1.1 schema's xsd:dateTime).
+// Read reads waypoints, tracks and routes from the GPX file at path,
+// streaming: the file is decoded token by token (encoding/xml) and never
+// held in memory whole, so memory grows with the points kept (about 100
+// bytes each), not with the file's size. See Decode for what is read.
 func Read(path string) (*File, error) {
-	data, err := os.ReadFile(path)
+	fh, err := os.Open(path)
 	if err != nil {
-		return nil, fmt.Errorf("%w: %w", ErrFile, err)
+		return nil, &fileError{err.Error()}
 	}
-	f, err := Decode(data, path)
-	if err != nil {
-		return nil, err
-	}
-	return f, nil
+	defer fh.Close()
+	return decodeStream(bufio.NewReaderSize(fh, 64<<10), path)
 }
 
-var timeElem = regexp.MustCompile(`<((?:[A-Za-z_][\w.-]*:)?time)>\s*([^<]*?)\s*</((?:[A-Za-z_][\w.-]*:)?time)>`)
-
-// normalizeTimes rewrites every <time> element of a GPX document as UTC in
-// the form 2006-01-02T15:04:05Z, the one form gpxgo v1.4.0 reads without
-// error or offset loss. Times it cannot read are left alone.
-func normalizeTimes(data []byte) []byte {
-	return timeElem.ReplaceAllFunc(data, func(m []byte) []byte {
-		sub := timeElem.FindSubmatch(m)
-		t, err := time.Parse(time.RFC3339Nano, string(sub[2]))
-		if err != nil {
-			return m
-		}
-		return []byte("<" + string(sub[1]) + ">" + t.UTC().Format("2006-01-02T15:04:05Z") + "</" + string(sub[3]) + ">")
-	})
-}
-
-// Decode decodes a GPX document; name is used in error messages.
+// Decode decodes a GPX 1.0 or 1.1 document; name is used in error
+// messages. It reads waypoints (<wpt>: lat, lon, ele, time, name, desc,
+// sym), tracks (<trk>: name, and the <trkpt> of every <trkseg> in order)
+// and routes (<rte>: name, <rtept>), and skips everything else (metadata,
+// extensions). Times (xsd:dateTime, GPX 1.1 schema) are read with their
+// zone offset and fractional seconds and kept in UTC; a time without a
+// zone is taken as UTC. Errors wrap ErrFile and name the file, the line
+// and the point: hike.gpx:123: trkpt 45: lat "abc" is not a number.
 func Decode(data []byte, name string) (*File, error) {
-	if len(bytes.TrimSpace(data)) == 0 {
-		return nil, fmt.Errorf("%w: %s: the file is empty (expected a GPX document)", ErrFile, name)
+	return decodeStream(bytes.NewReader(data), name)
+}
+
+// fileError is an error reading a GPX file, in its own words, wrapping
+// ErrFile.
+type fileError struct{ msg string }
+
+func (e *fileError) Error() string { return e.msg }
+func (e *fileError) Unwrap() error { return ErrFile }
+
+// gpxDecoder walks a GPX document token by token.
+type gpxDecoder struct {
+	dec  *xml.Decoder
+	name string
+	buf  []byte // text of the element being read, reused
+}
+
+// errorf returns a fileError naming the file and the decoder's line.
+func (d *gpxDecoder) errorf(format string, args ...any) error {
+	line, _ := d.dec.InputPos()
+	return &fileError{fmt.Sprintf("%s:%d: ", d.name, line) + fmt.Sprintf(format, args...)}
+}
+
+// token returns the next token, turning syntax errors into one line
+// naming the file and line.
+func (d *gpxDecoder) token() (xml.Token, error) {
+	tok, err := d.dec.Token()
+	if err != nil {
+		var se *xml.SyntaxError
+		switch {
+		case errors.Is(err, io.EOF):
+			return nil, io.EOF
+		case errors.As(err, &se):
+			return nil, &fileError{fmt.Sprintf("%s:%d: not well-formed XML: %s", d.name, se.Line, se.Msg)}
+		}
+		return nil, d.errorf("%v", err)
 	}
-	// Check well-formedness first so the error can name the line.
-	dec := xml.NewDecoder(bytes.NewReader(data))
-	dec.Strict = true
-	dec.CharsetReader = func(label string, input io.Reader) (io.Reader, error) { return input, nil }
-	sawGPX := false
+	return tok, nil
+}
+
+// text returns the character data of the element just started, up to its
+// end, skipping any elements inside it.
+func (d *gpxDecoder) text() (string, error) {
+	d.buf = d.buf[:0]
+	depth := 0
 	for {
-		tok, err := dec.Token()
+		tok, err := d.token()
 		if err != nil {
 			if errors.Is(err, io.EOF) {
-				break
+				return "", d.errorf("the document ends inside an element")
 			}
-			var se *xml.SyntaxError
-			if errors.As(err, &se) {
-				return nil, fmt.Errorf("%w: %s:%d: not well-formed XML: %s", ErrFile, name, se.Line, se.Msg)
-			}
-			return nil, fmt.Errorf("%w: %s: %v", ErrFile, name, err)
+			return "", err
 		}
-		if se, ok := tok.(xml.StartElement); ok && !sawGPX {
-			if se.Name.Local != "gpx" {
-				return nil, fmt.Errorf("%w: %s: the root element is <%s>, not <gpx>: is this a GPX file?", ErrFile, name, se.Name.Local)
+		switch t := tok.(type) {
+		case xml.CharData:
+			if depth == 0 {
+				d.buf = append(d.buf, t...)
 			}
-			sawGPX = true
+		case xml.StartElement:
+			depth++
+		case xml.EndElement:
+			if depth == 0 {
+				return string(bytes.TrimSpace(d.buf)), nil
+			}
+			depth--
 		}
 	}
-	if !sawGPX {
-		return nil, fmt.Errorf("%w: %s: no <gpx> element found", ErrFile, name)
+}
+
+// skip skips the rest of the element just started.
+func (d *gpxDecoder) skip() error {
+	if err := d.dec.Skip(); err != nil {
+		var se *xml.SyntaxError
+		if errors.As(err, &se) {
+			return &fileError{fmt.Sprintf("%s:%d: not well-formed XML: %s", d.name, se.Line, se.Msg)}
+		}
+		if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) {
+			return d.errorf("the document ends inside an element")
+		}
+		return d.errorf("%v", err)
 	}
-	g, err := gpxgo.ParseBytes(normalizeTimes(data))
-	if err != nil {
-		return nil, fmt.Errorf("%w: %s: %v", ErrFile, name, err)
-	}
+	return nil
+}
+
+func decodeStream(r io.Reader, name string) (*File, error) {
+	dec := xml.NewDecoder(r)
+	dec.Strict = true
+	dec.CharsetReader = func(label string, input io.Reader) (io.Reader, error) { return input, nil }
+	d := &gpxDecoder{dec: dec, name: name}
 	out := &File{Path: name}
-	for i, w := range g.Waypoints {
-		p, err := placeFrom(&w, name, fmt.Sprintf("waypoint %d", i+1))
+	sawGPX, sawAny := false, false
+	depth := 0 // inside <gpx>: 1
+	nTrk, nRte := 0, 0
+	for {
+		tok, err := d.token()
+		if errors.Is(err, io.EOF) {
+			break
+		}
 		if err != nil {
 			return nil, err
 		}
-		out.Waypoints = append(out.Waypoints, p)
-	}
-	for ti, t := range g.Tracks {
-		tr := Track{Name: t.Name}
-		if tr.Name == "" {
-			tr.Name = fmt.Sprintf("track %d", ti+1)
-		}
-		for _, s := range t.Segments {
-			for i := range s.Points {
-				p, err := placeFrom(&s.Points[i], name, fmt.Sprintf("%s point %d", tr.Name, len(tr.Points)+1))
+		switch t := tok.(type) {
+		case xml.CharData:
+			if len(bytes.TrimSpace(t)) > 0 {
+				sawAny = true
+			}
+		case xml.EndElement:
+			depth--
+		case xml.StartElement:
+			sawAny = true
+			if !sawGPX {
+				if t.Name.Local != "gpx" {
+					return nil, &fileError{fmt.Sprintf("%s: the root element is <%s>, not <gpx>: is this a GPX file?", name, t.Name.Local)}
+				}
+				sawGPX = true
+				depth = 1
+				continue
+			}
+			if depth != 1 {
+				// A second root element: the XML decoder refuses it in
+				// strict mode; anything deeper was consumed below.
+				if err := d.skip(); err != nil {
+					return nil, err
+				}
+				continue
+			}
+			switch t.Name.Local {
+			case "wpt":
+				p, err := d.point(t, fmt.Sprintf("wpt %d", len(out.Waypoints)+1))
 				if err != nil {
 					return nil, err
 				}
-				tr.Points = append(tr.Points, p)
+				out.Waypoints = append(out.Waypoints, p)
+			case "trk":
+				nTrk++
+				tr, err := d.track(fmt.Sprintf("track %d", nTrk), "trkpt")
+				if err != nil {
+					return nil, err
+				}
+				out.Tracks = append(out.Tracks, tr)
+			case "rte":
+				nRte++
+				tr, err := d.track(fmt.Sprintf("route %d", nRte), "rtept")
+				if err != nil {
+					return nil, err
+				}
+				out.Tracks = append(out.Tracks, tr)
+			default:
+				if err := d.skip(); err != nil {
+					return nil, err
+				}
 			}
+		default:
+			sawAny = true
 		}
-		out.Tracks = append(out.Tracks, tr)
 	}
-	for ri, r := range g.Routes {
-		tr := Track{Name: r.Name}
-		if tr.Name == "" {
-			tr.Name = fmt.Sprintf("route %d", ri+1)
+	if !sawGPX {
+		if !sawAny {
+			return nil, &fileError{fmt.Sprintf("%s: the file is empty (expected a GPX document)", name)}
 		}
-		for i := range r.Points {
-			p, err := placeFrom(&r.Points[i], name, fmt.Sprintf("%s point %d", tr.Name, i+1))
-			if err != nil {
-				return nil, err
-			}
-			tr.Points = append(tr.Points, p)
-		}
-		out.Tracks = append(out.Tracks, tr)
+		return nil, &fileError{fmt.Sprintf("%s: no <gpx> element found", name)}
 	}
+	// Tracks first, then routes, each in file order.
+	sort.SliceStable(out.Tracks, func(i, j int) bool { return !out.Tracks[i].route && out.Tracks[j].route })
 	return out, nil
 }
 
-func placeFrom(w *gpxgo.GPXPoint, file, what string) (Place, error) {
-	lat, lon := w.Latitude, w.Longitude
-	if !(lat >= -90 && lat <= 90) || !(lon >= -180 && lon <= 180) {
-		return Place{}, fmt.Errorf("%w: %s: %s %q: position %g,%g is outside latitude −90…90 / longitude −180…180", ErrFile, file, what, w.Name, lat, lon)
+// track reads a <trk> (points in <trkseg> elements) or an <rte> (points
+// directly inside) just started; ptName is "trkpt" or "rtept".
+func (d *gpxDecoder) track(defaultName, ptName string) (Track, error) {
+	tr := Track{route: ptName == "rtept"}
+	depth := 0
+	for {
+		tok, err := d.token()
+		if err != nil {
+			if errors.Is(err, io.EOF) {
+				return Track{}, d.errorf("the document ends inside a track")
+			}
+			return Track{}, err
+		}
+		switch t := tok.(type) {
+		case xml.EndElement:
+			if depth == 0 {
+				if tr.Name == "" {
+					tr.Name = defaultName
+				}
+				return tr, nil
+			}
+			depth--
+		case xml.StartElement:
+			switch {
+			case depth == 0 && t.Name.Local == "name":
+				if tr.Name, err = d.text(); err != nil {
+					return Track{}, err
+				}
+			case depth == 0 && t.Name.Local == "trkseg" && ptName == "trkpt":
+				depth++
+			case t.Name.Local == ptName && (depth == 1 || ptName == "rtept" && depth == 0):
+				p, err := d.point(t, fmt.Sprintf("%s %d", ptName, len(tr.Points)+1))
+				if err != nil {
+					return Track{}, err
+				}
+				tr.Points = append(tr.Points, p)
+			default:
+				if err := d.skip(); err != nil {
+					return Track{}, err
+				}
+			}
+		}
 	}
-	p := Place{
-		Name:        strings.TrimSpace(w.Name),
-		Pos:         orb.Point{lon, lat},
-		ElevM:       nan(),
-		Description: w.Description,
-		Symbol:      w.Symbol,
+}
+
+// point reads a <wpt>, <trkpt> or <rtept> just started; what names it in
+// errors ("trkpt 45").
+func (d *gpxDecoder) point(se xml.StartElement, what string) (Place, error) {
+	var lat, lon float64
+	var haveLat, haveLon bool
+	for _, a := range se.Attr {
+		var dst *float64
+		switch a.Name.Local {
+		case "lat":
+			dst, haveLat = &lat, true
+		case "lon":
+			dst, haveLon = &lon, true
+		default:
+			continue
+		}
+		v, err := strconv.ParseFloat(strings.TrimSpace(a.Value), 64)
+		if err != nil {
+			return Place{}, d.errorf("%s: %s %q is not a number", what, a.Name.Local, clip(a.Value))
+		}
+		*dst = v
 	}
-	if w.Elevation.NotNull() {
-		p.ElevM = w.Elevation.Value()
+	switch {
+	case !haveLat:
+		return Place{}, d.errorf("%s: no lat attribute (write e.g. lat=\"-48.5\" lon=\"-123.9\")", what)
+	case !haveLon:
+		return Place{}, d.errorf("%s: no lon attribute (write e.g. lat=\"-48.5\" lon=\"-123.9\")", what)
+	case !(lat >= -90 && lat <= 90) || !(lon >= -180 && lon <= 180):
+		return Place{}, d.errorf("%s: position %g,%g is outside latitude −90…90 / longitude −180…180", what, lat, lon)
 	}
-	if !w.Timestamp.IsZero() {
-		p.Time = w.Timestamp.UTC()
+	p := Place{Pos: orb.Point{lon, lat}, ElevM: nan()}
+	for {
+		tok, err := d.token()
+		if err != nil {
+			if errors.Is(err, io.EOF) {
+				return Place{}, d.errorf("%s: the document ends inside it", what)
+			}
+			return Place{}, err
+		}
+		switch t := tok.(type) {
+		case xml.EndElement:
+			return p, nil
+		case xml.StartElement:
+			field := t.Name.Local
+			switch field {
+			case "ele", "time", "name", "desc", "sym":
+			default:
+				if err := d.skip(); err != nil {
+					return Place{}, err
+				}
+				continue
+			}
+			v, err := d.text()
+			if err != nil {
+				return Place{}, err
+			}
+			switch field {
+			case "ele":
+				if v == "" {
+					continue
+				}
+				e, err := strconv.ParseFloat(v, 64)
+				if err != nil || math.IsNaN(e) || math.IsInf(e, 0) {
+					return Place{}, d.errorf("%s: ele %q is not a number of metres", what, clip(v))
+				}
+				p.ElevM = e
+			case "time":
+				if v == "" {
+					continue
+				}
+				tm, err := parseTime(v)
+				if err != nil {
+					return Place{}, d.errorf("%s: time %q is not a date and time (write e.g. 2026-05-16T09:00:00Z)", what, clip(v))
+				}
+				p.Time = tm
+			case "name":
+				p.Name = v
+			case "desc":
+				p.Description = v
+			case "sym":
+				p.Symbol = v
+			}
+		}
 	}
-	return p, nil
+}
+
+// parseTime reads an xsd:dateTime (GPX 1.1 schema) into UTC: with a zone
+// offset or Z, with or without fractional seconds; without a zone it is
+// taken as UTC.
+func parseTime(s string) (time.Time, error) {
+	for _, layout := range []string{time.RFC3339Nano, "2006-01-02T15:04:05.999999999"} {
+		if t, err := time.Parse(layout, s); err == nil {
+			return t.UTC(), nil
+		}
+	}
+	return time.Time{}, errors.New("not a dateTime")
+}
+
+// clip shortens echoed input to 40 characters.
+func clip(s string) string {
+	if r := []rune(s); len(r) > 40 {
+		return string(r[:40]) + "…"
+	}
+	return s
 }
 
 // Lookup finds the waypoint called name, ignoring case and surrounding
@@ -253,11 +465,15 @@ type Output struct {
 	Routes    []Track // written as <rte>, e.g. closed keep-out circles
 }
 
-// Encode renders out as a GPX 1.1 document. Times are written in UTC
-// (xsd:dateTime with a Z suffix); NaN elevations are omitted.
+// Encode renders out as a GPX 1.1 document, the same bytes for the same
+// Output. Times are written in UTC (xsd:dateTime with a Z suffix), and only
+// where a Place has one (no time of writing is added); elevations are
+// rounded to 0.1 m and NaN ones omitted. Waypoints with the same name at
+// the same position are written once, their descriptions joined with
+// "; ".
 func Encode(out Output) ([]byte, error) {
 	g := &gpxgo.GPX{Version: "1.1", Creator: "mastlink", Name: out.Name}
-	for _, w := range out.Waypoints {
+	for _, w := range uniqueWaypoints(out.Waypoints) {
 		g.Waypoints = append(g.Waypoints, gpxPoint(w))
 	}
 	for _, t := range out.Tracks {
@@ -286,11 +502,37 @@ func gpxPoint(p Place) gpxgo.GPXPoint {
 		Point: gpxgo.Point{Latitude: p.Pos.Lat(), Longitude: p.Pos.Lon()},
 		Name:  p.Name, Description: p.Description, Symbol: p.Symbol,
 	}
-	if !math.IsNaN(p.ElevM) {
-		w.Elevation = *gpxgo.NewNullableFloat64(p.ElevM)
+	if !math.IsNaN(p.ElevM) && !math.IsInf(p.ElevM, 0) {
+		w.Elevation = *gpxgo.NewNullableFloat64(math.Round(p.ElevM*10) / 10)
 	}
 	if !p.Time.IsZero() {
 		w.Timestamp = p.Time.UTC()
 	}
 	return w
+}
+
+// uniqueWaypoints returns ws with later waypoints of the same name and
+// position merged into the first: descriptions not yet present are joined
+// with "; ".
+func uniqueWaypoints(ws []Place) []Place {
+	out := make([]Place, 0, len(ws))
+	for _, w := range ws {
+		dup := false
+		for i := range out {
+			if out[i].Name == w.Name && out[i].Pos == w.Pos {
+				if w.Description != "" && !strings.Contains(out[i].Description, w.Description) {
+					if out[i].Description != "" {
+						out[i].Description += "; "
+					}
+					out[i].Description += w.Description
+				}
+				dup = true
+				break
+			}
+		}
+		if !dup {
+			out = append(out, w)
+		}
+	}
+	return out
 }

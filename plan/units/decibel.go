@@ -41,30 +41,45 @@ func DBmFromMicrovolts(uV float64) float64 { return 20*math.Log10(uV) + microvol
 // the inverse of DBmFromMicrovolts.
 func MicrovoltsFromDBm(dBm float64) float64 { return math.Pow(10, (dBm-microvoltRefDBm)/20) }
 
-// S-meter calibration above 30 MHz, IARU Region 1 Technical Recommendation
-// R.1 (from memory): S9 is −93 dBm (5 µV across 50 Ω) and one S-unit is 6 dB.
+// S-meter calibration, IARU Region 1 Technical Recommendation R.1
+// (Brighton 1981, amended Torremolinos 1990; as given in the IARU Region 1
+// HF Managers' Handbook v9, 2018, §4.1.3): S9 is an available power of
+// −73 dBm (50 µV across 50 Ω) on the bands below 30 MHz and −93 dBm (5 µV)
+// above 30 MHz; one S-unit is 6 dB.
 const (
-	S9VHFDBm  = -93.0
-	SUnitDB   = 6.0
-	s1VHFDBm  = S9VHFDBm - 8*SUnitDB // −141 dBm
-	maxSUnits = 9
+	S9HFDBm        = -73.0
+	S9VHFDBm       = -93.0
+	SUnitDB        = 6.0
+	SMeterHFMaxMHz = 30.0 // the HF calibration applies below this frequency
 )
 
-// SMeter renders a received level in dBm as an S-meter reading above 30 MHz
-// (IARU Region 1 R.1: S9 = −93 dBm, 6 dB per unit). Below S9 the reading is
-// the highest S-unit the level reaches ("S7" from −105 dBm up to just below
-// −99 dBm); from S9 up it is "S9" or "S9+NdB" with N rounded to whole dB;
-// below −141 dBm (S1) it is "below S1". NaN gives "".
-func SMeter(dBm float64) string {
+// S9DBm returns the S9 level in dBm at freqMHz by IARU Region 1 R.1:
+// −73 dBm below 30 MHz, −93 dBm from 30 MHz up.
+func S9DBm(freqMHz float64) float64 {
+	if freqMHz < SMeterHFMaxMHz {
+		return S9HFDBm
+	}
+	return S9VHFDBm
+}
+
+// SMeter renders a received level in dBm at freqMHz as an S-meter reading
+// by IARU Region 1 R.1 (S9DBm: −73 dBm below 30 MHz, −93 dBm above; 6 dB
+// per unit). Below S9 the reading is the highest S-unit the level reaches
+// (above 30 MHz "S7" from −105 dBm up to just below −99 dBm); from S9 up it
+// is "S9" or "S9+NdB" with N rounded to whole dB; below S1 (S9 − 48 dB) it
+// is "below S1". NaN gives "".
+func SMeter(dBm, freqMHz float64) string {
+	s9 := S9DBm(freqMHz)
+	s1 := s9 - 8*SUnitDB
 	switch {
 	case math.IsNaN(dBm):
 		return ""
-	case dBm < s1VHFDBm:
+	case dBm < s1:
 		return "below S1"
-	case dBm < S9VHFDBm:
-		return fmt.Sprintf("S%d", 1+int(math.Floor((dBm-s1VHFDBm)/SUnitDB)))
+	case dBm < s9:
+		return fmt.Sprintf("S%d", 1+int(math.Floor((dBm-s1)/SUnitDB)))
 	}
-	over := math.Round(dBm - S9VHFDBm)
+	over := math.Round(dBm - s9)
 	if over == 0 {
 		return "S9"
 	}

@@ -74,27 +74,46 @@ func TestDipoleGain(t *testing.T) {
 }
 
 func TestSMeter(t *testing.T) {
-	// IARU Region 1 Technical Recommendation R.1 (from memory): above
-	// 30 MHz S9 = −93 dBm, 6 dB per S-unit, so S1 = −141 dBm.
+	// IARU Region 1 Technical Recommendation R.1 (Brighton 1981, amended
+	// Torremolinos 1990), as quoted from the IARU Region 1 HF Managers'
+	// Handbook v9 (2018) §4.1.3: S9 is an available power of −73 dBm
+	// (50 µV across 50 Ω) on the bands below 30 MHz and −93 dBm (5 µV)
+	// above; one S-unit is 6 dB. So S1 = −121 dBm on HF, −141 dBm above.
 	cases := []struct {
-		name string
-		dBm  float64
-		want string
+		name    string
+		dBm     float64
+		freqMHz float64
+		want    string
 	}{
-		{"S9 exactly", -93, "S9"},
-		{"just under S9", -93.5, "S8"},
-		{"S8", -99, "S8"},
-		{"S5", -117, "S5"},
-		{"S1", -141, "S1"},
-		{"below S1", -141.5, "below S1"},
-		{"S9+10", -83, "S9+10dB"},
-		{"S9+20 rounded", -72.6, "S9+20dB"},
-		{"S9 rounded", -92.6, "S9"},
-		{"strong", -33, "S9+60dB"},
+		{"S9 exactly", -93, 146, "S9"},
+		{"just under S9", -93.5, 146, "S8"},
+		{"S8", -99, 146, "S8"},
+		{"S5", -117, 446, "S5"},
+		{"S1", -141, 146, "S1"},
+		{"below S1", -141.5, 146, "below S1"},
+		{"S9+10", -83, 146, "S9+10dB"},
+		{"S9+20 rounded", -72.6, 146, "S9+20dB"},
+		{"S9 rounded", -92.6, 146, "S9"},
+		{"strong", -33, 146, "S9+60dB"},
+		{"6 m is above 30 MHz", -93, 50.1, "S9"},
+		{"HF S9", -73, 14.2, "S9"},
+		{"HF: -93 dBm is S5 (20 dB under S9)", -93, 7.1, "S5"},
+		{"HF S1", -121, 3.6, "S1"},
+		{"HF below S1", -121.5, 3.6, "below S1"},
+		{"HF S9+20", -53, 28.5, "S9+20dB"},
+		{"just below 30 MHz is HF", -73, 29.99, "S9"},
 	}
 	for _, c := range cases {
-		if got := SMeter(c.dBm); got != c.want {
-			t.Errorf("%s: SMeter(%v) = %q, want %q", c.name, c.dBm, got, c.want)
+		if got := SMeter(c.dBm, c.freqMHz); got != c.want {
+			t.Errorf("%s: SMeter(%v, %v MHz) = %q, want %q", c.name, c.dBm, c.freqMHz, got, c.want)
 		}
+	}
+	if got := S9DBm(14); got != -73 {
+		t.Errorf("S9 at 14 MHz %v dBm, want -73", got)
+	}
+	// 50 µV and 5 µV across 50 Ω: 20 log10(50) − 106.99 = −73.0 dBm,
+	// 20 log10(5) − 106.99 = −93.0 dBm (P = V²/R).
+	if math.Abs(DBmFromMicrovolts(50)-S9DBm(14)) > 0.02 || math.Abs(DBmFromMicrovolts(5)-S9DBm(146)) > 0.02 {
+		t.Error("S9 levels disagree with 50 µV / 5 µV across 50 Ω")
 	}
 }

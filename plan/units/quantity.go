@@ -569,6 +569,15 @@ func FormatPower(w float64) string {
 	return fmt.Sprintf("%.2f kW", w/1e3)
 }
 
+// FormatSWR renders a standing-wave ratio as "1.5:1", "1.27:1" or
+// "100:1": up to two decimals, trailing zeros dropped, never in exponent
+// form.
+func FormatSWR(swr float64) string {
+	t := strconv.FormatFloat(swr, 'f', 2, 64)
+	t = strings.TrimRight(strings.TrimRight(t, "0"), ".")
+	return t + ":1"
+}
+
 // FormatFreq renders a frequency in MHz: "146.520 MHz" below 1 GHz,
 // "1.200 GHz" above.
 func FormatFreq(mhz float64) string {

@@ -334,6 +334,11 @@ func TestFormat(t *testing.T) {
 		{"kilowatts", FormatPower(1500), "1.50 kW"},
 		{"MHz", FormatFreq(146.52), "146.520 MHz"},
 		{"GHz", FormatFreq(1200), "1.200 GHz"},
+		{"SWR", FormatSWR(1.5), "1.5:1"},
+		{"SWR two decimals", FormatSWR(1.266), "1.27:1"},
+		{"SWR matched", FormatSWR(1), "1:1"},
+		{"SWR 100 not in exponent form", FormatSWR(100), "100:1"},
+		{"SWR 1000", FormatSWR(1000), "1000:1"},
 	}
 	for _, c := range cases {
 		if c.got != c.want {
