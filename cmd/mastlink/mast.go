@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
@@ -23,16 +24,22 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	heights := []float64{}
 	hseen := map[float64]bool{}
 	cell := map[string]plan.MastRow{}
+	column := func(r plan.MastRow) string { // the cable, after the antenna when the sweep tries antennas
+		if r.Antenna != "" {
+			return r.Antenna + " " + r.Cable
+		}
+		return r.Cable
+	}
 	for _, r := range m.Rows {
-		if !seen[r.Cable] {
-			seen[r.Cable] = true
-			cables = append(cables, r.Cable)
+		if !seen[column(r)] {
+			seen[column(r)] = true
+			cables = append(cables, column(r))
 		}
 		if !hseen[r.HeightM] {
 			hseen[r.HeightM] = true
 			heights = append(heights, r.HeightM)
 		}
-		cell[fmt.Sprintf("%g|%s", r.HeightM, r.Cable)] = r
+		cell[fmt.Sprintf("%g|%s", r.HeightM, column(r))] = r
 	}
 	sort.Float64s(heights)
 	t := newTable(w)
@@ -53,11 +60,15 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	switch {
 	case m.Recommended != nil:
 		r := m.Recommended
-		fmt.Fprintf(w, "Recommended: a %s mast with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
+		ant := ""
+		if r.Antenna != "" {
+			ant = ", the " + r.Antenna + ","
+		}
+		fmt.Fprintf(w, "Recommended: a %s mast%s with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), ant, units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
 	case m.Closest != nil:
 		c := m.Closest
 		fmt.Fprintf(w, "Nothing in the sweep meets the requirement. Closest: %s mast with %s, worst margin %+.1f dB on %s (%.1f dB short).\n\n",
-			units.FormatHeight(c.HeightM, im), c.Cable, c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
+			units.FormatHeight(c.HeightM, im), strings.TrimSpace(c.Antenna+" "+c.Cable), c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
 	}
 	fmt.Fprintln(w, strings.TrimSpace(`Raise masts only where a falling mast cannot reach a power line; guy them against wind
 and do not raise them in storms.`))
@@ -67,6 +78,7 @@ and do not raise them in storms.`))
 type mastOptions struct {
 	planFile, station           string
 	heights, cables, run, slack string
+	antennas                    string
 	from, to, freq, k           string
 	station0, target            endFlags                // the station's kit (power, gain, sens, swr, connectors) and the target's (--to-…)
 	req                         plan.RequirementOptions // --margin, --reliability, --sigma
@@ -122,6 +134,9 @@ With --plan the station, targets and requirement come from a plan file
 	f.StringVar(&tg.gain, "to-gain", "0dBi", "target antenna gain [dBi]")
 	f.StringVar(&tg.height, "to-height", "1.5m", "target antenna height [m]")
 	addSensFlag(cmd, tg, "to-sens", "target receiver sensitivity [dBm]")
+	addAntennaFlags(cmd, st, "", "station ")
+	addAntennaFlags(cmd, tg, "to-", "target ")
+	f.StringVar(&o.antennas, "antennas", "", "catalog antennas to try in place of the station's, comma separated, preferred first (see `mastlink antenna --list`)")
 	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
 	addWaypointsFlag(cmd, &o.points)
 	return cmd
@@ -208,6 +223,16 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 			sweep.Cables = append(sweep.Cables, c)
 		}
 	}
+	if o.antennas != "" {
+		sweep.Antennas = nil
+		for _, name := range strings.Split(o.antennas, ",") {
+			a, err := antenna.Lookup(name)
+			if err != nil {
+				return usagef("--antennas: %v", err)
+			}
+			sweep.Antennas = append(sweep.Antennas, a)
+		}
+	}
 	if o.run != "" {
 		if sweep.RunM, err = quantity("run", o.run, units.ParseLengthM); err != nil {
 			return err
@@ -262,7 +287,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 func writeMastCSV(w io.Writer, m *plan.MastResult) error {
 	rows := make([][]string, len(m.Rows))
 	for i, r := range m.Rows {
-		rows[i] = []string{f2(r.HeightM), r.Cable, f2(r.CableLengthM), f2(r.CableMassKg), f2(r.FeedlineLossDB), f2(r.WorstMarginDB), r.WorstLink, fmt.Sprint(r.MeetsRequirement)}
+		rows[i] = []string{f2(r.HeightM), r.Cable, f2(r.CableLengthM), f2(r.CableMassKg), f2(r.FeedlineLossDB), f2(r.WorstMarginDB), r.WorstLink, fmt.Sprint(r.MeetsRequirement), r.Antenna}
 	}
-	return writeCSV(w, []string{"height_m", "cable", "cable_length_m", "cable_mass_kg", "feedline_loss_db", "worst_margin_db", "worst_link", "meets_requirement"}, rows)
+	return writeCSV(w, []string{"height_m", "cable", "cable_length_m", "cable_mass_kg", "feedline_loss_db", "worst_margin_db", "worst_link", "meets_requirement", "antenna"}, rows)
 }

@@ -40,7 +40,8 @@ func addReachFlags(cmd *cobra.Command, o *reachOptions, kitName string) {
 	f.StringVar(&o.req.Reliability, "reliability", "", "wanted fraction of locations, e.g. 90%: raises the margin needed")
 	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
 	addEnvFlags(cmd, &o.envFlags)
-	o.kitFlags = []string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens", "margin", "reliability", "sigma", "k", "model", "polarization", "ground"}
+	o.kitFlags = append([]string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens", "margin", "reliability", "sigma", "k", "model", "polarization", "ground"},
+		antennaFlagNames("")...)
 }
 
 // reach is everything a route or a site ranking needs, resolved.

@@ -159,6 +159,8 @@ a bare number takes the default unit named in each flag's help.`,
 		newMastCmd(g),
 		newRouteCmd(g),
 		newSitesCmd(g),
+		newAntennaCmd(g),
+		newRelayCmd(g),
 		newVersionCmd(g),
 	)
 	return root
