@@ -4,6 +4,9 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
+	"strconv"
+	"strings"
 
 	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/units"
@@ -147,8 +150,9 @@ type trimLengthJSON struct {
 }
 
 // trimCaution goes with every trim.
-const trimCaution = "The rule holds for small corrections. Cut each element a little longer than the figure, " +
-	"measure again where and as the antenna will be used, and trim the rest: a cut cannot be undone."
+const trimCaution = "The rule holds for small corrections, and the mounting (mast, clamps, nearby metal, the feedline) " +
+	"moves the resonance: cut each element a little longer than the figure, measure again where and as the antenna " +
+	"will be used, and trim the rest. A cut cannot be undone."
 
 func runAntennaTrim(ctx context.Context, g *globals, o *antennaTrimOptions, args []string) error {
 	if o.resonance == "" || o.want == "" || len(o.lengths) == 0 {
@@ -164,7 +168,7 @@ func runAntennaTrim(ctx context.Context, g *globals, o *antennaTrimOptions, args
 	}
 	var ls []float64
 	for _, l := range o.lengths {
-		v, err := quantity("length", l, units.ParseLengthM)
+		v, err := quantity("length", l, parseElementLengthM)
 		if err != nil {
 			return err
 		}
@@ -279,4 +283,23 @@ func startLength(m float64, im bool) string {
 		return fmt.Sprintf("%.2f in", m/units.MetresPerFoot*12)
 	}
 	return fmt.Sprintf("%.1f mm", m*1000)
+}
+
+// parseElementLengthM reads an element length: mm, cm and in (inches) as
+// well as the lengths units.ParseLengthM takes; metres.
+func parseElementLengthM(s string) (float64, error) {
+	t := strings.TrimSpace(s)
+	for _, u := range []struct {
+		suffix string
+		m      float64
+	}{{"mm", 0.001}, {"cm", 0.01}, {"in", 0.0254}} { // 1 in = 25.4 mm exactly
+		if num, ok := strings.CutSuffix(t, u.suffix); ok {
+			v, err := strconv.ParseFloat(strings.TrimSpace(num), 64)
+			if err != nil || !(v > 0) || math.IsInf(v, 0) {
+				return 0, fmt.Errorf("%q: give a length above 0, e.g. 468mm", s)
+			}
+			return v * u.m, nil
+		}
+	}
+	return units.ParseLengthM(s)
 }
