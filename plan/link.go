@@ -182,10 +182,15 @@ type LinkResult struct {
 	RxGroundM        float64   `json:"rx_ground_m"`
 }
 
-// Evaluate computes the budget from tx to rx over g. tx is at g.From when
-// txAtFrom is true, else at g.To; the path loss is computed on g in its own
-// orientation (ITU-R P.526 diffraction is reciprocal), so one Geometry
-// serves both directions.
+// Evaluate computes the budget from tx to rx over g at freqMHz (LinkBudget:
+// dBm and dB). tx is at g.From when txAtFrom is true, else at g.To; the path
+// loss is computed on g in its own orientation (ITU-R P.526 diffraction is
+// reciprocal), so one Geometry serves both directions. Each antenna's gain is
+// its gain toward the path (Antenna.GainTowardDBi: the catalog pattern
+// toward the path's azimuth and its elevation angle at that end, the horizon
+// angles of ITU-R P.452-17 Attachment 2 to Annex 1); a handheld's body loss
+// comes off the EIRP or the received level, and each end's terminal clutter
+// loss (ITU-R P.2108-1 §3.1, Antenna.ClutterLossDB) adds to the path loss.
 func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) (LinkResult, error) {
 	if !(freqMHz > 0) {
 		return LinkResult{}, errors.New("no frequency given")
