@@ -38,10 +38,12 @@ type StationExposure struct {
 type PlanResult struct {
 	Name             string            `json:"name"`
 	NeededMarginDB   float64           `json:"needed_margin_db"`
+	DefaultMargin    bool              `json:"default_margin"` // the plan asks for nothing: plan.DefaultMarginDB
 	Stations         []StationSummary  `json:"stations"`
 	Links            []LinkResult      `json:"links"`
 	Exposure         []StationExposure `json:"exposure"`
-	Mast             *MastResult       `json:"mast,omitempty"`
+	Mast             *MastResult       `json:"mast,omitempty"`   // the first station's sweep
+	Masts            []*MastResult     `json:"masts,omitempty"`  // every station's sweep, when the plan has more than one station
 	Routes           []RouteResult     `json:"routes,omitempty"` // see EvaluatePlanRoutes
 	Sites            *SitesResult      `json:"sites,omitempty"`  // see EvaluatePlanSites
 	Warnings         []string          `json:"warnings"`
@@ -53,24 +55,58 @@ type PlanResult struct {
 type Progress func(done, total int)
 
 // NewEnv returns the link environment a plan asks for over the given
-// terrain (nil for a smooth earth).
+// terrain (nil for a smooth earth). With a model that gives its own
+// variability (Requirement.ByModel) there is no σ-based probability.
 func (p *Plan) NewEnv(ts *terrain.Set) *Env {
-	return &Env{Terrain: ts, Model: p.Model, K: p.K, Polarization: p.Polarization, Ground: p.Ground, SigmaDB: p.Require.SigmaDB}
+	sigma := p.Require.SigmaDB
+	if p.Require.ByModel {
+		sigma = 0
+	}
+	return &Env{Terrain: ts, Model: p.Model, K: p.K, Polarization: p.Polarization, Ground: p.Ground, SigmaDB: sigma}
 }
 
 // EvaluatePlan evaluates every station against every target in both
-// directions, every station's RF exposure, and the mast sweep when the plan
-// asks for one. Profiles are extracted once per station–target pair.
+// directions, every pair of stations in both directions (simplex on the
+// plan's frequency), every station's RF exposure, and, when the plan asks
+// for one, every station's mast sweep against the plan's targets and the
+// other stations. Profiles are extracted once per station–target pair.
 func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*PlanResult, error) {
-	res := &PlanResult{Name: p.Name, NeededMarginDB: p.Require.NeededMarginDB(), MeetsRequirement: true, Warnings: []string{}, Links: []LinkResult{}, Exposure: []StationExposure{}}
+	res := &PlanResult{Name: p.Name, NeededMarginDB: p.Require.NeededMarginDB(), DefaultMargin: p.Require.Default, MeetsRequirement: true,
+		Warnings: []string{}, Links: []LinkResult{}, Exposure: []StationExposure{}}
 	need := res.NeededMarginDB
-	total := len(p.Stations) * len(p.Targets)
+	ns, nt := len(p.Stations), len(p.Targets)
+	if ns > 1 && !(p.FreqMHz > 0) {
+		return nil, fmt.Errorf("the plan has %d stations but no frequency: the stations are checked against each other on it", ns)
+	}
+	total := ns*nt + ns*(ns-1)/2
 	done := 0
-	geoms := make([][]*Geometry, len(p.Stations))
+	step := func() {
+		done++
+		if progress != nil {
+			progress(done, total)
+		}
+	}
+	sums := make([]StationSummary, ns)
+	count := func(sum *StationSummary, links []LinkResult, optional bool) {
+		ok := true
+		for _, l := range links {
+			ok = ok && *l.MeetsRequirement
+		}
+		if optional {
+			return
+		}
+		sum.Of++
+		if ok {
+			sum.Reached++
+		} else {
+			res.MeetsRequirement = false
+		}
+	}
+	geoms := make([][]*Geometry, ns)
 	for si, st := range p.Stations {
-		sum := StationSummary{Name: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), PowerW: st.Radio.PowerW, GainDBi: st.Antenna.GainDBi,
+		sums[si] = StationSummary{Name: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), PowerW: st.Radio.PowerW, GainDBi: st.Antenna.GainDBi,
 			HeightM: st.Antenna.HeightM, Cable: st.Feedline.Cable.Name, CableLengthM: st.Feedline.LengthM, SensitivityDBm: st.Radio.SensitivityDBm}
-		geoms[si] = make([]*Geometry, len(p.Targets))
+		geoms[si] = make([]*Geometry, nt)
 		for ti, tg := range p.Targets {
 			if err := ctx.Err(); err != nil {
 				return nil, err
@@ -81,51 +117,83 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 			}
 			geoms[si][ti] = g
 			if ti == 0 {
-				sum.GroundM = g.Profile.ElevM[0]
+				sums[si].GroundM = g.Profile.ElevM[0]
 			}
 			links, err := env.targetLinks(g, st.End, tg, need)
 			if err != nil {
 				return nil, err
 			}
-			ok := true
-			for _, l := range links {
-				ok = ok && *l.MeetsRequirement
-			}
-			if !tg.Optional {
-				sum.Of++
-				if ok {
-					sum.Reached++
-				} else {
-					res.MeetsRequirement = false
-				}
-			}
+			count(&sums[si], links, tg.Optional)
 			res.Links = append(res.Links, links...)
-			done++
-			if progress != nil {
-				progress(done, total)
-			}
+			step()
 		}
-		if len(p.Targets) == 0 {
+		if nt == 0 {
 			h, _, err := env.terrainSet().Elevation(st.Pos.Lat(), st.Pos.Lon())
 			if err == nil {
-				sum.GroundM = h
+				sums[si].GroundM = h
 			}
 		}
-		res.Stations = append(res.Stations, sum)
+	}
+	// Every pair of stations, once, both ways: out from the first listed,
+	// back from the second.
+	for si, st := range p.Stations {
+		for sj := si + 1; sj < ns; sj++ {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+			other := p.Stations[sj]
+			g := &Geometry{}
+			if err := env.Measure(st.Pos, other.Pos, g); err != nil {
+				return nil, fmt.Errorf("%s → %s: %w", st.Name, other.Name, err)
+			}
+			links, err := env.targetLinks(g, st.End, stationTarget(p, other), need)
+			if err != nil {
+				return nil, err
+			}
+			count(&sums[si], links, false)
+			count(&sums[sj], links, false)
+			res.Links = append(res.Links, links...)
+			step()
+		}
+	}
+	for si, st := range p.Stations {
+		res.Stations = append(res.Stations, sums[si])
 		ex, err := stationExposure(p, st)
 		if err != nil {
 			return nil, fmt.Errorf("%s: exposure: %w", st.Name, err)
 		}
 		res.Exposure = append(res.Exposure, ex)
 	}
-	if p.Mast != nil && len(p.Stations) > 0 {
-		m, err := env.sweep(p.Stations[0], p.Targets, geoms[0], p.Mast, p.Require)
-		if err != nil {
-			return nil, err
+	if p.Mast != nil {
+		for si, st := range p.Stations {
+			targets := p.ReachTargets(st.Name)
+			gs := append([]*Geometry(nil), geoms[si]...)
+			for _, t := range targets[nt:] {
+				g := &Geometry{}
+				if err := env.Measure(st.Pos, t.Pos, g); err != nil {
+					return nil, fmt.Errorf("%s → %s: %w", st.Name, t.Name, err)
+				}
+				gs = append(gs, g)
+			}
+			m, err := env.sweep(st, targets, gs, p.Mast, p.Require)
+			if err != nil {
+				return nil, fmt.Errorf("%s: %w", st.Name, err)
+			}
+			if si == 0 {
+				res.Mast = m
+			}
+			if ns > 1 {
+				res.Masts = append(res.Masts, m)
+			}
 		}
-		res.Mast = m
 	}
 	return res, nil
+}
+
+// stationTarget is station s as a target of the other stations: required,
+// simplex on the plan's frequency.
+func stationTarget(p *Plan, s Station) Target {
+	return Target{End: s.End, Kind: Simplex, FreqMHz: p.FreqMHz}
 }
 
 // targetLinks evaluates the links between a station and a target over g
@@ -161,8 +229,8 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 	for _, t := range p.Targets {
 		freqs[t.directions()[0].freqMHz] = true // the station transmits
 	}
-	if len(freqs) == 0 && p.FreqMHz > 0 {
-		freqs[p.FreqMHz] = true
+	if (len(freqs) == 0 || len(p.Stations) > 1) && p.FreqMHz > 0 {
+		freqs[p.FreqMHz] = true // the stations call each other on it
 	}
 	list := make([]float64, 0, len(freqs))
 	for f := range freqs {

@@ -72,6 +72,9 @@ type Geometry struct {
 	// Source says where the heights came from: "terrain", "smooth earth"
 	// (no elevation data covered the path), or "profile file".
 	Source string
+	// modelWarn gathers the ITM warnings of every PathLoss over the path
+	// since it was measured.
+	modelWarn propagation.ITMWarnings
 }
 
 // Measure fills g with the terrain profile between a and b along the WGS84
@@ -82,6 +85,7 @@ func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 		return err
 	}
 	g.Source = "terrain"
+	g.modelWarn = 0
 	if g.Profile.NoData == len(g.Profile.ElevM) {
 		g.Source = "smooth earth"
 	}
@@ -167,19 +171,21 @@ type LinkResult struct {
 	ClutterLossDB       float64  `json:"clutter_loss_db"` // both ends'
 	// Notes: an antenna used outside its band, a directional antenna
 	// taken as aimed at the far end.
-	Notes            []string  `json:"notes,omitempty"`
-	RxPowerDBm       float64   `json:"rx_power_dbm"`
-	RxSensitivityDBm float64   `json:"rx_sensitivity_dbm"`
-	MarginDB         float64   `json:"margin_db"`
-	LineOfSight      bool      `json:"line_of_sight"`
-	WorstClearanceF1 *float64  `json:"worst_clearance_f1"` // null when the path has no intermediate points
-	Obstacle         *Obstacle `json:"obstacle"`           // null when the path has no intermediate points
-	Probability      *float64  `json:"probability"`        // of a working link at the location, with σ; null without σ
-	NeededMarginDB   *float64  `json:"needed_margin_db,omitempty"`
-	MeetsRequirement *bool     `json:"meets_requirement,omitempty"`
-	Optional         bool      `json:"optional,omitempty"` // a target the requirement does not cover
-	TxGroundM        float64   `json:"tx_ground_m"`        // terrain height at the transmitting end, m
-	RxGroundM        float64   `json:"rx_ground_m"`
+	Notes            []string   `json:"notes,omitempty"`
+	RxPowerDBm       float64    `json:"rx_power_dbm"`
+	RxSensitivityDBm float64    `json:"rx_sensitivity_dbm"`
+	MarginDB         float64    `json:"margin_db"`
+	ITM              *ITMReport `json:"itm,omitempty"`      // the Longley–Rice ITM's intermediate values and settings (model itm only)
+	Warnings         []string   `json:"warnings,omitempty"` // the model's warnings for this path
+	LineOfSight      bool       `json:"line_of_sight"`
+	WorstClearanceF1 *float64   `json:"worst_clearance_f1"` // null when the path has no intermediate points
+	Obstacle         *Obstacle  `json:"obstacle"`           // null when the path has no intermediate points
+	Probability      *float64   `json:"probability"`        // of a working link at the location, with σ; null without σ
+	NeededMarginDB   *float64   `json:"needed_margin_db,omitempty"`
+	MeetsRequirement *bool      `json:"meets_requirement,omitempty"`
+	Optional         bool       `json:"optional,omitempty"` // a target the requirement does not cover
+	TxGroundM        float64    `json:"tx_ground_m"`        // terrain height at the transmitting end, m
+	RxGroundM        float64    `json:"rx_ground_m"`
 }
 
 // Evaluate computes the budget from tx to rx over g at freqMHz (LinkBudget:
@@ -296,6 +302,12 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		}
 		r.Obstacle = &Obstacle{DistanceM: d, Lat: g.Profile.Lat[i], Lon: g.Profile.Lon[i], ElevationM: g.Profile.ElevM[i]}
 	}
+	if m, ok := e.model().(propagation.ITM); ok {
+		r.ITM = newITMReport(m, loss.ITM, !txAtFrom)
+		for _, w := range loss.ITM.Warnings.Messages() {
+			r.Warnings = append(r.Warnings, "ITM: "+w)
+		}
+	}
 	if e.SigmaDB > 0 {
 		p := propagation.LinkProbability(r.MarginDB, e.SigmaDB)
 		r.Probability = &p
@@ -314,7 +326,8 @@ func aimOf(a Antenna, azimuthDeg float64) *float64 {
 }
 
 // PathLoss returns the propagation loss over g between antennas hFromM and
-// hToM metres above the ground at g.From and g.To, at freqMHz.
+// hToM metres above the ground at g.From and g.To, at freqMHz. The
+// model's warnings (Longley–Rice ITM) are added to g's.
 func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.Result, error) {
 	k := e.K
 	if k == 0 {
@@ -328,7 +341,9 @@ func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.
 		Polarization:  e.Polarization,
 		Ground:        e.Ground,
 	}
-	return e.model().Loss(g.path, prm)
+	r, err := e.model().Loss(g.path, prm)
+	g.modelWarn |= r.ITM.Warnings
+	return r, err
 }
 
 // ParsePolarization returns the polarization named by s: "vertical" or

@@ -6,6 +6,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/propagation"
 )
 
 // MastRow is one mast height and cable of a sweep.
@@ -37,8 +38,9 @@ type MastResult struct {
 	RunM           float64     `json:"run_m"`
 	SlackM         float64     `json:"slack_m"`
 	Rows           []MastRow   `json:"rows"`
-	Recommended    *MastChoice `json:"recommended"` // null when nothing meets the requirement
-	Closest        *MastRow    `json:"closest"`     // the best worst margin when nothing meets it
+	Recommended    *MastChoice `json:"recommended"`        // null when nothing meets the requirement
+	Closest        *MastRow    `json:"closest"`            // the best worst margin when nothing meets it
+	Warnings       []string    `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
 }
 
 // SweepMast evaluates a station against targets for every mast height and
@@ -76,6 +78,9 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 		}
 	}
 	antIndex := map[string]int{}
+	for _, g := range geoms {
+		g.modelWarn = 0
+	}
 	for _, h := range m.Heights.ValuesM() {
 		for ai, at := range ants {
 			for _, c := range m.Cables {
@@ -133,6 +138,13 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 			res.Recommended = &MastChoice{HeightM: r.HeightM, Antenna: r.Antenna, Cable: r.Cable, CableLengthM: r.CableLengthM, CableMassKg: r.CableMassKg}
 		}
 	}
+	var warns []propagation.ITMWarnings
+	for i, t := range targets {
+		if !t.Optional {
+			warns = append(warns, geoms[i].modelWarn)
+		}
+	}
+	res.Warnings = itmWarningLines(warns)
 	if res.Recommended == nil {
 		for i := range res.Rows {
 			if res.Closest == nil || res.Rows[i].WorstMarginDB > res.Closest.WorstMarginDB {

@@ -10,6 +10,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/exposure"
@@ -144,7 +145,7 @@ func describe(n *yaml.Node) string {
 		if n.Tag == "!!null" {
 			return "nothing"
 		}
-		return fmt.Sprintf("%q", n.Value)
+		return quoteClip(n.Value)
 	case yaml.AliasNode:
 		return "an alias"
 	}
@@ -206,11 +207,14 @@ func (p *planParser) paths(n *yaml.Node, field string) ([]string, error) {
 	return []string{s}, nil
 }
 
-var topFields = []string{"name", "frequency", "terrain", "waypoints", "require", "k", "model", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites", "roads", "relays"}
+var topFields = []string{"name", "frequency", "terrain", "waypoints", "require", "k", "model", "itm", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites", "roads", "relays"}
 
 func (p *planParser) parse(data []byte) (*Plan, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
 		return nil, p.errf(nil, "", "the plan is empty (start from examples/valley/plan.yaml)")
+	}
+	if looksBinary(data) {
+		return nil, p.errf(nil, "", "not a YAML plan: the file holds binary data (start from examples/valley/plan.yaml)")
 	}
 	var doc yaml.Node
 	if err := yaml.Unmarshal(data, &doc); err != nil {
@@ -220,6 +224,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		return nil, p.errf(nil, "", "the plan is empty (start from examples/valley/plan.yaml)")
 	}
 	root := doc.Content[0]
+	if root.Kind != yaml.MappingNode {
+		return nil, p.errf(root, "", "not a YAML plan: expected fields such as name, frequency, stations and targets, found %s (start from examples/valley/plan.yaml)", describe(root))
+	}
 	f, err := p.fields(root, "", topFields...)
 	if err != nil {
 		return nil, err
@@ -227,7 +234,7 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 	pl := &Plan{Path: p.file, K: propagation.DefaultKFactor, Model: propagation.Terrain{}, Polarization: propagation.Vertical,
 		Ground: propagation.Land, InputFiles: []string{p.file}}
 	p.plan = pl
-	pl.Require.SigmaDB = DefaultSigmaDB
+	pl.Require = DefaultRequirement() // unless require: asks for something
 
 	if n := f["name"]; n != nil {
 		if pl.Name, err = p.scalar(n, "name"); err != nil {
@@ -299,6 +306,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 			return nil, p.wrap(n, "ground", err)
 		}
 	}
+	if err := p.itm(f); err != nil {
+		return nil, err
+	}
 	def := kit{antenna: Antenna{GainDBi: 0, HeightM: 1.5}} // a handheld at chest height; radios must be given
 	if n := f["defaults"]; n != nil {
 		if err := p.defaults(n, &def); err != nil {
@@ -316,6 +326,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 			return nil, err
 		}
 		pl.Stations = append(pl.Stations, st)
+	}
+	if len(pl.Stations) > 1 && pl.FreqMHz == 0 {
+		return nil, p.errf(n, "frequency", "missing: with %d stations give frequency: at the top of the plan (the stations are checked against each other on it)", len(pl.Stations))
 	}
 	if n := f["targets"]; n != nil {
 		if n.Kind != yaml.SequenceNode {
@@ -401,7 +414,71 @@ func (p *planParser) yamlError(err error) error {
 			msg = strings.TrimLeft(strings.TrimPrefix(rest[j:], ":"), " ")
 		}
 	}
-	return &PlanError{File: p.file, Line: line, Err: fmt.Errorf("not valid YAML: %s", firstLineOf(msg))}
+	return &PlanError{File: p.file, Line: line, Err: fmt.Errorf("not a YAML plan: %s", clipQuoted(firstLineOf(msg)))}
+}
+
+// maxEcho is the most characters of the user's input an error repeats.
+const maxEcho = 60
+
+// clip shortens s to maxEcho characters, ending it with "…" when cut.
+func clip(s string) string {
+	r := []rune(s)
+	if len(r) <= maxEcho {
+		return s
+	}
+	return string(r[:maxEcho-1]) + "…"
+}
+
+// quoteClip quotes s for an error message, at most maxEcho characters of
+// it.
+func quoteClip(s string) string { return strconv.Quote(clip(s)) }
+
+// clipQuoted shortens the input the YAML parser echoes between backquotes
+// in its messages.
+func clipQuoted(msg string) string {
+	var b strings.Builder
+	for {
+		i := strings.IndexByte(msg, '`')
+		if i < 0 {
+			break
+		}
+		j := strings.IndexByte(msg[i+1:], '`')
+		if j < 0 {
+			break
+		}
+		b.WriteString(msg[:i+1])
+		b.WriteString(strings.Trim(strconv.Quote(clip(msg[i+1:i+1+j])), `"`))
+		b.WriteByte('`')
+		msg = msg[i+1+j+1:]
+	}
+	b.WriteString(msg)
+	return b.String()
+}
+
+// looksBinary reports whether data looks like something other than text: a NUL
+// byte, invalid UTF-8, or control characters other than tab, CR and LF in
+// its first 8 KiB.
+func looksBinary(data []byte) bool {
+	head := data
+	if len(head) > 8<<10 {
+		head = head[:8<<10]
+	}
+	if bytes.IndexByte(head, 0) >= 0 {
+		return true
+	}
+	whole := head
+	if len(head) < len(data) {
+		whole = head[:len(head)-utf8.UTFMax] // a character may be cut at the end
+	}
+	if !utf8.Valid(whole) {
+		return true
+	}
+	for _, c := range head {
+		if c < 0x20 && c != '\t' && c != '\n' && c != '\r' {
+			return true
+		}
+	}
+	return false
 }
 
 func firstLineOf(s string) string {
@@ -438,6 +515,83 @@ func (p *planParser) require(n *yaml.Node, r *Requirement) error {
 	}
 	o := RequirementOptions{Margin: text["margin"], Reliability: text["reliability"], Sigma: text["sigma"]}
 	return p.options(n, "require", f, o.Apply(r))
+}
+
+// itmKeys are the keys of a plan's itm: section: the ITMOptions keys and
+// the two variability switches.
+var itmKeys = []string{ITMOptClimate, ITMOptRefractivity, ITMOptSurfaceRefractivity, ITMOptPermittivity, ITMOptConductivity,
+	ITMOptVariability, ITMOptTime, ITMOptLocation, ITMOptSituation, ITMOptConfidence, "location_variability", "situation_variability"}
+
+// itm reads the itm: section (with ITMOptions, the parser the commands use
+// too) into the plan's Longley–Rice ITM model, and makes the requirement
+// and the model agree (ITMRequirement). f is the top level. With model:
+// itm the plan's k, ground and require.sigma are refused: the ITM takes
+// the earth's curvature from the refractivity, the ground from its own
+// permittivity and conductivity, and the location variability is its own.
+func (p *planParser) itm(f map[string]*yaml.Node) error {
+	pl := p.plan
+	m, isITM := pl.Model.(propagation.ITM)
+	n := f["itm"]
+	if !isITM {
+		if n != nil {
+			return p.errf(n, "itm", "the Longley–Rice ITM settings need model: itm (the model is %s)", pl.Model.Name())
+		}
+		return nil
+	}
+	for _, c := range []struct{ key, why string }{
+		{"k", "the ITM takes the earth's curvature from its refractivity (itm: {refractivity: 301})"},
+		{"ground", "give the ITM's ground as itm: {permittivity: 15, conductivity: 0.005} (sea water: 80 and 5)"},
+	} {
+		if v := f[c.key]; v != nil {
+			return p.errf(v, c.key, "not used with model: itm: %s; remove it", c.why)
+		}
+	}
+	var rf map[string]*yaml.Node
+	if r := f["require"]; r != nil {
+		rf, _ = p.fields(r, "require", "margin", "reliability", "sigma") // checked by require
+		if v := rf["sigma"]; v != nil {
+			return p.errf(v, "require.sigma", "not used with model: itm: the ITM gives the location variability itself, and require.reliability becomes its reliability; remove sigma")
+		}
+	}
+	m.Polarization = pl.Polarization
+	if n != nil {
+		sf, err := p.fields(n, "itm", itmKeys...)
+		if err != nil {
+			return err
+		}
+		text, err := p.texts(sf, "itm")
+		if err != nil {
+			return err
+		}
+		o := ITMOptions{Climate: text[ITMOptClimate], Refractivity: text[ITMOptRefractivity], SurfaceRefractivity: text[ITMOptSurfaceRefractivity],
+			Permittivity: text[ITMOptPermittivity], Conductivity: text[ITMOptConductivity], Variability: text[ITMOptVariability],
+			Time: text[ITMOptTime], Location: text[ITMOptLocation], Situation: text[ITMOptSituation], Confidence: text[ITMOptConfidence]}
+		for _, sw := range []struct {
+			key string
+			dst *bool
+		}{{"location_variability", &o.NoLocationVariability}, {"situation_variability", &o.NoSituationVariability}} {
+			if v := sf[sw.key]; v != nil {
+				c, err := p.choice(v, "itm."+sw.key, "yes", "no", "true", "false")
+				if err != nil {
+					return err
+				}
+				*sw.dst = c == "no" || c == "false"
+			}
+		}
+		if err := p.options(n, "itm", sf, o.Apply(&m)); err != nil {
+			return err
+		}
+	}
+	model, err := ITMRequirement(m, &pl.Require)
+	if err != nil {
+		at := f["require"]
+		if v := rf["reliability"]; v != nil {
+			at = v
+		}
+		return p.wrap(at, "require.reliability", errors.Unwrap(err))
+	}
+	pl.Model = model
+	return nil
 }
 
 // texts returns the scalar text of every value in f, by key.
@@ -606,7 +760,7 @@ func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
 }
 
 func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, error) {
-	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", OptBodyLoss, OptClutter, "exposure")
+	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", OptBodyLoss, OptClutter, "exposure", "coverage")
 	if err != nil {
 		return Station{}, err
 	}
@@ -620,7 +774,84 @@ func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, erro
 			return Station{}, err
 		}
 	}
+	if c := f["coverage"]; c != nil {
+		cs, err := p.coverage(c, joinField(field, "coverage"))
+		if err != nil {
+			return Station{}, err
+		}
+		st.Coverage = cs
+	}
 	return st, nil
+}
+
+// coverage reads a station's coverage: the map to draw around it.
+func (p *planParser) coverage(n *yaml.Node, field string) (*CoverageSpec, error) {
+	f, err := p.fields(n, field, "radius", "mode", "value", "levels", "resolution")
+	if err != nil {
+		return nil, err
+	}
+	cs := &CoverageSpec{Line: n.Line}
+	c := f["radius"]
+	if c == nil {
+		return nil, p.errf(n, joinField(field, "radius"), "missing: give the radius of the map (e.g. radius: 10km)")
+	}
+	if cs.RadiusM, err = p.quantity(c, joinField(field, "radius"), units.ParseLengthM); err != nil {
+		return nil, err
+	}
+	if !(cs.RadiusM > 0) {
+		return nil, p.errf(c, joinField(field, "radius"), "give a radius above 0 m")
+	}
+	if c := f["mode"]; c != nil {
+		s, err := p.scalar(c, joinField(field, "mode"))
+		if err != nil {
+			return nil, err
+		}
+		if cs.Mode, err = ParseCoverageMode(s); err != nil {
+			return nil, p.wrap(c, joinField(field, "mode"), err)
+		}
+	}
+	if c := f["value"]; c != nil {
+		s, err := p.scalar(c, joinField(field, "value"))
+		if err != nil {
+			return nil, err
+		}
+		if cs.Value, err = ParseCoverageValue(s); err != nil {
+			return nil, p.wrap(c, joinField(field, "value"), err)
+		}
+		if cs.Mode == CoverageLOS {
+			return nil, p.errf(c, joinField(field, "value"), "a line-of-sight map holds visible or hidden; drop value or use mode: loss")
+		}
+		cs.HasValue = true
+	}
+	if c := f["levels"]; c != nil {
+		var text string
+		switch c.Kind {
+		case yaml.SequenceNode:
+			parts := make([]string, len(c.Content))
+			for i, e := range c.Content {
+				if parts[i], err = p.scalar(e, fmt.Sprintf("%s.levels[%d]", field, i)); err != nil {
+					return nil, err
+				}
+			}
+			text = strings.Join(parts, ",")
+		default:
+			if text, err = p.scalar(c, joinField(field, "levels")); err != nil {
+				return nil, err
+			}
+		}
+		if cs.Levels, err = ParseCoverageLevels(text); err != nil {
+			return nil, p.wrap(c, joinField(field, "levels"), err)
+		}
+	}
+	if c := f["resolution"]; c != nil {
+		if cs.ResolutionM, err = p.quantity(c, joinField(field, "resolution"), units.ParseLengthM); err != nil {
+			return nil, err
+		}
+		if !(cs.ResolutionM > 0) {
+			return nil, p.errf(c, joinField(field, "resolution"), "give a cell size above 0 m")
+		}
+	}
+	return cs, nil
 }
 
 func (p *planParser) end(n *yaml.Node, f map[string]*yaml.Node, field string, def kit, e *End, needRadio bool) error {

@@ -135,6 +135,16 @@ func TestBrokenPlans(t *testing.T) {
 		{"reliability 100 %", base("require: {margin: 10dB, reliability: 100%}\n" + station + target), "plan.yaml:3: require.reliability: must be above 0% and below 100%", nil},
 		{"sigma 0 with a reliability", base("require: {reliability: 90%, sigma: 0dB}\n" + station + target), "plan.yaml:3: require.sigma: must be more than 0 dB with a reliability", nil},
 		{"exposure mode", base(strings.Replace(station, "    antenna:", "    exposure: {mode: am}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].exposure.mode: invalid exposure input: unknown mode "am"`, exposure.ErrInput},
+		{"coverage without radius", base(strings.Replace(station, "    antenna:", "    coverage: {mode: los}\n    antenna:", 1) + target), "plan.yaml:7: stations[0].coverage.radius: missing: give the radius", nil},
+		{"coverage radius 0", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 0m}\n    antenna:", 1) + target), "plan.yaml:7: stations[0].coverage.radius: give a radius above 0 m", nil},
+		{"coverage mode", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, mode: sight}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].coverage.mode: "sight" is not a mode`, nil},
+		{"coverage value", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, value: snr}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].coverage.value: "snr" is not a value`, nil},
+		{"coverage los value", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, mode: los, value: margin}\n    antenna:", 1) + target), "plan.yaml:7: stations[0].coverage.value: a line-of-sight map", nil},
+		{"coverage levels order", base(strings.Replace(station, "    antenna:", "    coverage:\n      radius: 5km\n      levels: [10dB, 0dB]\n    antenna:", 1) + target), "plan.yaml:9: stations[0].coverage.levels: levels 10 and 0 are not ascending", nil},
+		{"coverage level word", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, levels: [0, lots]}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].coverage.levels: "lots" is not a level`, nil},
+		{"coverage resolution", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, resolution: -30m}\n    antenna:", 1) + target), "plan.yaml:7: stations[0].coverage.resolution:", nil},
+		{"coverage unknown", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, colour: red}\n    antenna:", 1) + target), "plan.yaml:7: stations[0].coverage.colour: unknown field", nil},
+		{"coverage ok", base(strings.Replace(station, "    antenna:", "    coverage: {radius: 5km, mode: loss, value: received, levels: [-110dBm, -100dBm], resolution: 90m}\n    antenna:", 1) + target), "", nil},
 		{"exposure cycle half", base(strings.Replace(station, "    antenna:", "    exposure: {on: 2min}\n    antenna:", 1) + target), `plan.yaml:7: stations[0].exposure.off: invalid exposure input: on and off go together`, exposure.ErrInput},
 	}
 	for _, c := range cases {
@@ -183,4 +193,47 @@ func FuzzParsePlan(f *testing.F) {
 			t.Fatalf("error does not wrap ErrPlanFile: %v", err)
 		}
 	})
+}
+
+// TestPlanCoverageSpec reads a station's coverage: section back field by
+// field (invented values).
+func TestPlanCoverageSpec(t *testing.T) {
+	doc := "waypoints: " + absExample("points.gpx") + `
+frequency: 146.55MHz
+stations:
+  - name: base
+    at: Wethermoss Saddle
+    radio: {power: 25W, sensitivity: 0.25uV}
+    coverage:
+      radius: 1.5km
+      value: received
+      levels: [-110dBm, -100, -90dBm]
+      resolution: 50m
+  - name: post
+    at: Corvane Peak
+    radio: {power: 5W, sensitivity: 0.25uV}
+    coverage: {radius: 2mi, mode: los}
+targets:
+  - name: Team Alder
+    at: Team Alder, Quillet Glen
+    radio: {power: 5W, sensitivity: 0.25uV}
+`
+	p, err := ParsePlan([]byte(doc), "plan.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := p.Stations[0].Coverage, p.Stations[1].Coverage
+	if a == nil || b == nil {
+		t.Fatalf("coverage not read: %+v %+v", a, b)
+	}
+	if a.RadiusM != 1500 || a.Mode != CoverageLoss || !a.HasValue || a.Value != ValueReceived || a.ResolutionM != 50 || a.Line != 8 {
+		t.Errorf("base coverage %+v", a)
+	}
+	if len(a.Levels) != 3 || a.Levels[0] != -110 || a.Levels[1] != -100 || a.Levels[2] != -90 {
+		t.Errorf("base levels %v", a.Levels)
+	}
+	// 2 mi = 3218.688 m (international mile, 1609.344 m; NIST SP 811 B.8).
+	if math.Abs(b.RadiusM-3218.688) > 1e-9 || b.Mode != CoverageLOS || b.HasValue {
+		t.Errorf("post coverage %+v", b)
+	}
 }

@@ -61,7 +61,7 @@ func (p *Plan) ReachTargets(exclude string) []Target {
 		if strings.EqualFold(strings.TrimSpace(s.Name), strings.TrimSpace(exclude)) {
 			continue
 		}
-		out = append(out, Target{End: s.End, Kind: Simplex, FreqMHz: p.FreqMHz})
+		out = append(out, stationTarget(p, s))
 	}
 	return out
 }
@@ -93,6 +93,7 @@ func EvaluatePlanRoutes(ctx context.Context, p *Plan, env *Env, progress Progres
 			if err != nil {
 				return nil, fmt.Errorf("routes: %s: %w", file, err)
 			}
+			r.DefaultMargin = p.Require.Default
 			out = append(out, *r)
 		}
 	}
@@ -126,5 +127,6 @@ func EvaluatePlanSites(ctx context.Context, p *Plan, env *Env, progress Progress
 	if err != nil {
 		return nil, fmt.Errorf("sites: %w", err)
 	}
+	r.DefaultMargin = p.Require.Default
 	return r, nil
 }

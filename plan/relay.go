@@ -358,45 +358,17 @@ func (e *Env) FindRelay(ctx context.Context, req RelayRequest, progress Progress
 }
 
 // relayCoverage is the coverage request from party to a relay in every
-// cell at freqMHz, both directions, margins.
+// cell at freqMHz: both directions (CoverageBudgets), margins.
 func (e *Env) relayCoverage(party, relay End, freqMHz, radiusM, needDB float64, maxCells int) (CoverageRequest, error) {
-	pl, err := party.losses(freqMHz)
+	budgets, err := CoverageBudgets(party, relay, freqMHz, CoverageWorse)
 	if err != nil {
 		return CoverageRequest{}, err
-	}
-	rl, err := relay.losses(freqMHz)
-	if err != nil {
-		return CoverageRequest{}, err
-	}
-	pf, err := party.Feedline.Loss(freqMHz)
-	if err != nil {
-		return CoverageRequest{}, fmt.Errorf("%s: feedline: %w", party.Name, err)
-	}
-	rf, err := relay.Feedline.Loss(freqMHz)
-	if err != nil {
-		return CoverageRequest{}, fmt.Errorf("relay: feedline: %w", err)
-	}
-	budget := func(tx, rx End, txFeed, rxFeed float64, txL, rxL endLosses) CoverageBudget {
-		b := LinkBudget{
-			TxPowerDBm: units.DBmFromW(tx.Radio.PowerW), TxFeedlineLossDB: txFeed, TxGainDBi: tx.Antenna.GainDBi,
-			RxGainDBi: rx.Antenna.GainDBi, RxFeedlineLossDB: rxFeed, RxSensitivityDBm: rx.Radio.SensitivityDBm,
-			TxBodyLossDB: txL.bodyDB, RxBodyLossDB: rxL.bodyDB,
-		}
-		lv := b.Levels() // path loss 0: EIRP, and the received level before the path
-		return CoverageBudget{
-			EIRPDBm:          lv.EIRPDBm - txL.clutterDB,
-			RxNetGainDB:      rx.Antenna.GainDBi - rxFeed - rxL.bodyDB - rxL.clutterDB,
-			RxSensitivityDBm: rx.Radio.SensitivityDBm,
-		}
 	}
 	return CoverageRequest{
 		Site: party.Pos, SiteHeightM: party.Antenna.HeightM, TargetHeightM: relay.Antenna.HeightM,
 		RadiusM: radiusM, FreqMHz: freqMHz, K: e.K, Polarization: e.Polarization, Ground: e.Ground,
 		Mode: CoverageLoss, Value: ValueMargin, NeededMarginDB: needDB, MaxCells: maxCells,
-		Budgets: []CoverageBudget{
-			budget(party, relay, pf.TotalLossDB, rf.TotalLossDB, pl, rl),
-			budget(relay, party, rf.TotalLossDB, pf.TotalLossDB, rl, pl),
-		},
+		Budgets: budgets,
 	}, nil
 }
 

@@ -113,6 +113,8 @@ type RouteResult struct {
 	Walker          string        `json:"walker"` // the kit carried
 	SpacingM        float64       `json:"spacing_m"`
 	NeededMarginDB  float64       `json:"needed_margin_db"`
+	DefaultMargin   bool          `json:"default_margin"`    // nothing was asked: plan.DefaultMarginDB
+	WhatIf          []string      `json:"what_if,omitempty"` // options that replaced the plan's figures, as given ("--power 10W")
 	LengthM         float64       `json:"length_m"`
 	OverallFraction float64       `json:"overall_fraction"` // of the length where every required direction meets the margin
 	CoveredM        float64       `json:"covered_m"`
@@ -120,8 +122,9 @@ type RouteResult struct {
 	Gaps            []RouteGap    `json:"gaps"` // where some required target is out of reach
 	BestSpots       []BestSpot    `json:"best_spots"`
 	Points          []RoutePoint  `json:"points"`
-	Paths           int           `json:"paths"`   // terrain profiles extracted
-	Terrain         string        `json:"terrain"` // "terrain" or "smooth earth" (no elevation data on any path)
+	Paths           int           `json:"paths"`              // terrain profiles extracted
+	Terrain         string        `json:"terrain"`            // "terrain" or "smooth earth" (no elevation data on any path)
+	Warnings        []string      `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
 	line            *trackLine    // for positions between points
 }
 
@@ -200,6 +203,7 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 	// then follow nearly the same path, so the tile rows they read stay in
 	// the processor's cache.
 	smooth := make([]bool, n*nt)
+	warns := make([]propagation.ITMWarnings, n*nt)
 	err = runParallel(ctx, n*nt, progress, func(g *Geometry, job int) error {
 		t, i := job/n, job%n
 		p := &res.Points[i]
@@ -212,12 +216,14 @@ func (e *Env) Route(ctx context.Context, req RouteRequest, progress Progress) (*
 			p.ElevationM = g.Profile.ElevM[0]
 		}
 		smooth[job] = g.Source == "smooth earth"
+		warns[job] = g.modelWarn
 		p.MarginsDB[t] = m
 		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
+	res.Warnings = itmWarningLines(warns)
 	res.Terrain = "smooth earth"
 	for _, s := range smooth {
 		if !s {

@@ -10,6 +10,7 @@ import (
 
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -82,7 +83,18 @@ func benchTargets(lat0, lon0 float64) []Target {
 // BenchmarkRoute1s is the speed case: a 10 000-point track against
 // five targets (one repeater, four simplex) over a 1″ tile of rough
 // terrain, 50 000 terrain paths of up to about 30 km, at the DEM's spacing.
+//
+// The sub-benchmarks run the same route with the terrain model
+// (delta-Bullington, ITU-R P.526-16) and with the Longley–Rice ITM
+// (defaults); the ITM's time over the terrain model's is the ratio the
+// speed target holds within 3×.
 func BenchmarkRoute1s(b *testing.B) {
+	for _, m := range []propagation.Model{propagation.Terrain{}, propagation.ITM{}} {
+		b.Run(m.Name(), func(b *testing.B) { benchRoute1s(b, m) })
+	}
+}
+
+func benchRoute1s(b *testing.B, model propagation.Model) {
 	dir := b.TempDir()
 	write1sHGT(b, dir, "N45E007.hgt", roughTerrainM)
 	ts, err := terrain.Open(dir)
@@ -95,7 +107,7 @@ func BenchmarkRoute1s(b *testing.B) {
 	}
 	tr := serpentine("bench", lat0, lon0, 10000, 50, 20000, 20000.0/25)
 	walker := End{Name: "handheld", Radio: Radio{PowerW: 5, SensitivityDBm: units.DBmFromMicrovolts(0.25)}, Antenna: Antenna{HeightM: 1.5}}
-	env := &Env{Terrain: ts}
+	env := &Env{Terrain: ts, Model: model}
 	req := RouteRequest{Track: tr, Walker: walker, Targets: benchTargets(lat0, lon0), NeededMarginDB: 10, SpacingM: 50}
 	var paths int
 	b.ReportAllocs()

@@ -9,6 +9,7 @@ import (
 	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
+	"github.com/mastlink/mastlink/propagation"
 )
 
 // SitesRequest is what Env.RankSites ranks: candidate places for a station,
@@ -60,9 +61,12 @@ type SitesResult struct {
 	Station        string       `json:"station"` // whose kit is set up
 	HeightM        float64      `json:"height_m"`
 	NeededMarginDB float64      `json:"needed_margin_db"`
+	DefaultMargin  bool         `json:"default_margin"`           // nothing was asked: plan.DefaultMarginDB
+	WhatIf         []string     `json:"what_if,omitempty"`        // options that replaced the plan's figures, as given ("--power 10W")
 	MastHeightsM   []float64    `json:"mast_heights_m,omitempty"` // the sweep, when given
 	Sites          []SiteResult `json:"sites"`
-	Paths          int          `json:"paths"` // terrain profiles extracted
+	Paths          int          `json:"paths"`              // terrain profiles extracted
+	Warnings       []string     `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -128,6 +132,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	own := make([]float64, nc*nt*2)    // margins per leg with the own kit
 	swept := make([]float64, nc*nt*nk) // worst over both legs, per config
 	ground := make([]float64, nc*nt)
+	warns := make([]propagation.ITMWarnings, nc*nt)
 	err = runParallel(ctx, nc*nt, progress, func(g *Geometry, i int) error {
 		c, t := i/nt, i%nt
 		pos := req.Candidates[c].Pos
@@ -154,13 +159,14 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 			}
 			swept[i*nk+k] = cf.legs[t].margins(&loss, tw, buf[:])
 		}
+		warns[i] = g.modelWarn
 		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
 	need := req.NeededMarginDB
-	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt}
+	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt, Warnings: itmWarningLines(warns)}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {

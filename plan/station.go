@@ -64,6 +64,9 @@ type Station struct {
 	// reflection); power, gain, feedline, frequency and height are filled
 	// in from the station when it is evaluated.
 	Exposure exposure.Input
+	// Coverage is the coverage map the plan asks for around the station
+	// (nil when none).
+	Coverage *CoverageSpec
 }
 
 // TargetKind says how a target's links are checked.

@@ -376,3 +376,44 @@ func FuzzParseITMClimate(f *testing.F) {
 		}
 	})
 }
+
+// TestITMResolved: the defaults Resolved writes out are the ones the
+// model's guide gives (NTIA Report 82-100: continental temperate, N0 301,
+// average ground ε 15 σ 0.005 S/m), and a resolved model gives the same
+// loss as the model it came from.
+func TestITMResolved(t *testing.T) {
+	cases := []struct {
+		name string
+		in   ITM
+		want ITM
+		err  bool
+	}{
+		{"zero value", ITM{}, DefaultITM(), false},
+		{"reliability form", ITM{ReliabilityPct: 90, Variability: ITMBroadcast},
+			ITM{Climate: ITMContinentalTemperate, N0: ITMDefaultN0, Ground: ITMAverageGround, Variability: ITMBroadcast, ReliabilityPct: 90, ConfidencePct: 50}, false},
+		{"Ns given", ITM{Ns: 280, Climate: ITMDesert, Ground: Ground{Permittivity: 4, ConductivitySM: 0.001}},
+			ITM{Climate: ITMDesert, Ns: 280, Ground: Ground{Permittivity: 4, ConductivitySM: 0.001}, TimePct: 50, LocationPct: 50, SituationPct: 50}, false},
+		{"bad climate", ITM{Climate: 9}, ITM{}, true},
+	}
+	p := rollingPath(400, 20)
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			got, err := c.in.Resolved()
+			if (err != nil) != c.err {
+				t.Fatalf("err = %v, want error %v", err, c.err)
+			}
+			if c.err {
+				return
+			}
+			if got != c.want {
+				t.Errorf("Resolved() = %+v, want %+v", got, c.want)
+			}
+			a, err1 := c.in.Loss(p, prm)
+			b, err2 := got.Loss(p, prm)
+			if err1 != nil || err2 != nil || a.PathLossDB != b.PathLossDB {
+				t.Errorf("loss %v (%v) vs resolved %v (%v)", a.PathLossDB, err1, b.PathLossDB, err2)
+			}
+		})
+	}
+}

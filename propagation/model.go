@@ -131,6 +131,7 @@ type Registered struct {
 var registry = []Registered{
 	{Terrain{}, "ITU-R P.526-16 diffraction over the terrain (delta-Bullington)"},
 	{FreeSpace{}, "free space (ITU-R P.525-4), terrain ignored"},
+	{ITM{}, "Longley–Rice ITM 1.2.2 (NTIA/ITS), point to point"},
 }
 
 // Models returns the registry, in a new slice: every model ModelByName

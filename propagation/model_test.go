@@ -14,6 +14,7 @@ func TestModelByName(t *testing.T) {
 	}{
 		{"terrain", "terrain", nil},
 		{" Free-Space ", "free-space", nil},
+		{"ITM", "itm", nil},
 		{"okumura", "", ErrUnknownModel},
 		{"", "", ErrUnknownModel},
 	}
@@ -35,7 +36,7 @@ func TestModelByName(t *testing.T) {
 // A model added to the registry shows up here and in ModelNames, with no
 // other edit.
 func TestModelRegistry(t *testing.T) {
-	want := []string{"terrain", "free-space"}
+	want := []string{"terrain", "free-space", "itm"}
 	names := ModelNames()
 	if len(names) < len(want) {
 		t.Fatalf("ModelNames() = %v, want at least %v", names, want)

@@ -54,7 +54,7 @@ with source "none", and the missing tiles are named on stderr.`,
 		if m := negativePoint.FindStringSubmatch(err.Error()); m != nil {
 			return usagef("%s reads as a flag: put -- before points with a negative latitude (mastlink elevation [flags] -- %s)", m[1], m[1])
 		}
-		return usageError{err}
+		return flagError(c, err)
 	})
 	return cmd
 }
@@ -64,9 +64,6 @@ with source "none", and the missing tiles are named on stderr.`,
 var negativePoint = regexp.MustCompile(`in (-[0-9.]+,\S*)$`)
 
 func runElevation(ctx context.Context, g *globals, o *elevationOptions, args []string) error {
-	if g.out != "" {
-		return usagef("--out: elevation writes its table to stdout; use --format csv or json and redirect it to a file")
-	}
 	out := elevationOutput{Points: make([]elevationPoint, len(args))}
 	for i, a := range args {
 		pos, name, err := o.points.resolve(fmt.Sprintf("point %d", i+1), a)

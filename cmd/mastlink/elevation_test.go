@@ -368,7 +368,7 @@ func TestElevationProfileErrors(t *testing.T) {
 		{"elevation: latitude out of range", cat(dem, []string{"elevation", "91,10"}), "latitude 91 is outside -90 to 90"},
 		{"elevation: not a point", cat(dem, []string{"elevation", "48.5;123"}), "is not LAT,LON"},
 		{"elevation: unknown waypoint", cat(dem, wpt, []string{"elevation", "Corvane Peek"}), `closest: "Corvane Peak"`},
-		{"elevation: -o", cat(dem, []string{"-o", filepath.Join(dir, "e.csv"), "elevation", "10,10"}), "--out: elevation writes its table to stdout"},
+		{"elevation: -o", cat(dem, []string{"-o", filepath.Join(dir, "e.csv"), "elevation", "10,10"}), "-o: mastlink elevation writes no file"},
 		{"profile: no --to", cat(dem, []string{"profile", "--from", "10,10"}), `"to" not set`},
 		{"profile: bad --from", cat(dem, []string{"profile", "--from", "1,2,3", "--to", "10,10"}), "--from:"},
 		{"profile: unknown waypoint", cat(dem, wpt, []string{"profile", "--from", "Corvane Peak", "--to", "Wethermos Sadle"}), `--to: unknown waypoint "Wethermos Sadle"`},

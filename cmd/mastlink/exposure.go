@@ -45,7 +45,7 @@ keepout.gpx, the keep-out circles for a map or a GPS.
 This is an estimate, not a measurement; your licence conditions and local
 rules decide.`,
 		Example: "  mastlink exposure --power 50W --gain 2.15dBi --freq 146.52 --mode fm --height 3m\n" +
-			"  mastlink exposure --power 100W --gain 6dBi --freq 446 --mode ssb --on 2m --off 1m --standard icnirp2020\n" +
+			"  mastlink exposure --power 100W --gain 6dBi --freq 446 --mode ssb --on 2min --off 1min --standard icnirp2020\n" +
 			"  mastlink exposure --power 25W --gain 2.15dBi --freq 146.94 --height 9m --at -48.53,-123.61 -o keepout.geojson",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -59,8 +59,8 @@ rules decide.`,
 	f.StringVar(&o.habits.Mode, "mode", "fm", "emission: fm, ssb, ssb-processed, cw, digital or carrier (sets the duty factor)")
 	f.StringVar(&o.habits.Duty, "duty", "", "duty factor to use instead of the mode's, e.g. 50%")
 	f.StringVar(&o.habits.TxTime, "tx-time", "", "fraction of time on the air, e.g. 50% (default: continuously)")
-	f.StringVar(&o.habits.On, "on", "", "transmit part of a transmit/listen cycle, e.g. 2m (minutes), 30s")
-	f.StringVar(&o.habits.Off, "off", "", "listen part of the cycle, e.g. 2m")
+	f.StringVar(&o.habits.On, "on", "", "transmit part of a transmit/listen cycle: s, min or h, e.g. 2min, 30s (m is metres, never minutes)")
+	f.StringVar(&o.habits.Off, "off", "", "listen part of the cycle: s, min or h, e.g. 1min")
 	f.StringVar(&o.habits.Standard, "standard", "fcc", "limits: fcc, icnirp2020 or icnirp1998")
 	f.StringVar(&o.height, "height", "", "antenna height above the ground where people stand [m]")
 	f.StringVar(&o.habits.HeadHeight, "head-height", "2m", "height of a person's head [m]")

@@ -47,7 +47,7 @@ func TestExposureCommand(t *testing.T) {
 // 6 min and 125 W over 30 min (OET Bulletin 65 Supplement B worked example,
 // recomputed with the worst-case window).
 func TestExposureCycle(t *testing.T) {
-	out, _, code := runCmd(t, "exposure", "--power", "250W", "--freq", "146", "--on", "5m", "--off", "5m", "--format", "json")
+	out, _, code := runCmd(t, "exposure", "--power", "250W", "--freq", "146", "--on", "5min", "--off", "5min", "--format", "json")
 	if code != 0 {
 		t.Fatal(code)
 	}
@@ -108,7 +108,7 @@ func TestExposureErrors(t *testing.T) {
 		{[]string{"--power", "5W", "--freq", "146", "--mode", "am"}, "--mode"},
 		{[]string{"--power", "5W", "--freq", "146", "--standard", "osha"}, "--standard"},
 		{[]string{"--power", "5W", "--freq", "146", "--reflection", "3"}, "--reflection"},
-		{[]string{"--power", "5W", "--freq", "146", "--on", "2m"}, "--off: invalid exposure input: on and off go together"},
+		{[]string{"--power", "5W", "--freq", "146", "--on", "2min"}, "--off: invalid exposure input: on and off go together"},
 		{[]string{"--power", "5W", "--freq", "146", "--tx-time", "0%"}, "--tx-time"},
 		{[]string{"--power", "5W", "--freq", "146", "-o", "x.geojson"}, "--at"},
 	}

@@ -61,6 +61,10 @@ frequencies: --cable custom:6.1dB/100ft@146MHz or
 }
 
 func runFeedline(ctx context.Context, g *globals, o *feedlineOptions, args []string) error {
+	var inputs []string // reads no file
+	if _, err := g.checkOut(inputs, "json", "csv", "txt"); err != nil {
+		return err
+	}
 	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
@@ -111,7 +115,7 @@ func runFeedline(ctx context.Context, g *globals, o *feedlineOptions, args []str
 		}
 		r.PowerInW, r.PowerAtAntennaW = p, p*loss.DeliveredFraction
 	}
-	err = g.emit(r, func(w io.Writer) error {
+	err = g.emitFile(inputs, r, func(w io.Writer) error {
 		return writeCSV(w,
 			[]string{"cable", "length_m", "freq_mhz", "matched_loss_db", "swr_loss_db", "connector_loss_db", "total_loss_db", "delivered_fraction"},
 			[][]string{{loss.Cable, f2(length), f4(freq), f2(loss.MatchedLossDB), f2(loss.SWRLossDB), f2(loss.ConnectorLossDB), f2(loss.TotalLossDB), f4(loss.DeliveredFraction)}})
@@ -131,7 +135,7 @@ func renderCableList(g *globals, freq float64) error {
 		FreqMHz float64                  `json:"freq_mhz"`
 		Cables  []feedline.CableListItem `json:"cables"`
 	}{freq, items}
-	return g.emit(res, func(w io.Writer) error {
+	return g.emitFile(nil, res, func(w io.Writer) error {
 		rows := make([][]string, len(items))
 		for i, c := range items {
 			rows[i] = []string{c.Name, c.Description, f2(c.LossDBPer100M), f2(c.VelocityFactor), strconv.FormatFloat(c.MassKgPerM, 'f', 3, 64)}

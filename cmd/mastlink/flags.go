@@ -15,18 +15,21 @@ import (
 )
 
 // envFlags are the radio-climate and model flags of the commands that
-// compute paths: link, route and sites.
+// compute paths: link, route, sites and mast. The Longley–Rice ITM's own
+// settings are a group of their own (itmflags.go).
 type envFlags struct {
 	k, model, polarization, ground, step string
+	itm                                  itmFlags
 }
 
 func addEnvFlags(cmd *cobra.Command, e *envFlags) {
 	f := cmd.Flags()
 	f.StringVar(&e.k, "k", "4/3", "effective earth-radius factor")
-	f.StringVar(&e.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington) or free-space")
+	f.StringVar(&e.model, "model", "terrain", "propagation model: terrain (ITU-R P.526-16 delta-Bullington), free-space, or itm (Longley–Rice ITM 1.2.2)")
 	f.StringVar(&e.polarization, "polarization", "vertical", "vertical or horizontal")
 	f.StringVar(&e.ground, "ground", "land", "ground constants: land or sea (ITU-R P.1812)")
 	f.StringVar(&e.step, "step", "", "profile sample spacing [m] (default: the elevation data's spacing)")
+	addITMFlags(cmd, &e.itm)
 }
 
 // env builds the link environment from the flags (terrain not yet set).
@@ -44,6 +47,9 @@ func (e *envFlags) env() (*plan.Env, error) {
 	}
 	if env.Ground, err = plan.ParseGround(e.ground); err != nil {
 		return nil, usagef("--ground: %v", err)
+	}
+	if env.Model, err = e.itm.model(env.Model, env.Polarization); err != nil {
+		return nil, err
 	}
 	if env.StepM, err = e.stepM(); err != nil {
 		return nil, err
@@ -154,7 +160,7 @@ func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power boo
 	f.StringVar(&e.gain, prefix+"gain", "0dBi", what+"antenna gain [dBi] (dBd accepted); with --"+prefix+"antenna, overrides the catalog's")
 	f.StringVar(&e.height, prefix+"height", "1.5m", what+"antenna height above ground [m]")
 	addAntennaFlags(cmd, e, prefix, what)
-	f.StringVar(&e.cable, prefix+"cable", "", what+"feedline cable (see `mastlink feedline --list`)")
+	f.StringVar(&e.cable, prefix+"cable", "", what+"feedline cable: a name that mastlink feedline --list shows, or custom:LOSS/100ft@FREQ")
 	f.StringVar(&e.cableLength, prefix+"cable-length", "", what+"feedline length [m]")
 	f.IntVar(&e.connectors, prefix+"connectors", 0, "mated connector pairs in the "+what+"feedline")
 	f.StringVar(&e.swr, prefix+"swr", "1", "SWR at the "+what+"antenna")
@@ -167,10 +173,34 @@ func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power boo
 func addAntennaFlags(cmd *cobra.Command, e *endFlags, prefix, what string) {
 	f := cmd.Flags()
 	e.prefix, e.changed = prefix, f.Changed
-	f.StringVar(&e.antenna, prefix+"antenna", "", what+"antenna from the catalog (see `mastlink antenna --list`): its gain and pattern toward the path")
+	f.StringVar(&e.antenna, prefix+"antenna", "", what+"antenna from the catalog (mastlink antenna --list): its gain and pattern toward the path")
 	f.StringVar(&e.bearing, prefix+"bearing", "", "where the "+what+"directional antenna points [degrees true] (default: at the far end)")
 	f.StringVar(&e.bodyLoss, prefix+"body-loss", "", "body loss at the "+what+"handheld: face, belt, none, or dB (default: face, typical, for a handheld antenna type; else none)")
 	f.StringVar(&e.clutter, prefix+"clutter", "", "terminal clutter around the "+what+"antenna, ITU-R P.2108-1 §3.1 (added to the path loss at the antenna's real height): "+strings.Join(propagation.ClutterClassNames(), ", "))
+}
+
+// deprecatedAlias registers old as a hidden name of the flag now called
+// name, bound to the same value (p) with the same default. The command
+// checks for it with oldName, which says on stderr that the name changed
+// (pflag's own deprecation notice would go to stdout through cobra).
+func deprecatedAlias(cmd *cobra.Command, p *string, old, name string) {
+	f := cmd.Flags()
+	def := f.Lookup(name).DefValue
+	f.StringVar(p, old, def, "old name of --"+name)
+	_ = f.MarkHidden(old)
+}
+
+// oldName reports whether the old name of a flag (deprecatedAlias) was
+// used, and if so says so on stderr; giving both names is refused.
+func oldName(g *globals, changed func(string) bool, old, name string) (bool, error) {
+	if !changed(old) {
+		return false, nil
+	}
+	if changed(name) {
+		return true, usagef("--%s is the old name of --%s; give --%s only", old, name, name)
+	}
+	fmt.Fprintf(g.stderr, "mastlink: note: --%s is now called --%s; the old name will go\n", old, name)
+	return true, nil
 }
 
 // addSensFlag registers the receiver-sensitivity flag of an end.
@@ -255,5 +285,51 @@ func (e *endFlags) end(name string) (plan.End, error) {
 	}
 	out.Feedline = feedline.NewLine(c, l)
 	out.Feedline.SWR, out.Feedline.Connectors = swr, e.connectors
+	return out, nil
+}
+
+// over returns base with the parts of the kit whose flags were given
+// (changed) replaced by the flags' values: the "what if" of a command run
+// with a plan. A cable needs its length as well; the line's SWR and
+// connectors stay the base's unless given.
+func (e *endFlags) over(base plan.End, changed func(flag string) bool) (plan.End, error) {
+	f, err := e.end(base.Name)
+	if err != nil {
+		return base, err
+	}
+	p, out := e.prefix, base
+	if changed(p + "power") {
+		out.Radio.PowerW = f.Radio.PowerW
+	}
+	if e.sensFlag != "" && changed(e.sensFlag) {
+		out.Radio.SensitivityDBm = f.Radio.SensitivityDBm
+	}
+	// The antenna flags given, applied over the plan's antenna as the plan
+	// file's own fields would be (a type brings its gain, --gain overrides).
+	given := func(flag, v string) string {
+		if changed(p + flag) {
+			return v
+		}
+		return ""
+	}
+	ao := plan.AntennaOptions{Type: given("antenna", e.antenna), Gain: given("gain", e.gain), Height: given("height", e.height),
+		Bearing: given("bearing", e.bearing), BodyLoss: given("body-loss", e.bodyLoss), Clutter: given("clutter", e.clutter)}
+	if err := ao.Apply(&out.Antenna); err != nil {
+		return base, e.antennaUsage(err)
+	}
+	if changed(p+"cable") || changed(p+"cable-length") {
+		if e.cable == "" || e.cableLength == "" {
+			return base, usagef("--%scable and --%scable-length go together (the plan's line is replaced whole)", p, p)
+		}
+		swr, conn := out.Feedline.SWR, out.Feedline.Connectors
+		out.Feedline = f.Feedline
+		out.Feedline.SWR, out.Feedline.Connectors = swr, conn
+	}
+	if changed(p + "swr") {
+		out.Feedline.SWR = f.Feedline.SWR
+	}
+	if changed(p + "connectors") {
+		out.Feedline.Connectors = f.Feedline.Connectors
+	}
 	return out, nil
 }

@@ -48,6 +48,10 @@ the longest line-of-sight path between the two.`,
 }
 
 func runHorizon(ctx context.Context, g *globals, o *horizonOptions, args []string) error {
+	var inputs []string // reads no file
+	if _, err := g.checkOut(inputs, "json", "csv", "txt"); err != nil {
+		return err
+	}
 	h, err := quantity("height", o.height, units.ParseLengthM)
 	if err != nil {
 		return err
@@ -67,7 +71,7 @@ func runHorizon(ctx context.Context, g *globals, o *horizonOptions, args []strin
 		ToHorizonM: propagation.RadioHorizonKM(h2, 0, ae) * 1000,
 		CombinedM:  propagation.RadioHorizonKM(h, h2, ae) * 1000,
 	}
-	return g.emit(r, func(w io.Writer) error {
+	return g.emitFile(inputs, r, func(w io.Writer) error {
 		return writeCSV(w, []string{"k", "height_m", "to_height_m", "horizon_m", "to_horizon_m", "combined_m"},
 			[][]string{{f4(r.K), f2(h), f2(h2), f1(r.HorizonM), f1(r.ToHorizonM), f1(r.CombinedM)}})
 	}, func(w io.Writer) error {

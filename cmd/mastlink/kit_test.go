@@ -96,10 +96,14 @@ func TestKitFlagErrors(t *testing.T) {
 			t.Errorf("%v: exit %d, stderr %q; want one line with %q", c.args, code, stderr, c.want)
 		}
 	}
-	// With --plan, route refuses the kit flags it would ignore.
-	_, stderr, code := runCmd(t, "route", demoHike, "--plan", demoPlanFile, "--antenna", "dipole")
-	if code != 2 || !strings.Contains(stderr, "--antenna: with --plan") {
-		t.Errorf("route --plan --antenna: exit %d, %q", code, stderr)
+	// With --plan, route takes the antenna flags as a what-if over the
+	// plan's handheld, and says so.
+	out, stderr, code := runCmd(t, "route", demoHike, "--plan", demoPlanFile, "--antenna", "dipole", "--format", "json")
+	if code != 0 || !strings.Contains(out, "--antenna dipole") {
+		t.Errorf("route --plan --antenna: exit %d, %q; want the what-if listed", code, stderr)
+	}
+	if _, stderr, code := runCmd(t, "route", demoHike, "--plan", demoPlanFile, "--to-antenna", "dipole"); code != 2 || !strings.Contains(stderr, "--to-antenna") {
+		t.Errorf("route --plan --to-antenna: exit %d, %q", code, stderr)
 	}
 }
 

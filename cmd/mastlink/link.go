@@ -35,7 +35,9 @@ and the margin over the receiver's sensitivity.
 
 Points are LAT,LON in decimal degrees or waypoint names from --waypoints.
 Elevation data comes from --dem or MASTLINK_DEM; without it the path is a
-smooth earth. --profile takes the terrain from a CSV file instead.`,
+smooth earth. --profile takes the terrain from a CSV file instead.
+
+` + itmHelp,
 		Example: "  mastlink link --dem examples/terrain --waypoints examples/valley/points.gpx \\\n" +
 			"    --from \"Gorsefold trailhead\" --to \"Corvane Peak\" --freq 147.78 --power 5W --height 1.5m \\\n" +
 			"    --to-gain 6dBi --to-height 20m --rx-sens -122dBm",
@@ -70,9 +72,15 @@ type linkOutput struct {
 	ToLon   float64 `json:"to_lon"`
 	SigmaDB float64 `json:"sigma_db"`
 	SMeter  string  `json:"s_meter"`
+	// Warnings are the model's warnings (Longley–Rice ITM), as on stderr.
+	Warnings []string `json:"warnings"`
 }
 
 func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) error {
+	inputs := []string{o.points.file, o.profile}
+	if _, err := g.checkOut(inputs, "json", "csv", "txt"); err != nil {
+		return err
+	}
 	freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 	if err != nil {
 		return err
@@ -86,6 +94,9 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 		return optionUsage(err)
 	}
 	env.SigmaDB = req.SigmaDB
+	if err := o.envFlags.itm.requirement(env, &req); err != nil {
+		return err
+	}
 	var geo *plan.Geometry
 	out := linkOutput{SigmaDB: env.SigmaDB}
 	fromName, toName := "transmitter", "receiver"
@@ -142,7 +153,9 @@ func runLink(ctx context.Context, g *globals, o *linkOptions, args []string) err
 	}
 	out.LinkResult = r
 	out.SMeter = units.SMeter(r.RxPowerDBm)
-	return g.emit(out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
+	out.Warnings = append([]string{}, r.Warnings...)
+	g.warn(out.Warnings)
+	return g.emitFile(inputs, out, func(w io.Writer) error { return writeCSV(w, linkCSVHeader, [][]string{linkCSVRow(r)}) },
 		func(w io.Writer) error { renderLinkText(w, out, tx, rx, g.imperial()); return nil })
 }
 
@@ -178,7 +191,13 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 		terr = "the profile file"
 	}
 	fmt.Fprintf(w, "  ground from %s; ground %s at the transmitter, %s at the receiver\n", terr, units.FormatHeight(r.TxGroundM, im), units.FormatHeight(r.RxGroundM, im))
-	fmt.Fprintf(w, "  model: %s\n", propagation.ModelDescription(r.Model))
+	if r.ITM != nil {
+		fmt.Fprintf(w, "  model: %s\n", propagation.ModelDescription(r.Model))
+		fmt.Fprintf(w, "  ITM settings: %s\n", r.ITM.Settings())
+		itmText(w, r.ITM)
+	} else {
+		fmt.Fprintf(w, "  model: %s\n", propagation.ModelDescription(r.Model))
+	}
 	fmt.Fprintf(w, "  path: %s\n\n", pathSummary(r, im))
 	t := newTable(w)
 	t.row("  transmitter power", units.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
@@ -189,7 +208,11 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	}
 	t.row("  EIRP", "", dbm(r.EIRPDBm))
 	t.row("  free-space loss", "", db(-r.FreeSpaceLossDB))
-	t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
+	if r.ITM != nil {
+		t.row("  loss beyond free space (ITM, "+r.ITM.Mode+")", "", db(-r.ExcessLossDB))
+	} else {
+		t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
+	}
 	if r.TxClutterLossDB != 0 {
 		t.row("  clutter at the transmitter", "("+tx.Antenna.Clutter.String()+", ITU-R P.2108)", db(-r.TxClutterLossDB))
 	}

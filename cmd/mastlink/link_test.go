@@ -134,7 +134,7 @@ func TestLinkErrors(t *testing.T) {
 		{[]string{"link", "--freq", "146"}, "--from and --to"},
 		{[]string{"link", "--from", "1,2", "--to", "Peak", "--freq", "146"}, "--waypoints"},
 		{[]string{"link", "--from", "91,2", "--to", "1,2", "--freq", "146"}, "--from"},
-		{[]string{"link", "--from", "1,2", "--to", "1.1,2", "--freq", "146", "--model", "itm"}, "--model"},
+		{[]string{"link", "--from", "1,2", "--to", "1.1,2", "--freq", "146", "--model", "okumura"}, "--model"},
 		{[]string{"link", "--from", "1,2", "--to", "1.1,2", "--freq", "146", "--cable", "RG-58"}, "--cable needs --cable-length"},
 		{[]string{"link", "--profile", "nosuch.csv", "--freq", "146"}, "nosuch.csv"},
 	} {

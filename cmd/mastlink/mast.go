@@ -79,10 +79,12 @@ type mastOptions struct {
 	planFile, station           string
 	heights, cables, run, slack string
 	antennas                    string
-	from, to, freq, k           string
+	from, to, freq              string
+	envFlags                                            // --k, --model (and the ITM's settings), --polarization, --ground, --step
 	station0, target            endFlags                // the station's kit (power, gain, sens, swr, connectors) and the target's (--to-…)
 	req                         plan.RequirementOptions // --margin, --reliability, --sigma
 	points                      pointResolver
+	changed                     func(flag string) bool // whether a flag was given
 }
 
 func newMastCmd(g *globals) *cobra.Command {
@@ -99,7 +101,9 @@ cable at that height (cable mass per metre from the catalog).
 With --plan the station, targets and requirement come from a plan file
 (its mast section gives defaults for the flags). Without it, one station
 (--from, with link's station flags) and one simplex target (--to, with the
---to- flags) are checked both ways on --freq.`,
+--to- flags) are checked both ways on --freq.
+
+` + itmHelp,
 		Example: "  mastlink mast --plan examples/valley/plan.yaml\n" +
 			"  mastlink mast --plan examples/valley/plan.yaml --heights '2m..8m step 0.5m' --cables RG-58,RG-8X\n" +
 			"  mastlink mast --dem examples/terrain --waypoints examples/valley/points.gpx --from \"Marrowind Bend\" \\\n" +
@@ -111,13 +115,14 @@ With --plan the station, targets and requirement come from a plan file
 		},
 	}
 	f := cmd.Flags()
+	o.changed = f.Changed
 	f.StringVar(&o.planFile, "plan", "", "plan file: station, targets and requirement")
 	f.StringVar(&o.station, "station", "", "with --plan: the station to sweep (default: the first)")
 	f.StringVar(&o.heights, "heights", "", "mast heights to try, e.g. '2m..12m step 1m' (quote it: it holds spaces)")
-	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (see `mastlink feedline --list`)")
+	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (names as mastlink feedline --list shows them)")
 	f.StringVar(&o.run, "run", "", "cable from the mast foot to the radio [m]")
 	f.StringVar(&o.slack, "slack", "", "extra cable for loops and the mast head [m] (default 1m)")
-	f.StringVar(&o.req.Margin, "margin", "", "required fade margin [dB]")
+	f.StringVar(&o.req.Margin, "margin", "", fmt.Sprintf("required fade margin [dB] (default: the plan's, else %g dB)", plan.DefaultMarginDB))
 	f.StringVar(&o.req.Reliability, "reliability", "", "required fraction of locations, e.g. 90%")
 	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
 	f.StringVar(&o.from, "from", "", "station position: LAT,LON or waypoint")
@@ -127,7 +132,8 @@ With --plan the station, targets and requirement come from a plan file
 	tg.prefix = "to-"
 	f.StringVar(&st.power, "power", "5W", "station transmitter power [W]")
 	f.StringVar(&st.gain, "gain", "0dBi", "station antenna gain [dBi]")
-	addSensFlag(cmd, st, "sens", "station receiver sensitivity [dBm]")
+	addSensFlag(cmd, st, "rx-sens", "station receiver sensitivity [dBm] (µV across 50 Ω accepted)")
+	deprecatedAlias(cmd, &st.sens, "sens", "rx-sens")
 	f.StringVar(&st.swr, "swr", "1", "SWR at the station antenna")
 	f.IntVar(&st.connectors, "connectors", 0, "mated connector pairs in the station feedline")
 	f.StringVar(&tg.power, "to-power", "5W", "target transmitter power [W]")
@@ -136,8 +142,8 @@ With --plan the station, targets and requirement come from a plan file
 	addSensFlag(cmd, tg, "to-sens", "target receiver sensitivity [dBm]")
 	addAntennaFlags(cmd, st, "", "station ")
 	addAntennaFlags(cmd, tg, "to-", "target ")
-	f.StringVar(&o.antennas, "antennas", "", "catalog antennas to try in place of the station's, comma separated, preferred first (see `mastlink antenna --list`)")
-	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor")
+	f.StringVar(&o.antennas, "antennas", "", "catalog antennas to try in place of the station's, comma separated, preferred first (see mastlink antenna --list)")
+	addEnvFlags(cmd, &o.envFlags)
 	addWaypointsFlag(cmd, &o.points)
 	return cmd
 }
@@ -155,6 +161,11 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		inputs  []string
 	)
 	if o.planFile != "" {
+		for _, name := range append([]string{"k", "model", "polarization", "ground"}, itmFlagNames...) {
+			if o.itm.changed(name) {
+				return usagef("--%s: with --plan the model comes from the plan file; edit it, or drop --plan", name)
+			}
+		}
 		p, e, err := loadPlan(g, o.planFile)
 		if err != nil {
 			return err
@@ -162,7 +173,10 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if st, err = p.StationNamed(o.station); err != nil {
 			return usagef("--station: %v", err)
 		}
-		env, targets, req, inputs = e, p.Targets, p.Require, p.InputFiles
+		env, targets, req, inputs = e, p.ReachTargets(st.Name), p.Require, p.InputFiles
+		if env.StepM, err = o.stepM(); err != nil {
+			return err
+		}
 		if p.Mast != nil {
 			sweep = *p.Mast
 		}
@@ -170,11 +184,11 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if o.from == "" || o.to == "" || o.freq == "" {
 			return usagef("give --plan FILE, or --from, --to and --freq")
 		}
-		k, err := quantity("k", o.k, units.ParseKFactor)
-		if err != nil {
+		var err error
+		if env, err = o.envFlags.env(); err != nil {
 			return err
 		}
-		env = &plan.Env{K: k}
+		req = plan.DefaultRequirement()
 		freq, err := quantity("freq", o.freq, units.ParseFreqMHz)
 		if err != nil {
 			return err
@@ -187,7 +201,13 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		if err != nil {
 			return err
 		}
-		end, err := o.station0.end(fn) // its height is swept
+		kit := o.station0
+		if old, err := oldName(g, o.changed, "sens", "rx-sens"); err != nil {
+			return err
+		} else if old {
+			kit.sensFlag = "sens" // errors name the flag given
+		}
+		end, err := kit.end(fn) // its height is swept
 		if err != nil {
 			return err
 		}
@@ -258,6 +278,17 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 	if err := ro.Apply(&req); err != nil {
 		return optionUsage(err)
 	}
+	if o.planFile == "" {
+		if err := o.itm.requirement(env, &req); err != nil {
+			return err
+		}
+	} else if o.req.Reliability != "" && req.ByModel {
+		// The plan's ITM takes the reliability of --reliability.
+		var err error
+		if env.Model, err = plan.ITMRequirement(env.Model, &req); err != nil {
+			return optionUsage(err)
+		}
+	}
 	if err := ctx.Err(); err != nil {
 		return err
 	}
@@ -266,6 +297,7 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 		return err
 	}
 	g.warnMissing(env.Terrain)
+	g.warn(res.Warnings)
 	if g.out != "" {
 		kind, err := outputKind(g.out, "csv", "json")
 		if err != nil {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -78,27 +79,47 @@ func writeFileAtomic(path string, data []byte, inputs []string) error {
 	if err := checkNotInput("--out", path, inputs); err != nil {
 		return err
 	}
+	if st, err := os.Stat(path); err == nil && st.IsDir() {
+		return fmt.Errorf("writing %s: it is a directory; give a file name", path)
+	}
 	dir := filepath.Dir(path)
+	// The temporary file's name never reaches a message: errors name path
+	// and the cause alone.
+	fail := func(err error) error { return fmt.Errorf("writing %s: %w", path, bareCause(err)) }
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fail(err)
 	}
 	name := tmp.Name()
 	defer os.Remove(name) // no-op after a successful rename
 	if _, err := tmp.Write(data); err != nil {
 		tmp.Close()
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fail(err)
 	}
 	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fail(err)
 	}
 	if err := os.Chmod(name, 0o644); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fail(err)
 	}
 	if err := os.Rename(name, path); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fail(err)
 	}
 	return nil
+}
+
+// bareCause strips the file names from an error of the os package
+// (*os.PathError, *os.LinkError), leaving its cause ("permission denied").
+func bareCause(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	var le *os.LinkError
+	if errors.As(err, &le) {
+		return le.Err
+	}
+	return err
 }
 
 // renderTo renders with fn into a buffer and writes it atomically to path.
@@ -113,6 +134,45 @@ func renderTo(path string, inputs []string, fn func(w io.Writer) error) error {
 // extension returns the lower-case extension of path without the dot.
 func extension(path string) string {
 	return strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
+}
+
+// checkOut checks -o before any work: its extension must be one of kinds
+// and it must not name one of inputs. It returns the extension ("" without
+// -o).
+func (g *globals) checkOut(inputs []string, kinds ...string) (string, error) {
+	if g.out == "" {
+		return "", nil
+	}
+	kind, err := outputKind(g.out, kinds...)
+	if err != nil {
+		return "", err
+	}
+	return kind, checkNotInput("-o", g.out, inputs)
+}
+
+// emitFile writes a command's result like emit and, with -o, to that file
+// as well (atomically, never over one of inputs): .json, .csv (when the
+// command has a table) or .txt (the text, metric or imperial as asked).
+func (g *globals) emitFile(inputs []string, res any, csv, text func(io.Writer) error) error {
+	if g.out != "" {
+		var fn func(io.Writer) error
+		switch extension(g.out) {
+		case "json":
+			fn = func(w io.Writer) error { return writeJSON(w, res) }
+		case "csv":
+			fn = csv
+		case "txt":
+			fn = text
+		}
+		if fn == nil {
+			return usagef("-o: %q: give a file ending in .json, .csv or .txt", g.out)
+		}
+		if err := renderTo(g.out, inputs, fn); err != nil {
+			return err
+		}
+		g.wrote()
+	}
+	return g.emit(res, csv, text)
 }
 
 // emit writes a command's result to stdout in the --format asked for: res

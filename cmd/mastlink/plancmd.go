@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"io"
@@ -38,7 +39,8 @@ and lightest cable that meet the requirement.
 
 With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
 into DIR for maps, GPS units and spreadsheets, and route-N.geojson and
-sites.geojson when the plan has routes and sites.`,
+sites.geojson when the plan has routes and sites, and coverage-NAME.png and
+coverage-NAME.tif for every station whose coverage: asks for a map.`,
 		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -54,9 +56,9 @@ func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	ts, err := g.openTerrain(p.Terrain...)
+	ts, err := g.openTerrain(terrainSource{paths: p.Terrain, where: fmt.Sprintf("%s:%d: terrain", path, p.TerrainAt)})
 	if err != nil {
-		return nil, nil, fmt.Errorf("%s:%d: terrain: %w", path, p.TerrainAt, err)
+		return nil, nil, err
 	}
 	if ts == nil {
 		g.noticeSmoothEarth()
@@ -81,11 +83,16 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 	}
 	if env.Terrain != nil {
 		if m := env.Terrain.Missing(); len(m) > 0 {
-			w := fmt.Sprintf("no elevation data for %s: the ground there is taken as 0 m; obtain these tiles and add them to %s:%d (terrain)", strings.Join(m, ", "), path, p.TerrainAt)
+			where := "--dem"
+			if len(p.Terrain) > 0 {
+				where = fmt.Sprintf("%s:%d (terrain)", path, p.TerrainAt)
+			}
+			w := fmt.Sprintf("no elevation data for %s: the ground there is taken as 0 m; obtain these tiles and add them to %s", strings.Join(m, ", "), where)
 			res.Warnings = append(res.Warnings, w)
 		}
 	}
 	res.Warnings = append(res.Warnings, planWarnings(res)...)
+	res.Warnings = append(res.Warnings, planModelWarnings(res)...)
 	for _, w := range res.Warnings {
 		fmt.Fprintf(g.stderr, "mastlink: warning: %s\n", w)
 	}
@@ -93,9 +100,51 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		if err := writePlanOutputs(g, p, res); err != nil {
 			return err
 		}
+		maps, err := writePlanCoverage(ctx, g, p, env.Terrain, g.out)
+		if err != nil {
+			return err
+		}
+		if len(maps) > 0 {
+			fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(maps, ", "), g.out)
+		}
 	}
 	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
-		func(w io.Writer) error { renderPlanText(w, p, env, res, g.imperial()); return nil })
+		func(w io.Writer) error { renderPlanText(w, p, env, terrainFrom(g, p), res, g.imperial()); return nil })
+}
+
+// terrainFrom names where the elevation data came from: the --dem paths
+// and the plan's terrain: line.
+func terrainFrom(g *globals, p *plan.Plan) string {
+	var parts []string
+	if d := g.demPaths(); len(d) > 0 {
+		parts = append(parts, strings.Join(d, ", ")+" (--dem)")
+	}
+	if len(p.Terrain) > 0 {
+		parts = append(parts, strings.Join(relPaths(p.Terrain), ", "))
+	}
+	return strings.Join(parts, " and ")
+}
+
+// planModelWarnings gathers the model's warnings (Longley–Rice ITM) of the
+// plan's links, mast sweep, routes and sites.
+func planModelWarnings(res *plan.PlanResult) []string {
+	out := linkModelWarnings(res.Links)
+	if res.Mast != nil {
+		for _, w := range res.Mast.Warnings {
+			out = append(out, "mast sweep: "+w)
+		}
+	}
+	for _, r := range res.Routes {
+		for _, w := range r.Warnings {
+			out = append(out, fmt.Sprintf("route %s: %s", r.Name, w))
+		}
+	}
+	if res.Sites != nil {
+		for _, w := range res.Sites.Warnings {
+			out = append(out, "sites: "+w)
+		}
+	}
+	return out
 }
 
 // planWarnings points out what a briefing should not miss.
@@ -121,7 +170,7 @@ func writeLinksCSV(w io.Writer, links []plan.LinkResult) error {
 }
 
 // renderPlanText writes the plan result as a briefing.
-func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResult, im bool) {
+func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string, res *plan.PlanResult, im bool) {
 	title := res.Name
 	if title == "" {
 		title = filepath.Base(p.Path)
@@ -129,15 +178,24 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 	fmt.Fprintln(w, title)
 	fmt.Fprintln(w, strings.Repeat("=", len([]rune(title))))
 	req := fmt.Sprintf("%.1f dB of margin on every required link", res.NeededMarginDB)
-	if p.Require.Reliability > 0 {
+	switch {
+	case p.Require.ByModel:
+		req = itmRequirementText(p.Require)
+	case res.DefaultMargin:
+		req = fmt.Sprintf("%.1f dB of margin (default; the plan's require: asks for none)", res.NeededMarginDB)
+	case p.Require.Reliability > 0:
 		req += fmt.Sprintf(" (asked: %.1f dB, and %.0f%% of locations with σ %.1f dB)", p.Require.MarginDB, 100*p.Require.Reliability, p.Require.SigmaDB)
 	}
 	fmt.Fprintf(w, "Requirement: %s\n", req)
 	terr := "smooth earth (no elevation data)"
 	if env.Terrain != nil {
-		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), strings.Join(relPaths(p.Terrain), ", "))
+		terr = fmt.Sprintf("%d elevation file(s) from %s", env.Terrain.Len(), terrainFrom)
 	}
-	fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
+	if _, ok := p.Model.(propagation.ITM); ok {
+		fmt.Fprintf(w, "Terrain: %s; %s\n\n", terr, modelLine(p.Model))
+	} else {
+		fmt.Fprintf(w, "Terrain: %s; k = %.3g; %s\n\n", terr, p.K, propagation.ModelDescription(p.Model.Name()))
+	}
 
 	for _, s := range res.Stations {
 		cable := "no feedline given"
@@ -146,9 +204,18 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 		}
 		fmt.Fprintf(w, "%s at %.5f,%.5f (ground %s): %s, %s at %s, %s\n", s.Name, s.Lat, s.Lon, units.FormatHeight(s.GroundM, im),
 			units.FormatPower(s.PowerW), fmt.Sprintf("%.2f dBi", s.GainDBi), units.FormatHeight(s.HeightM, im), cable)
-		fmt.Fprintf(w, "  reaches %d of %d required targets in both directions\n\n", s.Reached, s.Of)
+		what := "required targets"
+		if len(res.Stations) > 1 {
+			what = "required targets and other stations"
+		}
+		fmt.Fprintf(w, "  reaches %d of %d %s in both directions\n\n", s.Reached, s.Of, what)
 		t := newTable(w)
-		t.row("  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict")
+		head := []string{"  target", "way", "MHz", "distance", "bearing", "path loss", "received", "margin", "clearance", "verdict"}
+		_, itm := p.Model.(propagation.ITM)
+		if itm {
+			head = append(head, "ITM mode")
+		}
+		t.row(head...)
 		for _, l := range res.Links {
 			if l.From != s.Name && l.To != s.Name {
 				continue
@@ -162,13 +229,22 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, res *plan.PlanResu
 			if l.Optional {
 				target += " (optional)"
 			}
-			t.row("  "+target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
-				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l))
+			row := []string{"  " + target, l.Direction, fmt.Sprintf("%.3f", l.FreqMHz), units.FormatLength(l.DistanceM, im), fmt.Sprintf("%03.0f°", bearing),
+				fmt.Sprintf("%.1f dB", l.PathLossDB), fmt.Sprintf("%.1f dBm", l.RxPowerDBm), fmt.Sprintf("%+.1f dB", l.MarginDB), clearance(l), linkVerdict(l)}
+			if itm && l.ITM != nil {
+				row = append(row, l.ITM.Mode)
+			}
+			t.row(row...)
 		}
 		t.flush()
 		fmt.Fprintln(w)
 	}
-	if res.Mast != nil {
+	switch {
+	case len(res.Masts) > 0:
+		for _, m := range res.Masts {
+			renderMastText(w, m, im)
+		}
+	case res.Mast != nil:
 		renderMastText(w, res.Mast, im)
 	}
 	renderPlanRoutesAndSites(w, res, im)
@@ -240,16 +316,75 @@ func relPaths(ps []string) []string {
 }
 
 // writePlanOutputs writes links.geojson, keepout.geojson, plan.gpx and
-// links.csv into the directory g.out.
+// links.csv (and route-N.geojson, sites.geojson) into the directory g.out.
+// Every file is rendered and every name checked against the plan's inputs
+// before the first is written, so a refusal leaves nothing half done.
 func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 	dir := g.out
 	if ext := extension(dir); ext != "" {
 		return usagef("-o: %q: plan writes several files; give a directory", dir)
 	}
+	if st, err := os.Stat(dir); err == nil && !st.IsDir() {
+		return usagef("-o: %s is a file; plan writes several files, give a directory", dir)
+	}
+	type output struct {
+		name   string
+		render func(w io.Writer) error
+	}
+	outs := []output{
+		{"links.geojson", func(w io.Writer) error { return writeJSON(w, linksGeoJSON(p, res)) }},
+		{"keepout.geojson", func(w io.Writer) error {
+			var sites []keepoutSite
+			for _, e := range res.Exposure {
+				sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
+			}
+			fc, err := keepoutGeoJSON(sites)
+			if err != nil {
+				return err
+			}
+			return writeJSON(w, fc)
+		}},
+		{"plan.gpx", func(w io.Writer) error { return writePlanGPX(w, p, res) }},
+		{"links.csv", func(w io.Writer) error { return writeLinksCSV(w, res.Links) }},
+	}
+	for i := range res.Routes {
+		r := &res.Routes[i]
+		outs = append(outs, output{fmt.Sprintf("route-%d.geojson", i+1), func(w io.Writer) error { return writeJSON(w, routeGeoJSON(r)) }})
+	}
+	if res.Sites != nil {
+		outs = append(outs, output{"sites.geojson", func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res.Sites)) }})
+	}
+	data := make([][]byte, len(outs))
+	for i, o := range outs {
+		path := filepath.Join(dir, o.name)
+		if err := checkNotInput("-o", path, p.InputFiles); err != nil {
+			return usagef("-o: %s would be written over %s, an input of this plan; choose another directory", dir, path)
+		}
+		if st, err := os.Stat(path); err == nil && st.IsDir() {
+			return usagef("-o: %s is a directory; plan writes a file of that name there, choose another directory", path)
+		}
+		var buf bytes.Buffer
+		if err := o.render(&buf); err != nil {
+			return fmt.Errorf("%s: %w", o.name, err)
+		}
+		data[i] = buf.Bytes()
+	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("-o: %w", err)
 	}
-	inputs := p.InputFiles
+	written := make([]string, len(outs))
+	for i, o := range outs {
+		if err := writeFileAtomic(filepath.Join(dir, o.name), data[i], p.InputFiles); err != nil {
+			return err
+		}
+		written[i] = o.name
+	}
+	fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(written, ", "), dir)
+	return nil
+}
+
+// linksGeoJSON is every link of the plan as a line with its figures.
+func linksGeoJSON(p *plan.Plan, res *plan.PlanResult) *geojson.FeatureCollection {
 	fc := geojson.NewFeatureCollection()
 	for _, l := range res.Links {
 		a, b := endpoints(p, l)
@@ -272,39 +407,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 		f.Properties["optional"] = l.Optional
 		fc.Append(f)
 	}
-	if err := renderTo(filepath.Join(dir, "links.geojson"), inputs, func(w io.Writer) error { return writeJSON(w, fc) }); err != nil {
-		return err
-	}
-	var sites []keepoutSite
-	for _, e := range res.Exposure {
-		sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
-	}
-	if err := writeKeepout(filepath.Join(dir, "keepout.geojson"), inputs, sites); err != nil {
-		return err
-	}
-	if err := writePlanGPX(filepath.Join(dir, "plan.gpx"), inputs, p, res); err != nil {
-		return err
-	}
-	if err := renderTo(filepath.Join(dir, "links.csv"), inputs, func(w io.Writer) error { return writeLinksCSV(w, res.Links) }); err != nil {
-		return err
-	}
-	written := []string{"links.geojson", "keepout.geojson", "plan.gpx", "links.csv"}
-	for i := range res.Routes {
-		r := &res.Routes[i]
-		name := fmt.Sprintf("route-%d.geojson", i+1)
-		if err := renderTo(filepath.Join(dir, name), inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(r)) }); err != nil {
-			return err
-		}
-		written = append(written, name)
-	}
-	if res.Sites != nil {
-		if err := renderTo(filepath.Join(dir, "sites.geojson"), inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res.Sites)) }); err != nil {
-			return err
-		}
-		written = append(written, "sites.geojson")
-	}
-	fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(written, ", "), dir)
-	return nil
+	return fc
 }
 
 // endpoints finds the positions of a link's two ends in the plan.
@@ -321,7 +424,7 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 
 // writePlanGPX writes the plan's places as waypoints annotated with their
 // worst margins, for a GPS.
-func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResult) error {
+func writePlanGPX(w io.Writer, p *plan.Plan, res *plan.PlanResult) error {
 	now := time.Now().UTC().Truncate(time.Second)
 	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
@@ -347,5 +450,6 @@ func writePlanGPX(path string, inputs []string, p *plan.Plan, res *plan.PlanResu
 	if err != nil {
 		return err
 	}
-	return writeFileAtomic(path, b, inputs)
+	_, err = w.Write(b)
+	return err
 }

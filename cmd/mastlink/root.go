@@ -47,7 +47,7 @@ func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.
 	if err == nil {
 		return 0
 	}
-	fmt.Fprintf(stderr, "mastlink: %s\n", firstLine(err.Error()))
+	fmt.Fprintf(stderr, "mastlink: %s\n", errorLine(err))
 	var ue usageError
 	if errors.As(err, &ue) || isCobraUsage(err) {
 		return 2
@@ -103,6 +103,20 @@ func isBoolFlag(tok string) bool {
 	return false
 }
 
+// errorLine is err as the one line printed: its first line, with cobra's
+// suggestions for a mistyped command kept on it.
+func errorLine(err error) string {
+	msg := err.Error()
+	if strings.HasPrefix(msg, "unknown command") {
+		if i := strings.Index(msg, "Did you mean this?"); i >= 0 {
+			alts := strings.Fields(msg[i+len("Did you mean this?"):])
+			return firstLine(msg) + "; did you mean " + strings.Join(alts, " or ") + "?"
+		}
+		return firstLine(msg) + " (see mastlink --help)"
+	}
+	return firstLine(msg)
+}
+
 func firstLine(s string) string {
 	s = strings.TrimSpace(s)
 	if i := strings.IndexByte(s, '\n'); i >= 0 {
@@ -133,19 +147,19 @@ data and GPX waypoints.
 
 Quantities take units (12m, 40ft, 5W, 37dBm, 146.52MHz, 2.15dBi, 0.25uV, 90%);
 a bare number takes the default unit named in each flag's help.`,
-		Version:       version,
-		SilenceUsage:  true,
-		SilenceErrors: true,
+		Version:                    version,
+		SuggestionsMinimumDistance: 2, // "plna", "sties", "feedlien" find plan, sites, feedline
+		SilenceUsage:               true,
+		SilenceErrors:              true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
 			return g.validate(cmd)
 		},
 	}
-	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError{err} })
+	root.SetFlagErrorFunc(flagError)
 	pf := root.PersistentFlags()
 	pf.StringVar(&g.format, "format", "text", "output format: text, json or csv (csv where the output is a table)")
 	pf.StringVar(&g.dem, "dem", os.Getenv("MASTLINK_DEM"), "elevation data: a directory or files of SRTM .hgt/.hgt.zip/.hgt.gz or GeoTIFF, comma separated (env MASTLINK_DEM)")
 	pf.StringVar(&g.units, "units", "metric", "units in text output: metric or imperial (JSON is always SI)")
-	pf.StringVarP(&g.out, "out", "o", "", "write the result to this file; the format follows its extension")
 	pf.IntVar(&g.cacheMB, "cache-mb", envInt("MASTLINK_CACHE_MB", 1024), "memory for cached elevation tiles, MiB (env MASTLINK_CACHE_MB)")
 
 	root.AddCommand(
@@ -159,11 +173,58 @@ a bare number takes the default unit named in each flag's help.`,
 		newMastCmd(g),
 		newRouteCmd(g),
 		newSitesCmd(g),
+		newCoverageCmd(g),
 		newAntennaCmd(g),
 		newRelayCmd(g),
 		newVersionCmd(g),
 	)
+	addOutFlags(root, g)
 	return root
+}
+
+// outHelp is the -o/--out help of each command that writes a file: what it
+// writes and the extensions it takes. Commands listed in noOut write no
+// file; any other command gets outHelpDefault.
+var outHelp = map[string]string{
+	"plan":     "write links.geojson, keepout.geojson, plan.gpx and links.csv (and route-N.geojson, sites.geojson) into the directory `DIR` (created if needed)",
+	"link":     "also write the result to `FILE`: .json, .csv or .txt",
+	"feedline": "also write the result to `FILE`: .json, .csv or .txt",
+	"horizon":  "also write the result to `FILE`: .json, .csv or .txt",
+	"profile":  "write the profile to `FILE`: .csv (the samples), .svg or .png (a chart)",
+	"exposure": "write the keep-out circles to `FILE`: .geojson or .gpx (needs --at)",
+	"mast":     "also write the sweep to `FILE`: .csv or .json",
+	"route":    "also write the coverage to `FILE`: .geojson (covered pieces), .gpx (track and waypoints) or .csv (every point)",
+	"sites":    "also write the ranking to `FILE`: .geojson (points) or .csv",
+}
+
+const outHelpDefault = "write the result to `FILE`; the format follows its extension"
+
+var noOut = map[string]bool{"elevation": true, "version": true}
+
+// addOutFlags gives every command that writes a file its own -o/--out,
+// with help that says what it writes there. Never over an input file;
+// always through writeFileAtomic.
+func addOutFlags(root *cobra.Command, g *globals) {
+	for _, c := range root.Commands() {
+		if noOut[c.Name()] {
+			continue
+		}
+		help, ok := outHelp[c.Name()]
+		if !ok {
+			help = outHelpDefault
+		}
+		c.Flags().StringVarP(&g.out, "out", "o", "", help)
+	}
+}
+
+// flagError turns the flag parser's errors into usage errors (exit 2); -o
+// given to a command that writes no file says so.
+func flagError(c *cobra.Command, err error) error {
+	msg := err.Error()
+	if strings.Contains(msg, "unknown shorthand flag: 'o'") || strings.Contains(msg, "unknown flag: --out") {
+		return usagef("-o: mastlink %s writes no file; its result goes to stdout (redirect it with > FILE)", c.Name())
+	}
+	return usageError{err}
 }
 
 func envInt(name string, def int) int {

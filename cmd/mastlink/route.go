@@ -34,28 +34,42 @@ before and after each.
 
 With --plan the kit carried is the plan's defaults (a handheld), or the
 station named by --station; the targets are the plan's targets and its
-stations (simplex on the plan's frequency). Without a plan the kit comes from
---power, --gain, --height, --rx-sens … and the targets from --targets, each a
-waypoint with the same kit.
+stations (simplex on the plan's frequency), each with its own kit. Kit,
+requirement and model flags given with --plan replace the plan's figures
+for this run ("what if": --power 10W, --margin 6dB, --model free-space),
+and the output lists them. Without a plan the kit comes from --power,
+--gain, --height, --rx-sens … and the targets from --targets, each a
+waypoint with the kit of the --to- flags (--to-power, --to-gain,
+--to-height, --to-sens …; a 5 W handheld at 1.5 m unless they say).
+
+Two spacings: --spacing is the distance between the points checked along
+the track (one radio path from each point to each target); --step is the
+distance between terrain samples along each of those radio paths (the
+elevation data's own spacing unless given).
 
 -o writes F.geojson (the track in covered and uncovered pieces), F.gpx (the
 track with waypoints at the ends of dead stretches and at the best spots) or
-F.csv (every checked point).`,
+F.csv (every checked point) or F.png (a map: the track coloured by the
+worst margin, the dead stretches, the best spots to call from and the
+targets, over a shaded relief).
+
+` + itmHelp,
 		Example: "  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink route examples/valley/hike.gpx --plan examples/valley/plan.yaml -o hike-coverage.gpx\n" +
 			"  mastlink route hike.gpx --dem tiles/ --targets repeater.gpx --freq 147.78 --power 5W --rx-sens -119dBm",
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runRoute(cmd.Context(), g, o, args)
+			return runRoute(cmd.Context(), g, cmd, o, args)
 		},
 	}
-	addReachFlags(cmd, &o.reachOptions, plan.HandheldName)
-	cmd.Flags().StringVar(&o.spacing, "spacing", "50m", "distance between checked points along the track [m]")
+	addReachFlags(cmd, &o.reachOptions, plan.HandheldName, "the plan's defaults: as a handheld when they give a radio, else the first station")
+	cmd.Flags().StringVar(&o.spacing, "spacing", "50m", "distance between checked points along the track [m] (--step: between terrain samples on each radio path)")
+	cmd.Flags().Lookup("step").Usage = "distance between terrain samples along each radio path [m] (default: the elevation data's spacing; --spacing: between checked points on the track)"
 	cmd.Flags().StringVar(&o.track, "track", "", "name of the track or route in the file (default: the first)")
 	return cmd
 }
 
-func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) error {
+func runRoute(ctx context.Context, g *globals, cmd *cobra.Command, o *routeOptions, args []string) error {
 	spacing, err := quantity("spacing", o.spacing, units.ParseLengthM)
 	if err != nil {
 		return err
@@ -64,21 +78,27 @@ func runRoute(ctx context.Context, g *globals, o *routeOptions, args []string) e
 		return usagef("--spacing: give a distance above 0 m")
 	}
 	var track gpx.Track
-	return runReach(ctx, g, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
-		outKinds: []string{"geojson", "gpx", "csv"},
+	var rr *reach
+	return runReach(ctx, g, cmd, &o.reachOptions, args[0], reachRun[*plan.RouteResult]{
+		outKinds: []string{"geojson", "gpx", "csv", "png"},
+		warnings: func(res *plan.RouteResult) []string { return res.Warnings },
 		check: func(gf *gpx.File) error {
 			track, err = pickTrack(g, gf, o.track)
 			return err
 		},
 		compute: func(ctx context.Context, r *reach, _ *gpx.File, progress plan.Progress) (*plan.RouteResult, error) {
+			rr = r
 			return r.env.Route(ctx, plan.RouteRequest{Track: track, Walker: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, SpacingM: spacing}, progress)
 		},
+		note: func(res *plan.RouteResult, def bool, whatIf []string) { res.DefaultMargin, res.WhatIf = def, whatIf },
 		write: func(kind string, inputs []string, res *plan.RouteResult) error {
 			switch kind {
 			case "geojson":
 				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, routeGeoJSON(res)) })
 			case "gpx":
 				return writeRouteGPX(g.out, inputs, track, res)
+			case "png":
+				return renderTo(g.out, inputs, func(w io.Writer) error { return routeMap(w, res, rr.targets, rr.env.Terrain, g.imperial()) })
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeRouteCSV(w, res) })
 		},
@@ -111,8 +131,9 @@ func pickTrack(g *globals, gf *gpx.File, name string) (gpx.Track, error) {
 // renderRouteText writes a route's coverage as a short briefing.
 func renderRouteText(w io.Writer, r *plan.RouteResult, im bool) {
 	fmt.Fprintf(w, "Route: %s\n", r.Name)
-	fmt.Fprintf(w, "  %s checked every %s (%d points) carrying the %s kit; %.1f dB of margin needed both ways\n",
-		units.FormatLength(r.LengthM, im), units.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB)
+	fmt.Fprintf(w, "  %s checked every %s (%d points) carrying the %s kit; %.1f dB of margin needed both ways%s\n",
+		units.FormatLength(r.LengthM, im), units.FormatLength(r.SpacingM, im), len(r.Points), r.Walker, r.NeededMarginDB, defaultNote(r.DefaultMargin))
+	renderWhatIf(w, r.WhatIf)
 	if r.Terrain == "smooth earth" {
 		fmt.Fprintln(w, "  (no elevation data along the way: a smooth earth)")
 	}
@@ -269,4 +290,19 @@ func writeRouteGPX(path string, inputs []string, track gpx.Track, r *plan.RouteR
 		return err
 	}
 	return writeFileAtomic(path, b, inputs)
+}
+
+// defaultNote marks the default requirement in a briefing line.
+func defaultNote(def bool) string {
+	if def {
+		return " (default)"
+	}
+	return ""
+}
+
+// renderWhatIf lists the flags that replaced a plan's figures.
+func renderWhatIf(w io.Writer, whatIf []string) {
+	if len(whatIf) > 0 {
+		fmt.Fprintf(w, "  What if: %s (instead of the plan's figures)\n", strings.Join(whatIf, ", "))
+	}
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/csv"
+	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -227,7 +228,8 @@ func TestRouteUsageErrors(t *testing.T) {
 	}{
 		{"no targets", []string{"route", demoHike}, 2, "--targets"},
 		{"no freq", []string{"route", demoHike, "--targets", demoPoints}, 2, "--freq"},
-		{"kit with plan", []string{"route", demoHike, "--plan", demoPlanFile, "--power", "5W"}, 2, "--power"},
+		{"target kit with plan targets", []string{"route", demoHike, "--plan", demoPlanFile, "--to-power", "5W"}, 2, "--to-power"},
+		{"cable without length over plan", []string{"sites", demoCandidates, "--plan", demoPlanFile, "--cable", "RG-58"}, 2, "--cable needs --cable-length"},
 		{"bad station", []string{"route", demoHike, "--plan", demoPlanFile, "--station", "Nobody"}, 2, `no station "Nobody"`},
 		{"bad output", []string{"route", demoHike, "--plan", demoPlanFile, "-o", filepath.Join(dir, "x.kml")}, 2, ".geojson"},
 		{"output over input", []string{"route", demoHike, "--plan", demoPlanFile, "-o", demoHike}, 2, "input"},
@@ -269,5 +271,88 @@ func TestPlanIncludesRoutesAndSites(t *testing.T) {
 		if !strings.Contains(out, want) {
 			t.Errorf("briefing lacks %q", want)
 		}
+	}
+}
+
+// TestReachWhatIf: kit, requirement and model flags given with --plan
+// replace the plan's figures for the run, and the output says so.
+func TestReachWhatIf(t *testing.T) {
+	type result struct {
+		NeededMarginDB float64  `json:"needed_margin_db"`
+		DefaultMargin  bool     `json:"default_margin"`
+		WhatIf         []string `json:"what_if"`
+		Targets        []struct {
+			Name         string  `json:"name"`
+			BestMarginDB float64 `json:"best_margin_db"`
+		} `json:"targets"`
+	}
+	run := func(args ...string) result {
+		t.Helper()
+		out, stderr, code := runCmd(t, append([]string{"route", demoHike, "--plan", demoPlanFile, "--spacing", "500m", "--format", "json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("%v: code %d: %s", args, code, stderr)
+		}
+		var r result
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	base := run()
+	low := run("--power", "0.5W", "--margin", "3dB", "--model", "free-space")
+	if want := []string{"--power 0.5W", "--margin 3dB", "--model free-space"}; strings.Join(low.WhatIf, "|") != strings.Join(want, "|") {
+		t.Errorf("what_if %q, want %q", low.WhatIf, want)
+	}
+	// The plan's 90 % of locations with σ 5.5 dB still asks for
+	// 5.5 × 1.2816 = 7.05 dB (ITU-R P.1812-8 eq. 69, normal quantile from
+	// tables) once --margin lowers its 10 dB to 3 dB.
+	if base.WhatIf != nil || base.NeededMarginDB != 10 || math.Abs(low.NeededMarginDB-7.05) > 0.01 {
+		t.Errorf("base what_if %q; needed margin %v then %v, want 10 then 7.05", base.WhatIf, base.NeededMarginDB, low.NeededMarginDB)
+	}
+	// The walker's power only counts on its way out; --power alone (5 W →
+	// 0.5 W) takes exactly 10 dB off an outbound margin (10·log10(10),
+	// the definition of the decibel) and changes no inbound one.
+	pw := run("--power", "0.5W")
+	for i, tg := range base.Targets {
+		d := base.Targets[i].BestMarginDB - pw.Targets[i].BestMarginDB
+		if d < -1e-9 || d > 10+1e-6 {
+			t.Errorf("%s: best margin fell by %.3f dB with 10 dB less power", tg.Name, d)
+		}
+	}
+	text, _, _ := runCmd(t, "route", demoHike, "--plan", demoPlanFile, "--spacing", "500m", "--power", "0.5W")
+	if !strings.Contains(text, "What if: --power 0.5W (instead of the plan's figures)") {
+		t.Errorf("text does not state the what-if:\n%s", text)
+	}
+}
+
+// TestReachTargetKit: without a plan the targets of --targets carry the
+// kit of the --to- flags, not a copy of the walker's or the station's.
+func TestReachTargetKit(t *testing.T) {
+	worst := func(args ...string) float64 {
+		t.Helper()
+		out, stderr, code := runCmd(t, append([]string{"sites", demoCandidates, "--dem", demoTerrain, "--targets", demoPoints, "--freq", "146.55", "--format", "json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("%v: code %d: %s", args, code, stderr)
+		}
+		var r struct {
+			Sites []struct {
+				WorstMarginDB float64 `json:"worst_margin_db"`
+			} `json:"sites"`
+		}
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r.Sites[0].WorstMarginDB
+	}
+	handheld := worst("--height", "6m", "--power", "25W")
+	same := worst("--height", "6m", "--power", "25W", "--to-power", "5W", "--to-height", "1.5m", "--to-gain", "0dBi", "--to-sens", "0.25uV")
+	if handheld != same {
+		t.Errorf("the default target kit is not a 5 W handheld at 1.5 m: %v vs %v", handheld, same)
+	}
+	// A target's receiver 10 dB less sensitive and its transmitter 10 dB
+	// weaker lower every margin by exactly 10 dB (the budget is a sum in
+	// dB).
+	if deaf := worst("--height", "6m", "--power", "25W", "--to-sens", "-109.04dBm", "--to-power", "0.5W"); math.Abs(handheld-deaf-10) > 0.02 {
+		t.Errorf("worst margin %v with a handheld, %v with a deafer, weaker target; want 10 dB less", handheld, deaf)
 	}
 }

@@ -27,27 +27,36 @@ that does it), or the station's own antenna height when the plan has no
 sweep.
 
 With --plan the station is the plan's first (or --station NAME) and the
-targets are the plan's targets and other stations. Without a plan the kit
-comes from --power, --gain, --height, --rx-sens … and the targets from
---targets, each a waypoint with the same kit.
+targets are the plan's targets and other stations, each with its own kit.
+Kit, requirement and model flags given with --plan replace the plan's
+figures for this run ("what if": --power 50W, --margin 6dB), and the
+output lists them. Without a plan the station's kit comes from --power,
+--gain, --height, --rx-sens … and the targets from --targets, each a
+waypoint with the kit of the --to- flags (--to-power, --to-gain,
+--to-height, --to-sens …; a 5 W handheld at 1.5 m unless they say).
 
--o F.geojson writes the candidates as points with their figures, and
-F.csv the ranking.`,
+-o F.geojson writes the candidates as points with their figures, F.csv
+the ranking, and F.png a map of the candidates numbered by rank and
+coloured by their worst margin, with the targets, over a shaded relief.
+
+` + itmHelp,
 		Example: "  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml\n" +
 			"  mastlink sites examples/valley/candidates.gpx --plan examples/valley/plan.yaml -o sites.geojson",
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runSites(cmd.Context(), g, o, args)
+			return runSites(cmd.Context(), g, cmd, o, args)
 		},
 	}
-	addReachFlags(cmd, o, "station")
+	addReachFlags(cmd, o, "station", "the plan's first station")
 	return cmd
 }
 
-func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) error {
-	return runReach(ctx, g, o, args[0], reachRun[*plan.SitesResult]{
+func runSites(ctx context.Context, g *globals, cmd *cobra.Command, o *reachOptions, args []string) error {
+	var rr *reach
+	return runReach(ctx, g, cmd, o, args[0], reachRun[*plan.SitesResult]{
 		forSites: true,
-		outKinds: []string{"geojson", "csv"},
+		outKinds: []string{"geojson", "csv", "png"},
+		warnings: func(res *plan.SitesResult) []string { return res.Warnings },
 		check: func(gf *gpx.File) error {
 			if len(gf.Waypoints) == 0 {
 				return fmt.Errorf("%s has no waypoints: give one waypoint per candidate site", gf.Path)
@@ -55,11 +64,16 @@ func runSites(ctx context.Context, g *globals, o *reachOptions, args []string) e
 			return nil
 		},
 		compute: func(ctx context.Context, r *reach, gf *gpx.File, progress plan.Progress) (*plan.SitesResult, error) {
+			rr = r
 			return r.env.RankSites(ctx, plan.SitesRequest{Candidates: gf.Waypoints, Station: r.kit, Targets: r.targets, NeededMarginDB: r.needDB, Mast: r.mast}, progress)
 		},
+		note: func(res *plan.SitesResult, def bool, whatIf []string) { res.DefaultMargin, res.WhatIf = def, whatIf },
 		write: func(kind string, inputs []string, res *plan.SitesResult) error {
-			if kind == "geojson" {
+			switch kind {
+			case "geojson":
 				return renderTo(g.out, inputs, func(w io.Writer) error { return writeJSON(w, sitesGeoJSON(res)) })
+			case "png":
+				return renderTo(g.out, inputs, func(w io.Writer) error { return sitesMap(w, res, rr.targets, rr.env.Terrain, g.imperial()) })
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
 		},
@@ -74,7 +88,8 @@ func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
 	if n := len(s.MastHeightsM); n > 0 {
 		mast = fmt.Sprintf("masts of %s to %s", units.FormatHeight(s.MastHeightsM[0], im), units.FormatHeight(s.MastHeightsM[n-1], im))
 	}
-	fmt.Fprintf(w, "Candidate sites for %s (%.1f dB of margin needed both ways; %s)\n", s.Station, s.NeededMarginDB, mast)
+	fmt.Fprintf(w, "Candidate sites for %s (%.1f dB of margin needed both ways%s; %s)\n", s.Station, s.NeededMarginDB, defaultNote(s.DefaultMargin), mast)
+	renderWhatIf(w, s.WhatIf)
 	t := newTable(w)
 	t.row("  rank", "site", "ground", "worst margin", "worst link", "reaches", "lowest mast")
 	for _, c := range s.Sites {

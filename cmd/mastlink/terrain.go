@@ -7,26 +7,47 @@ import (
 	"github.com/mastlink/mastlink/terrain"
 )
 
-// openTerrain opens the elevation data named by --dem / MASTLINK_DEM (and
-// extra paths, e.g. from a plan file). It returns nil when none is given;
-// callers then work over a smooth earth and say so.
-func (g *globals) openTerrain(extra ...string) (*terrain.Set, error) {
-	var paths []string
-	for _, p := range strings.Split(g.dem, ",") {
-		if p = strings.TrimSpace(p); p != "" {
-			paths = append(paths, p)
+// terrainSource is elevation data given somewhere other than --dem (a plan
+// file's terrain: line): its paths, and how errors about them start
+// ("plan.yaml:4: terrain").
+type terrainSource struct {
+	paths []string
+	where string
+}
+
+// openTerrain opens the elevation data named by --dem / MASTLINK_DEM and
+// by extra (e.g. a plan file's terrain: line). It returns nil when none is
+// given; callers then work over a smooth earth and say so. An error names
+// --dem when the --dem paths are at fault, else extra's place.
+func (g *globals) openTerrain(extra ...terrainSource) (*terrain.Set, error) {
+	dem := g.demPaths()
+	paths := append([]string(nil), dem...)
+	where := "--dem"
+	for _, x := range extra {
+		if len(x.paths) > 0 {
+			paths = append(paths, x.paths...)
+			where = x.where
 		}
 	}
-	paths = append(paths, extra...)
 	if len(paths) == 0 {
 		return nil, nil
 	}
+	if len(dem) > 0 && len(paths) > len(dem) {
+		// Open --dem alone first, so a bad --dem is blamed on --dem.
+		s, err := terrain.Open(dem...)
+		if err != nil {
+			return nil, fmt.Errorf("--dem: %w", err)
+		}
+		if s.Len() == 0 {
+			return nil, fmt.Errorf("--dem: no elevation files (.hgt, .hgt.zip, .hgt.gz, .tif) in %s", strings.Join(dem, ", "))
+		}
+	}
 	s, err := terrain.Open(paths...)
 	if err != nil {
-		return nil, fmt.Errorf("--dem: %w", err)
+		return nil, fmt.Errorf("%s: %w", where, err)
 	}
 	if s.Len() == 0 {
-		return nil, fmt.Errorf("--dem: no elevation files (.hgt, .hgt.zip, .hgt.gz, .tif) in %s", strings.Join(paths, ", "))
+		return nil, fmt.Errorf("%s: no elevation files (.hgt, .hgt.zip, .hgt.gz, .tif) in %s", where, strings.Join(paths, ", "))
 	}
 	for _, err := range s.Skipped() {
 		fmt.Fprintf(g.stderr, "mastlink: warning: skipped %v\n", err)

@@ -364,7 +364,8 @@ func ParseSWR(s string) (float64, error) {
 }
 
 // ParseDuration parses a duration such as a transmit or listen period: units
-// s (sec), min (m) and h (hr); "m" is minutes here and only here. A bare
+// s (sec), min and h (hr). "m" is refused (ErrUnit) with a hint: it means
+// metres everywhere else, so "2m" is never read as two minutes. A bare
 // number is rejected (ErrUnit) because seconds and minutes are both common
 // for transmit cycles and guessing wrong changes an exposure figure fivefold
 // or more. The duration must be from 0 to MaxDuration (ErrRange).
@@ -377,8 +378,10 @@ func ParseDuration(s string) (time.Duration, error) {
 	switch strings.ToLower(unit) {
 	case "s", "sec":
 		f = time.Second
-	case "m", "min":
+	case "min":
 		f = time.Minute
+	case "m":
+		return 0, qerr(KindDuration, s, ErrUnit, "m is metres; write %smin for minutes (durations take s, min or h)", strconv.FormatFloat(v, 'f', -1, 64))
 	case "h", "hr":
 		f = time.Hour
 	case "":

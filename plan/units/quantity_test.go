@@ -210,7 +210,10 @@ func TestParseDuration(t *testing.T) {
 		err  error
 		msg  string
 	}{
-		{name: "m is minutes", in: "2m", want: 2 * time.Minute},
+		// "m" is metres in every other quantity: as a duration it is
+		// refused with the unit to use, never taken as minutes.
+		{name: "m is metres", in: "2m", err: ErrUnit, msg: `"2m": m is metres; write 2min for minutes (durations take s, min or h)`},
+		{name: "m with a fraction", in: "1.5 m", err: ErrUnit, msg: `"1.5 m": m is metres; write 1.5min for minutes (durations take s, min or h)`},
 		{name: "min", in: "2min", want: 2 * time.Minute},
 		{name: "seconds", in: "30s", want: 30 * time.Second},
 		{name: "fraction", in: "1.5 min", want: 90 * time.Second},
