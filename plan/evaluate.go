@@ -26,13 +26,25 @@ type StationSummary struct {
 }
 
 // StationExposure is a station's RF-exposure evaluation at the frequency
-// where its keep-out is largest.
+// where its keep-out is largest, for one configuration of its mast and
+// cable: the station as planned, or the mast sweep's recommendation.
 type StationExposure struct {
 	Station string  `json:"station"`
 	Lat     float64 `json:"lat"`
 	Lon     float64 `json:"lon"`
+	// Configuration is ConfigPlanned or ConfigRecommended.
+	Configuration string `json:"configuration"`
+	// Cable and CableLengthM are the feedline of this configuration.
+	Cable        string  `json:"cable"`
+	CableLengthM float64 `json:"cable_length_m"`
 	exposure.Report
 }
+
+// The configurations of StationExposure.
+const (
+	ConfigPlanned     = "planned"     // the station's own antenna height and feedline
+	ConfigRecommended = "recommended" // the mast sweep's recommended height and cable
+)
 
 // PlanResult is the outcome of a whole plan.
 type PlanResult struct {
@@ -48,6 +60,7 @@ type PlanResult struct {
 	Sites            *SitesResult      `json:"sites,omitempty"`  // see EvaluatePlanSites
 	Warnings         []string          `json:"warnings"`
 	MeetsRequirement bool              `json:"meets_requirement"` // every required link of every station
+	Cautions         []string          `json:"cautions"`          // exposure.Cautions: RF exposure and masts
 }
 
 // Progress is told how far a long evaluation has come: done of total units.
@@ -72,7 +85,7 @@ func (p *Plan) NewEnv(ts *terrain.Set) *Env {
 // other stations. Profiles are extracted once per station–target pair.
 func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*PlanResult, error) {
 	res := &PlanResult{Name: p.Name, NeededMarginDB: p.Require.NeededMarginDB(), DefaultMargin: p.Require.Default, MeetsRequirement: true,
-		Warnings: []string{}, Links: []LinkResult{}, Exposure: []StationExposure{}}
+		Warnings: []string{}, Links: []LinkResult{}, Exposure: []StationExposure{}, Cautions: exposure.Cautions()}
 	need := res.NeededMarginDB
 	ns, nt := len(p.Stations), len(p.Targets)
 	if ns > 1 && !(p.FreqMHz > 0) {
@@ -185,6 +198,19 @@ func EvaluatePlan(ctx context.Context, p *Plan, env *Env, progress Progress) (*P
 			if ns > 1 {
 				res.Masts = append(res.Masts, m)
 			}
+			// The recommendation changes the antenna height or the cable, and
+			// with them the keep-out: report it at that configuration too.
+			if r := m.Recommended; r != nil && (r.HeightM != st.Antenna.HeightM || r.Cable != st.Feedline.Cable.Name || r.CableLengthM != st.Feedline.LengthM) {
+				rs := st
+				rs.Antenna.HeightM = r.HeightM
+				rs.Feedline = mastFeedline(st.Feedline, m.cable(r.Cable, p.Mast), r.HeightM, p.Mast)
+				ex, err := stationExposure(p, rs)
+				if err != nil {
+					return nil, fmt.Errorf("%s: exposure: %w", st.Name, err)
+				}
+				ex.Configuration = ConfigRecommended
+				res.Exposure = append(res.Exposure, ex)
+			}
 		}
 	}
 	return res, nil
@@ -222,15 +248,31 @@ func (e *Env) targetLinks(g *Geometry, st End, tg Target, needDB float64) ([]Lin
 	return out, nil
 }
 
-// stationExposure evaluates a station's RF exposure at each frequency it
-// transmits on and keeps the one with the largest public keep-out.
+// stationExposure evaluates a station's RF exposure, as configured, at each
+// frequency it transmits on to the plan's targets (the plan's frequency
+// when it has none) and keeps the one with the largest public compliance
+// distance.
 func stationExposure(p *Plan, st Station) (StationExposure, error) {
+	best, err := stationExposureReport(st, p.Targets, p.FreqMHz, len(p.Stations) > 1)
+	if err != nil {
+		return StationExposure{}, err
+	}
+	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), Configuration: ConfigPlanned,
+		Cable: st.Feedline.Cable.Name, CableLengthM: st.Feedline.LengthM, Report: best}, nil
+}
+
+// stationExposureReport is exposure.Evaluate for st (its power, gain,
+// antenna height, feedline loss and exposure habits) at each frequency it
+// transmits on to targets (and freqMHz when there are none, or when
+// stations call each other on it), keeping the one with the largest public
+// compliance distance.
+func stationExposureReport(st Station, targets []Target, freqMHz float64, stationsCall bool) (exposure.Report, error) {
 	freqs := map[float64]bool{}
-	for _, t := range p.Targets {
+	for _, t := range targets {
 		freqs[t.directions()[0].freqMHz] = true // the station transmits
 	}
-	if (len(freqs) == 0 || len(p.Stations) > 1) && p.FreqMHz > 0 {
-		freqs[p.FreqMHz] = true // the stations call each other on it
+	if (len(freqs) == 0 || stationsCall) && freqMHz > 0 {
+		freqs[freqMHz] = true // the stations call each other on it
 	}
 	list := make([]float64, 0, len(freqs))
 	for f := range freqs {
@@ -244,19 +286,19 @@ func stationExposure(p *Plan, st Station) (StationExposure, error) {
 		in.PowerW, in.GainDBi, in.FreqMHz, in.AntennaHeightM = st.Radio.PowerW, st.Antenna.GainDBi, f, st.Antenna.HeightM
 		fl, err := st.Feedline.Loss(f)
 		if err != nil {
-			return StationExposure{}, err
+			return exposure.Report{}, err
 		}
 		in.FeedlineLossDB = fl.TotalLossDB
 		r, err := exposure.Evaluate(in)
 		if err != nil {
-			return StationExposure{}, err
+			return exposure.Report{}, err
 		}
 		if !found || r.DistancePublicM > best.DistancePublicM {
 			best, found = r, true
 		}
 	}
 	if !found {
-		return StationExposure{}, fmt.Errorf("no transmit frequency: give the plan a frequency")
+		return exposure.Report{}, fmt.Errorf("no transmit frequency: give the plan a frequency")
 	}
-	return StationExposure{Station: st.Name, Lat: st.Pos.Lat(), Lon: st.Pos.Lon(), Report: best}, nil
+	return best, nil
 }

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/mastlink/mastlink/plan/antenna"
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/propagation"
 )
@@ -20,6 +21,13 @@ type MastRow struct {
 	WorstMarginDB    float64 `json:"worst_margin_db"`
 	WorstLink        string  `json:"worst_link"` // "target (direction)"
 	MeetsRequirement bool    `json:"meets_requirement"`
+	// KeepoutPublicM is the public RF-exposure keep-out radius in metres
+	// around the mast foot at this height and cable (exposure.Evaluate with
+	// the station's exposure habits, at its worst transmit frequency).
+	KeepoutPublicM float64 `json:"keepout_public_m"`
+	// OverKeepoutLimit is true when KeepoutPublicM exceeds the sweep's
+	// keep-out limit; such a row is never recommended.
+	OverKeepoutLimit bool `json:"over_keepout_limit"`
 }
 
 // MastChoice names a mast height and cable.
@@ -33,14 +41,30 @@ type MastChoice struct {
 
 // MastResult is a mast-and-cable sweep for one station.
 type MastResult struct {
-	Station        string      `json:"station"`
-	NeededMarginDB float64     `json:"needed_margin_db"`
-	RunM           float64     `json:"run_m"`
-	SlackM         float64     `json:"slack_m"`
-	Rows           []MastRow   `json:"rows"`
-	Recommended    *MastChoice `json:"recommended"`        // null when nothing meets the requirement
-	Closest        *MastRow    `json:"closest"`            // the best worst margin when nothing meets it
-	Warnings       []string    `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
+	Station        string  `json:"station"`
+	NeededMarginDB float64 `json:"needed_margin_db"`
+	RunM           float64 `json:"run_m"`
+	SlackM         float64 `json:"slack_m"`
+	// KeepoutLimitM is the largest public keep-out radius allowed, in
+	// metres; 0 (left out) when the sweep has no limit.
+	KeepoutLimitM float64     `json:"keepout_limit_m,omitempty"`
+	Rows          []MastRow   `json:"rows"`
+	Recommended   *MastChoice `json:"recommended"`        // null when nothing meets the requirement within the keep-out limit
+	Closest       *MastRow    `json:"closest"`            // the best worst margin (within the keep-out limit if any row is) when nothing is recommended
+	Warnings      []string    `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
+	// Cautions are exposure.MastCautions, always present.
+	Cautions []string `json:"cautions"`
+}
+
+// cable returns the cable of the sweep named name (the sweep's cables are
+// distinct by name).
+func (m *MastResult) cable(name string, sweep *MastSweep) feedline.Cable {
+	for _, c := range sweep.Cables {
+		if c.Name == name {
+			return c
+		}
+	}
+	return feedline.Cable{Name: name}
 }
 
 // SweepMast evaluates a station against targets for every mast height and
@@ -48,11 +72,14 @@ type MastResult struct {
 // antenna height + run + slack). For each combination the worst margin over
 // the required links in both directions is kept. The recommendation is the
 // lowest mast that meets the requirement, then the lightest cable (mass per
-// metre × length) at that height. When m lists antennas, each is tried in
-// place of the station's (catalog gain and pattern, the station's bearing)
-// and the recommendation takes the lowest mast, then the first antenna in
-// m's order, then the lightest cable. Terrain profiles are extracted once
-// per target and reused for every height.
+// metre × length) at that height, among the rows whose public RF-exposure
+// keep-out (exposure.Evaluate with the station's exposure habits, FCC OET
+// Bulletin 65 far field) is within m.KeepoutLimitM when that is set. When m
+// lists antennas, each is tried in place of the station's (catalog gain and
+// pattern, the station's bearing) and the recommendation takes the lowest
+// mast, then the first antenna in m's order, then the lightest cable.
+// Terrain profiles are extracted once per target and reused for every
+// height.
 func (e *Env) SweepMast(st Station, targets []Target, m *MastSweep, req Requirement) (*MastResult, error) {
 	geoms := make([]*Geometry, len(targets))
 	for i, t := range targets {
@@ -66,7 +93,7 @@ func (e *Env) SweepMast(st Station, targets []Target, m *MastSweep, req Requirem
 
 func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSweep, req Requirement) (*MastResult, error) {
 	need := req.NeededMarginDB()
-	res := &MastResult{Station: st.Name, NeededMarginDB: need, RunM: m.RunM, SlackM: m.SlackM}
+	res := &MastResult{Station: st.Name, NeededMarginDB: need, RunM: m.RunM, SlackM: m.SlackM, KeepoutLimitM: m.KeepoutLimitM, Cautions: exposure.MastCautions()}
 	if len(targets) == 0 {
 		return nil, fmt.Errorf("mast sweep: the plan has no targets to reach")
 	}
@@ -122,13 +149,19 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 					return nil, fmt.Errorf("mast sweep: every target is optional; mark at least one as required")
 				}
 				row.MeetsRequirement = row.WorstMarginDB >= need
+				ex, err := stationExposureReport(s, targets, 0, false)
+				if err != nil {
+					return nil, fmt.Errorf("mast sweep: %s at %g m: exposure: %w", c.Name, h, err)
+				}
+				row.KeepoutPublicM = ex.KeepoutPublicM
+				row.OverKeepoutLimit = m.KeepoutLimitM > 0 && row.KeepoutPublicM > m.KeepoutLimitM
 				res.Rows = append(res.Rows, row)
 			}
 		}
 	}
 	for i := range res.Rows {
 		r := &res.Rows[i]
-		if !r.MeetsRequirement {
+		if !r.MeetsRequirement || r.OverKeepoutLimit {
 			continue
 		}
 		rec := res.Recommended
@@ -146,7 +179,14 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 	}
 	res.Warnings = itmWarningLines(warns)
 	if res.Recommended == nil {
+		anyWithin := false
+		for _, r := range res.Rows {
+			anyWithin = anyWithin || !r.OverKeepoutLimit
+		}
 		for i := range res.Rows {
+			if anyWithin && res.Rows[i].OverKeepoutLimit {
+				continue
+			}
 			if res.Closest == nil || res.Rows[i].WorstMarginDB > res.Closest.WorstMarginDB {
 				r := res.Rows[i]
 				res.Closest = &r

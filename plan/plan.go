@@ -49,6 +49,10 @@ type MastSweep struct {
 	// the order of preference (the one you would rather carry first);
 	// none keeps the station's own.
 	Antennas []antenna.Antenna
+	// KeepoutLimitM, when above 0, is the largest public RF-exposure
+	// keep-out radius in metres the site allows (the clear space around
+	// the mast foot); rows above it are marked and never recommended.
+	KeepoutLimitM float64
 }
 
 // withType returns a with the catalog type t in place of its own (the

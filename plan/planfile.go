@@ -948,7 +948,7 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *exposure.Input) err
 }
 
 func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
-	f, err := p.fields(n, "mast", "heights", "cables", "run", "slack", "antennas")
+	f, err := p.fields(n, "mast", "heights", "cables", "run", "slack", "antennas", "keepout_limit")
 	if err != nil {
 		return nil, err
 	}
@@ -1008,6 +1008,14 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 	if c := f["slack"]; c != nil {
 		if m.SlackM, err = p.quantity(c, "mast.slack", units.ParseLengthM); err != nil {
 			return nil, err
+		}
+	}
+	if c := f["keepout_limit"]; c != nil {
+		if m.KeepoutLimitM, err = p.quantity(c, "mast.keepout_limit", units.ParseLengthM); err != nil {
+			return nil, err
+		}
+		if !(m.KeepoutLimitM > 0) {
+			return nil, p.errf(c, "mast.keepout_limit", "give the clear space around the mast foot as a length above 0 (e.g. keepout_limit: 3m)")
 		}
 	}
 	return m, nil

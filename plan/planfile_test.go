@@ -127,6 +127,8 @@ func TestBrokenPlans(t *testing.T) {
 		{"no targets", base(station), "the plan has no targets", nil},
 		{"repeater half", base(station + "targets:\n  - name: r\n    at: Corvane Peak\n    radio: {power: 50W, sensitivity: -122dBm}\n    listen: 147.78MHz\n"), "plan.yaml:9: targets[0]: a repeater needs both listen and transmit", nil},
 		{"bad mast", base(station + target + "mast: {heights: 12m..2m step 1m, cables: [RG-58]}\n"), "plan.yaml:12: mast.heights:", units.ErrRange},
+		{"keep-out limit", base(station + target + "mast: {heights: 2m..12m step 1m, cables: [RG-58], keepout_limit: 3m}\n"), "", nil},
+		{"keep-out limit zero", base(station + target + "mast: {heights: 2m..12m step 1m, cables: [RG-58], keepout_limit: 0m}\n"), "plan.yaml:12: mast.keepout_limit: give the clear space", nil},
 		// The model comes from the propagation registry, whose names the error lists.
 		{"unknown model", base("model: okumura\n" + station + target), `plan.yaml:3: model: propagation: unknown model "okumura" (known: terrain, free-space`, propagation.ErrUnknownModel},
 		{"bad polarization", base("polarization: circular\n" + station + target), `plan.yaml:3: polarization: "circular" is not vertical or horizontal`, nil},

@@ -7,6 +7,7 @@ import (
 	"sort"
 
 	"github.com/mastlink/mastlink/plan/antenna"
+	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/propagation"
@@ -67,6 +68,7 @@ type SitesResult struct {
 	Sites          []SiteResult `json:"sites"`
 	Paths          int          `json:"paths"`              // terrain profiles extracted
 	Warnings       []string     `json:"warnings,omitempty"` // the model's warnings (Longley–Rice ITM), with the number of paths
+	Cautions       []string     `json:"cautions"`           // exposure.MastCautions, always present
 }
 
 // RankSites evaluates the station's kit set up at every candidate against
@@ -166,7 +168,8 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		return nil, err
 	}
 	need := req.NeededMarginDB
-	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt, Warnings: itmWarningLines(warns)}
+	res := &SitesResult{Station: req.Station.Name, HeightM: req.Station.Antenna.HeightM, NeededMarginDB: need, MastHeightsM: heights, Paths: nc * nt,
+		Warnings: itmWarningLines(warns), Cautions: exposure.MastCautions()}
 	for c, cand := range req.Candidates {
 		s := SiteResult{Name: cand.Name, Lat: cand.Pos.Lat(), Lon: cand.Pos.Lon(), GroundM: ground[c*nt], WorstMarginDB: math.Inf(1)}
 		for t := range legs {

@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strings"
+	"strconv"
 
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
@@ -38,8 +38,11 @@ tier's window from the mode's duty factor and the worst-case time on the air.
 Limits: US 47 CFR § 1.1310 (fcc, the default), ICNIRP 2020 (icnirp2020) or
 ICNIRP 1998 (icnirp1998).
 
-With --height, the keep-out radius on the ground around the mast foot for a
-person whose head is at --head-height. With --at and -o keepout.geojson or
+With --height, the keep-out radius on the ground around the mast foot: beyond
+it no part of a person standing up to --head-height is within the compliance
+distance (the whole distance when the antenna is no higher than the head).
+Safety distances are printed rounded up. The US exemption from routine
+evaluation (47 CFR § 1.1307) is shown only with --standard fcc. With --at and -o keepout.geojson or
 keepout.gpx, the keep-out circles for a map or a GPS.
 
 This is an estimate, not a measurement; your licence conditions and local
@@ -151,11 +154,15 @@ func runExposure(ctx context.Context, g *globals, o *exposureOptions, args []str
 		}
 		fmt.Fprintf(g.stderr, "mastlink: wrote the keep-out circles to %s\n", g.out)
 	}
+	if rep.Standard != exposure.StandardFCC && o.distance != "" {
+		return usagef("--distance: the exemption from routine evaluation is the US rule 47 CFR § 1.1307(b)(3)(i)(C); use it with --standard fcc, or compare the distance with the %s compliance distances", rep.Standard)
+	}
 	return g.emit(out, func(w io.Writer) error {
+		g.cautionsToStderr(rep.Cautions)
 		return writeCSV(w, []string{"standard", "freq_mhz", "eirp_w", "duty_factor", "avg_power_public_w", "avg_power_occupational_w",
 			"limit_public_w_m2", "limit_occupational_w_m2", "distance_public_m", "distance_occupational_m", "keepout_public_m", "keepout_occupational_m"},
 			[][]string{{string(rep.Standard), f4(rep.FreqMHz), f2(rep.EIRPW), f2(rep.DutyFactor), f2(rep.AvgPowerPublicW), f2(rep.AvgPowerOccupationalW),
-				f4(rep.LimitPublicWM2), f4(rep.LimitOccupationalWM2), f2(rep.DistancePublicM), f2(rep.DistanceOccupationalM), f2(rep.KeepoutPublicM), f2(rep.KeepoutOccupationalM)}})
+				f4(rep.LimitPublicWM2), f4(rep.LimitOccupationalWM2), exact(rep.DistancePublicM), exact(rep.DistanceOccupationalM), exact(rep.KeepoutPublicM), exact(rep.KeepoutOccupationalM)}})
 	}, func(w io.Writer) error {
 		renderExposureText(w, rep, o.height != "", g.imperial())
 		if out.DistanceM != nil {
@@ -163,7 +170,7 @@ func runExposure(ctx context.Context, g *globals, o *exposureOptions, args []str
 			if !*out.ExemptAtDistance {
 				verdict = "is NOT exempt from routine evaluation: evaluate the exposure there or keep people farther away"
 			}
-			fmt.Fprintf(w, "\nFor people %s from the antenna the station %s (§ 1.1307(b)(3)(i)(C)).\n", units.FormatLength(*out.DistanceM, g.imperial()), verdict)
+			fmt.Fprintf(w, "\nFor people %s from the antenna the station %s (US 47 CFR § 1.1307(b)(3)(i)(C)).\n", units.FormatLength(*out.DistanceM, g.imperial()), verdict)
 		}
 		return nil
 	})
@@ -182,42 +189,130 @@ var standardNames = map[exposure.Standard]string{
 	exposure.StandardICNIRP1998: "ICNIRP 1998 reference levels",
 }
 
-// renderExposureText writes the exposure result for a briefing.
+// safeLength renders a safety distance in metres rounded UP to the 0.1 of
+// the unit shown (m, or ft in imperial units), never down, and never as
+// "-0.0".
+func safeLength(m float64, im bool) string {
+	ceil1 := func(v float64) float64 { return math.Max(0, math.Ceil(v*10-1e-9)/10) }
+	if !(m > 1e-9) {
+		m = 0
+	}
+	if im {
+		return fmt.Sprintf("%.1f ft", ceil1(m/units.MetresPerFoot))
+	}
+	return fmt.Sprintf("%.1f m", ceil1(m))
+}
+
+// exact renders a machine-read figure with all its digits (CSV cells of
+// safety distances keep the exact value; only display rounding goes up).
+func exact(v float64) string {
+	if math.Abs(v) < 1e-9 {
+		v = 0
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
+}
+
+// limitText renders a power-density limit in W/m², and in imperial units
+// also in mW/cm² (1 mW/cm² = 10 W/m²), the unit of 47 CFR § 1.1310.
+func limitText(wm2 float64, im bool) string {
+	if im {
+		return fmt.Sprintf("%.2f W/m² (%.3f mW/cm²)", wm2, wm2/10)
+	}
+	return fmt.Sprintf("%.2f W/m²", wm2)
+}
+
+// limitsText names the limits of a report and where they come from.
+func limitsText(r exposure.Report) string {
+	s := r.LimitsSource + " (public: general population/uncontrolled; operators: occupational/controlled)"
+	if r.LimitsFromMemory {
+		s += " (values from memory, not yet checked against the published table)"
+	}
+	return s
+}
+
+// cautionsToStderr writes cautions to stderr, for outputs (CSV) that have
+// no room for them on stdout.
+func (g *globals) cautionsToStderr(cautions []string) {
+	for _, c := range cautions {
+		fmt.Fprintf(g.stderr, "mastlink: caution: %s\n", c)
+	}
+}
+
+// writeCautions writes a "Cautions:" list.
+func writeCautions(w io.Writer, cautions []string) {
+	fmt.Fprintln(w, "Cautions:")
+	for _, c := range cautions {
+		fmt.Fprintf(w, "  - %s\n", c)
+	}
+}
+
+// renderExposureText writes the exposure result for a briefing. Every
+// safety distance is rounded up (safeLength), in the table and sentences
+// alike.
 func renderExposureText(w io.Writer, r exposure.Report, withHeight, im bool) {
-	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak (limits: %s)\n", units.FormatFreq(r.FreqMHz), r.Mode, units.FormatPower(r.EIRPW), standardNames[r.Standard])
+	fmt.Fprintf(w, "RF exposure at %s, %s, %s EIRP peak\n", units.FormatFreq(r.FreqMHz), r.Mode, units.FormatPower(r.EIRPW))
+	fmt.Fprintf(w, "Limits: %s.\n", limitsText(r))
+	fmt.Fprintf(w, "Duty factor %s for %s (%s); time on the air: the worst case in each averaging window, below.\n", percent(r.DutyFactor), r.Mode, r.DutySource)
+	fmt.Fprintf(w, "Distances: far field with ground-reflection factor %g (FCC OET Bulletin 65, ed. 97-01, eq. 6).\n", r.ReflectionFactor)
 	t := newTable(w)
 	t.row("", "public", "operators")
-	t.row("  averaging window", fmt.Sprintf("%.0f min", r.AveragingPublicS/60), fmt.Sprintf("%.0f min", r.AveragingOccupationalS/60))
+	t.row("  averaging window", minutes(r.AveragingPublicS), minutes(r.AveragingOccupationalS))
 	t.row("  worst-case time on the air", percent(r.TxFractionPublic), percent(r.TxFractionOccupational))
 	t.row("  average transmitter power", units.FormatPower(r.AvgPowerPublicW), units.FormatPower(r.AvgPowerOccupationalW))
-	t.row("  limit", fmt.Sprintf("%.2f W/m²", r.LimitPublicWM2), fmt.Sprintf("%.2f W/m²", r.LimitOccupationalWM2))
-	t.row("  distance from the antenna", units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
+	t.row("  limit", limitText(r.LimitPublicWM2, im), limitText(r.LimitOccupationalWM2, im))
+	t.row("  distance from the antenna", safeLength(r.DistancePublicM, im), safeLength(r.DistanceOccupationalM, im))
 	if withHeight {
-		t.row(fmt.Sprintf("  keep-out from the mast foot (head at %s)", units.FormatHeight(r.HeadHeightM, im)), units.FormatLength(up(r.KeepoutPublicM), im), units.FormatLength(up(r.KeepoutOccupationalM), im))
+		t.row(fmt.Sprintf("  keep-out from the mast foot (head at %s)", units.FormatHeight(r.HeadHeightM, im)), safeLength(r.KeepoutPublicM, im), safeLength(r.KeepoutOccupationalM, im))
 	}
 	t.flush()
 	fmt.Fprintln(w)
+	shown, shownName := r.DistancePublicM, "compliance distance" // the public distance the text asks people to keep
 	switch {
 	case withHeight && r.KeepoutPublicM == 0:
-		fmt.Fprintf(w, "With the antenna %s up, a standing person's head is farther than %s from it: no keep-out zone is needed on the ground.\n",
-			units.FormatHeight(r.AntennaHeightM, im), units.FormatLength(r.DistancePublicM, im))
+		fmt.Fprintf(w, "With the antenna %s up, a standing person's head is farther than the %s public compliance distance from it: no keep-out zone is needed on the ground.\n",
+			units.FormatHeight(r.AntennaHeightM, im), safeLength(r.DistancePublicM, im))
+		shown, shownName = 0, "keep-out"
 	case withHeight:
 		fmt.Fprintf(w, "Keep the public at least %s from the mast foot while transmitting (operators %s).\n",
-			units.FormatLength(up(r.KeepoutPublicM), im), units.FormatLength(up(r.KeepoutOccupationalM), im))
+			safeLength(r.KeepoutPublicM, im), safeLength(r.KeepoutOccupationalM, im))
+		if r.AntennaHeightM <= r.HeadHeightM {
+			fmt.Fprintln(w, "The antenna is no higher than a standing person's head, so the keep-out is the whole compliance distance.")
+		}
+		shown, shownName = r.KeepoutPublicM, "keep-out"
 	default:
 		fmt.Fprintf(w, "Keep the public at least %s from the antenna while transmitting (operators %s); give --height for the keep-out on the ground.\n",
-			units.FormatLength(up(r.DistancePublicM), im), units.FormatLength(up(r.DistanceOccupationalM), im))
+			safeLength(r.DistancePublicM, im), safeLength(r.DistanceOccupationalM, im))
 	}
 	if r.DistancePublicM < r.NearFieldM {
 		fmt.Fprintf(w, "The distance is inside λ/2π (%s) of the antenna, where the far-field estimate is unreliable.\n", units.FormatLength(r.NearFieldM, im))
 	}
-	fmt.Fprintf(w, "Under US 47 CFR § 1.1307(b)(3)(i)(C) (ERP %s averaged) the station is exempt from routine evaluation for people farther than %s.\n",
-		units.FormatPower(r.ERPW), units.FormatLength(r.ExemptBeyondM, im))
-	fmt.Fprintln(w, "\nCautions:")
-	for _, c := range r.Cautions {
-		fmt.Fprintf(w, "  - %s\n", c)
+	if r.Standard == exposure.StandardFCC && r.ExemptBeyondM > 0 {
+		fmt.Fprintf(w, "US 47 CFR § 1.1307(b)(3)(i)(C): with %s ERP averaged, the station is exempt from routine evaluation for people farther than %s from the antenna.\n",
+			units.FormatPower(r.ERPW), safeLength(r.ExemptBeyondM, im))
+		switch {
+		case r.ExemptBeyondM > shown && r.ExemptBeyondM <= r.NearFieldM*(1+1e-9):
+			fmt.Fprintf(w, "The exemption distance is longer than the %s %s above because the exemption rule applies only from λ/2π of the antenna outwards.\n",
+				safeLength(shown, im), shownName)
+		case r.ExemptBeyondM > shown:
+			fmt.Fprintf(w, "The exemption distance is longer than the %s %s above because the exemption is a coarse screening rule: its table matches the same limits with full ground reflection (factor 4, not %g) on the greater of ERP and transmitter power. Between the two the station is not exempt and needs an evaluation, which is what these figures are.\n",
+				safeLength(shown, im), shownName, r.ReflectionFactor)
+		}
 	}
+	fmt.Fprintln(w)
+	writeCautions(w, r.Cautions)
 }
+
+// minutes renders an averaging time, with a decimal when it is not whole.
+func minutes(s float64) string {
+	m := s / 60
+	if math.Abs(m-math.Round(m)) < 1e-9 {
+		return fmt.Sprintf("%.0f min", m)
+	}
+	return fmt.Sprintf("%.1f min", m)
+}
+
+// keepoutNote goes with every keep-out file, GeoJSON and GPX alike.
+const keepoutNote = "keep people out of this zone while transmitting; an estimate, not a measurement"
 
 // keepoutSite is a station whose keep-out circles are written.
 type keepoutSite struct {
@@ -250,14 +345,15 @@ func writeKeepout(path string, inputs []string, sites []keepoutSite) error {
 				if err != nil {
 					return err
 				}
-				rt := gpx.Track{Name: fmt.Sprintf("%s keep-out (%s) %.1f m", s.name, tier.name, up(tier.r))}
+				rt := gpx.Track{Name: fmt.Sprintf("%s keep-out (%s) %s", s.name, tier.name, safeLength(tier.r, false))}
 				for _, p := range poly[0] {
 					rt.Points = append(rt.Points, gpx.Place{Pos: p, ElevM: math.NaN()})
 				}
 				out.Routes = append(out.Routes, rt)
 			}
 			out.Waypoints = append(out.Waypoints, gpx.Place{Name: s.name + " antenna", Pos: s.pos, ElevM: math.NaN(),
-				Description: fmt.Sprintf("keep the public %.1f m away while transmitting", up(s.rep.KeepoutPublicM))})
+				Description: fmt.Sprintf("keep the public %s from the mast foot while transmitting (operators %s); %s",
+					safeLength(s.rep.KeepoutPublicM, false), safeLength(s.rep.KeepoutOccupationalM, false), keepoutNote)})
 		}
 		b, err := gpx.Encode(out)
 		if err != nil {
@@ -287,11 +383,11 @@ func keepoutGeoJSON(sites []keepoutSite) (*geojson.FeatureCollection, error) {
 			f := geojson.NewFeature(geom)
 			f.Properties["station"] = s.name
 			f.Properties["tier"] = tier.name
-			f.Properties["keepout_m"] = round2(tier.r)
-			f.Properties["distance_m"] = round2(tier.d)
+			f.Properties["keepout_m"] = tier.r // exact; displays round it up
+			f.Properties["distance_m"] = tier.d
 			f.Properties["standard"] = string(s.rep.Standard)
 			f.Properties["freq_mhz"] = s.rep.FreqMHz
-			f.Properties["note"] = strings.TrimSpace("keep people out of this zone while transmitting; an estimate, not a measurement")
+			f.Properties["note"] = keepoutNote
 			fc.Append(f)
 		}
 	}

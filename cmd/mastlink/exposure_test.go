@@ -5,6 +5,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -157,5 +158,152 @@ func TestExposureKeepoutFiles(t *testing.T) {
 	r := g.Tracks[0].Points
 	if r[0].Pos != r[len(r)-1].Pos {
 		t.Errorf("keep-out route is not closed")
+	}
+}
+
+// TestExposureLowAntenna: with the antenna on the ground a standing
+// person's legs are level with it, so the public keep-out is the whole
+// compliance distance, 2.89 m for 50 W FM into 2.15 dBi at 146 MHz (FCC OET
+// Bulletin 65 eq. 6 with the 47 CFR § 1.1310 Table 1 limit), printed
+// rounded up as 2.9 m in the table and the sentence alike.
+func TestExposureLowAntenna(t *testing.T) {
+	out, stderr, code := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146", "--height", "0m", "--format", "json")
+	if code != 0 {
+		t.Fatal(stderr)
+	}
+	m := decodeJSON(t, out)
+	if k, d := m["keepout_public_m"].(float64), m["distance_public_m"].(float64); k != d || math.Abs(k-2.8906) > 1e-3 {
+		t.Errorf("keep-out %g m, distance %g m; want both 2.89 m", k, d)
+	}
+	out, _, _ = runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146", "--height", "0m")
+	for _, want := range []string{"keep-out from the mast foot (head at 2.0 m)  2.9 m", "Keep the public at least 2.9 m from the mast foot"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+// TestExposureRoundsUp: every printed safety distance is rounded up. 0.6 W
+// continuous into 0 dBi at 146 MHz: the § 1.1307(b)(3)(i)(C) exemption
+// distance is max(ERP, power)/3.83 = √(0.6/3.83) = 0.3958 m → "0.4 m";
+// 12.5 W: √(12.5/3.83) = 1.8066 m → "1.9 m", never "1.8 m" [calc].
+func TestExposureRoundsUp(t *testing.T) {
+	for _, c := range []struct{ power, want, not string }{
+		{"12.5W", "farther than 1.9 m", "1.8 m from the antenna"},
+		{"0.6W", "farther than 0.4 m", "farther than 0.3 m"},
+	} {
+		out, stderr, code := runCmd(t, "exposure", "--power", c.power, "--freq", "146")
+		if code != 0 {
+			t.Fatal(stderr)
+		}
+		if !strings.Contains(out, c.want) || strings.Contains(out, c.not) {
+			t.Errorf("%s: want %q, not %q:\n%s", c.power, c.want, c.not, out)
+		}
+	}
+	// Imperial units round up in feet: 2.8906 m = 9.4836 ft → "9.5 ft".
+	out, _, _ := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146", "--units", "imperial")
+	if !strings.Contains(out, "9.5 ft") {
+		t.Errorf("imperial distance not rounded up to 9.5 ft:\n%s", out)
+	}
+}
+
+// TestExposureNoResidues sweeps inputs through text and JSON and refuses
+// "-0", "-0.0" and exponent residues such as "2.2e-16" anywhere.
+func TestExposureNoResidues(t *testing.T) {
+	bad := regexp.MustCompile(`(^|[^0-9.])-0(\.0+)?([^0-9.]|$)|[0-9]e-[0-9]`)
+	n := 0
+	for _, std := range []string{"fcc", "icnirp2020", "icnirp1998"} {
+		for _, power := range []string{"0.001W", "1W", "50W", "1500W"} {
+			for _, height := range []string{"0m", "2m", "3.0000001m", "4.89m", "60m"} {
+				for _, freq := range []string{"1.8", "146", "446", "5800"} {
+					for _, format := range []string{"text", "json", "csv"} {
+						out, stderr, code := runCmd(t, "exposure", "--power", power, "--freq", freq, "--height", height, "--standard", std, "--format", format, "--mode", "ssb", "--on", "1min", "--off", "2min")
+						if code != 0 {
+							t.Fatalf("%s %s %s %s: %s", std, power, height, freq, stderr)
+						}
+						n++
+						if m := bad.FindString(out); m != "" {
+							t.Errorf("%s %s %s %s MHz %s: %q in\n%s", std, power, height, freq, format, m, out)
+						}
+					}
+				}
+			}
+		}
+	}
+	if n == 0 {
+		t.Fatal("no case ran")
+	}
+}
+
+// TestExposureICNIRP: the ICNIRP sets never print the US § 1.1307
+// exemption (text or JSON), name their table, and say the values are from
+// memory until checked; --distance (the US exemption test) is refused.
+func TestExposureICNIRP(t *testing.T) {
+	for _, std := range []string{"icnirp2020", "icnirp1998"} {
+		out, stderr, code := runCmd(t, "exposure", "--power", "50W", "--freq", "146", "--standard", std, "--height", "3m")
+		if code != 0 {
+			t.Fatal(stderr)
+		}
+		if strings.Contains(out, "1.1307") || strings.Contains(out, "exempt") {
+			t.Errorf("%s prints the US exemption:\n%s", std, out)
+		}
+		for _, want := range []string{"ICNIRP", "Table", "from memory"} {
+			if !strings.Contains(out, want) {
+				t.Errorf("%s text lacks %q", std, want)
+			}
+		}
+		out, _, _ = runCmd(t, "exposure", "--power", "50W", "--freq", "146", "--standard", std, "--format", "json")
+		m := decodeJSON(t, out)
+		if _, ok := m["exempt_beyond_m"]; ok {
+			t.Errorf("%s JSON has exempt_beyond_m", std)
+		}
+		if m["limits_from_memory"] != true {
+			t.Errorf("%s JSON limits_from_memory %v", std, m["limits_from_memory"])
+		}
+		if _, stderr, code := runCmd(t, "exposure", "--power", "50W", "--freq", "146", "--standard", std, "--distance", "5m"); code != 2 || !strings.Contains(stderr, "--distance") {
+			t.Errorf("%s --distance: code %d, %s", std, code, stderr)
+		}
+	}
+	// With the US limits the exemption is printed, and explained where it
+	// reaches beyond the keep-out (3.7 m against 2.9 m here).
+	out, _, _ := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146")
+	if !strings.Contains(out, "farther than 3.7 m") || !strings.Contains(out, "The exemption distance is longer than the 2.9 m compliance distance above") {
+		t.Errorf("US exemption or its explanation missing:\n%s", out)
+	}
+}
+
+// TestExposureDutyAndUnits: the text shows the duty factor and where it
+// comes from (FCC OET Bulletin 65 Supplement B Table 2; ssb-processed marked
+// typical), and imperial units add mW/cm² (1 mW/cm² = 10 W/m²; 0.2 mW/cm²
+// at 146 MHz, 47 CFR § 1.1310 Table 1).
+func TestExposureDutyAndUnits(t *testing.T) {
+	out, _, _ := runCmd(t, "exposure", "--power", "100W", "--freq", "14.2", "--mode", "ssb-processed")
+	if !strings.Contains(out, "Duty factor 50 % for ssb-processed (typical") {
+		t.Errorf("ssb-processed duty not shown as typical:\n%s", out)
+	}
+	out, _, _ = runCmd(t, "exposure", "--power", "100W", "--freq", "14.2", "--mode", "ssb")
+	if !strings.Contains(out, "Duty factor 20 % for ssb (FCC OET Bulletin 65 Supplement B (ed. 97-01), Table 2)") {
+		t.Errorf("ssb duty source missing:\n%s", out)
+	}
+	out, _, _ = runCmd(t, "exposure", "--power", "5W", "--freq", "146", "--units", "imperial")
+	if !strings.Contains(out, "2.00 W/m² (0.200 mW/cm²)") || !strings.Contains(out, "10.00 W/m² (1.000 mW/cm²)") {
+		t.Errorf("imperial limits lack mW/cm²:\n%s", out)
+	}
+}
+
+// TestExposureCSVCautions: CSV has no room for the cautions, so they go to
+// stderr; the keep-out GPX carries the same note as the GeoJSON.
+func TestExposureCSVCautions(t *testing.T) {
+	_, stderr, code := runCmd(t, "exposure", "--power", "5W", "--freq", "146", "--format", "csv")
+	if code != 0 || !strings.Contains(stderr, "not a measurement") || !strings.Contains(stderr, "power line") {
+		t.Errorf("CSV cautions not on stderr: %q", stderr)
+	}
+	gp := filepath.Join(t.TempDir(), "keepout.gpx")
+	if _, stderr, code := runCmd(t, "exposure", "--power", "50W", "--gain", "2.15dBi", "--freq", "146.52", "--height", "3m", "--at", "-48.535,-123.9633", "-o", gp); code != 0 {
+		t.Fatal(stderr)
+	}
+	b, _ := os.ReadFile(gp)
+	if !strings.Contains(string(b), "an estimate, not a measurement") {
+		t.Errorf("keep-out GPX lacks the note:\n%s", b)
 	}
 }

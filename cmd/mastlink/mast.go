@@ -19,6 +19,9 @@ import (
 func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	fmt.Fprintf(w, "Mast and cable for %s (cable = mast height + %s run + %s slack; worst margin over every required link, * meets %.1f dB)\n",
 		m.Station, units.FormatLength(m.RunM, im), units.FormatLength(m.SlackM, im), m.NeededMarginDB)
+	if m.KeepoutLimitM > 0 {
+		fmt.Fprintf(w, "  ! public RF-exposure keep-out wider than the %s limit around the mast foot: not recommended\n", units.FormatLength(m.KeepoutLimitM, im))
+	}
 	var cables []string
 	seen := map[string]bool{}
 	heights := []float64{}
@@ -52,7 +55,10 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 			if r.MeetsRequirement {
 				mark = "*"
 			}
-			row = append(row, fmt.Sprintf("%+.1f dB%s", r.WorstMarginDB, mark))
+			if r.OverKeepoutLimit {
+				mark += "!"
+			}
+			row = append(row, db(r.WorstMarginDB)+mark)
 		}
 		t.row(row...)
 	}
@@ -67,18 +73,22 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 		fmt.Fprintf(w, "Recommended: a %s mast%s with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), ant, units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
 	case m.Closest != nil:
 		c := m.Closest
-		fmt.Fprintf(w, "Nothing in the sweep meets the requirement. Closest: %s mast with %s, worst margin %+.1f dB on %s (%.1f dB short).\n\n",
-			units.FormatHeight(c.HeightM, im), strings.TrimSpace(c.Antenna+" "+c.Cable), c.WorstMarginDB, c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
+		what := "Nothing in the sweep meets the requirement"
+		if m.KeepoutLimitM > 0 {
+			what += " within the keep-out limit"
+		}
+		fmt.Fprintf(w, "%s. Closest: %s mast with %s, worst margin %s on %s (%.1f dB short).\n\n",
+			what, units.FormatHeight(c.HeightM, im), strings.TrimSpace(c.Antenna+" "+c.Cable), db(c.WorstMarginDB), c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
+	default:
+		fmt.Fprintln(w)
 	}
-	fmt.Fprintln(w, strings.TrimSpace(`Raise masts only where a falling mast cannot reach a power line; guy them against wind
-and do not raise them in storms.`))
-	fmt.Fprintln(w)
 }
 
 type mastOptions struct {
 	planFile, station           string
 	heights, cables, run, slack string
 	antennas                    string
+	keepoutLimit                string
 	from, to, freq              string
 	envFlags                                            // --k, --model (and the ITM's settings), --polarization, --ground, --step
 	station0, target            endFlags                // the station's kit (power, gain, sens, swr, connectors) and the target's (--to-…)
@@ -122,6 +132,7 @@ With --plan the station, targets and requirement come from a plan file
 	f.StringVar(&o.cables, "cables", "", "cables to try, comma separated (names as mastlink feedline --list shows them)")
 	f.StringVar(&o.run, "run", "", "cable from the mast foot to the radio [m]")
 	f.StringVar(&o.slack, "slack", "", "extra cable for loops and the mast head [m] (default 1m)")
+	f.StringVar(&o.keepoutLimit, "keepout-limit", "", "clear space around the mast foot [m]: rows whose public RF-exposure keep-out is wider are marked and not recommended")
 	f.StringVar(&o.req.Margin, "margin", "", fmt.Sprintf("required fade margin [dB] (default: the plan's, else %g dB)", plan.DefaultMarginDB))
 	f.StringVar(&o.req.Reliability, "reliability", "", "required fraction of locations, e.g. 90%")
 	f.StringVar(&o.req.Sigma, "sigma", "5.5dB", "location variability σ [dB] used with --reliability")
@@ -263,6 +274,14 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 			return err
 		}
 	}
+	if o.keepoutLimit != "" {
+		if sweep.KeepoutLimitM, err = quantity("keepout-limit", o.keepoutLimit, units.ParseLengthM); err != nil {
+			return err
+		}
+		if !(sweep.KeepoutLimitM > 0) {
+			return usagef("--keepout-limit: give the clear space around the mast foot as a length above 0, e.g. 3m")
+		}
+	}
 	if sweep.Heights.Len() == 0 || sweep.Heights.ToM == 0 {
 		return usagef("--heights: give the mast heights to try (e.g. '2m..12m step 1m')")
 	}
@@ -312,14 +331,20 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 			return err
 		}
 	}
-	return g.emit(res, func(w io.Writer) error { return writeMastCSV(w, res) },
-		func(w io.Writer) error { renderMastText(w, res, g.imperial()); return nil })
+	return g.emit(res, func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeMastCSV(w, res) },
+		func(w io.Writer) error {
+			renderMastText(w, res, g.imperial())
+			writeCautions(w, res.Cautions)
+			return nil
+		})
 }
 
 func writeMastCSV(w io.Writer, m *plan.MastResult) error {
 	rows := make([][]string, len(m.Rows))
 	for i, r := range m.Rows {
-		rows[i] = []string{f2(r.HeightM), r.Cable, f2(r.CableLengthM), f2(r.CableMassKg), f2(r.FeedlineLossDB), f2(r.WorstMarginDB), r.WorstLink, fmt.Sprint(r.MeetsRequirement), r.Antenna}
+		rows[i] = []string{f2(r.HeightM), r.Cable, f2(r.CableLengthM), f2(r.CableMassKg), f2(r.FeedlineLossDB), f2(r.WorstMarginDB), r.WorstLink, fmt.Sprint(r.MeetsRequirement),
+			exact(r.KeepoutPublicM), fmt.Sprint(r.OverKeepoutLimit), r.Antenna}
 	}
-	return writeCSV(w, []string{"height_m", "cable", "cable_length_m", "cable_mass_kg", "feedline_loss_db", "worst_margin_db", "worst_link", "meets_requirement", "antenna"}, rows)
+	return writeCSV(w, []string{"height_m", "cable", "cable_length_m", "cable_mass_kg", "feedline_loss_db", "worst_margin_db", "worst_link", "meets_requirement",
+		"keepout_public_m", "over_keepout_limit", "antenna"}, rows)
 }

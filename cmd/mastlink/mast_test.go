@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -156,4 +157,79 @@ func shellWords(t *testing.T, s string) []string {
 		words = append(words, cur.String())
 	}
 	return words
+}
+
+// TestMastAndSitesCautions: mast and site advice carries the mast cautions
+// (power lines, guying as the maker specifies, storms and lightning, local
+// rules and permits) in text, in JSON cautions[], and on stderr with CSV
+// [common practice].
+func TestMastAndSitesCautions(t *testing.T) {
+	wants := []string{"power line", "as their maker specifies", "lightning", "permit"}
+	for _, args := range [][]string{
+		{"mast", "--plan", demoPlanFile},
+		{"sites", demoCandidates, "--plan", demoPlanFile},
+	} {
+		out, stderr, code := runCmd(t, args...)
+		if code != 0 {
+			t.Fatal(stderr)
+		}
+		for _, w := range wants {
+			if !strings.Contains(out, w) {
+				t.Errorf("%s text lacks %q", args[0], w)
+			}
+		}
+		out, _, _ = runCmd(t, append(args, "--format", "json")...)
+		c, _ := decodeJSON(t, out)["cautions"].([]any)
+		joined := fmt.Sprint(c...)
+		for _, w := range wants {
+			if !strings.Contains(joined, w) {
+				t.Errorf("%s JSON cautions lack %q: %v", args[0], w, c)
+			}
+		}
+		out, stderr, _ = runCmd(t, append(args, "--format", "csv")...)
+		for _, w := range wants {
+			if !strings.Contains(stderr, w) || strings.Contains(out, w) {
+				t.Errorf("%s CSV: %q not on stderr only", args[0], w)
+			}
+		}
+	}
+}
+
+// TestMastKeepoutLimitFlag: the demo station (25 W FM, 50 % on the air,
+// 2.15 dBi) has a public keep-out of about 1.4 m on masts up to head height
+// (FCC OET Bulletin 65 eq. 6 with 47 CFR § 1.1310 Table 1): a 1 m limit
+// marks those rows with "!" (explained in a legend line), and the
+// recommendation is a mast whose keep-out is within it.
+func TestMastKeepoutLimitFlag(t *testing.T) {
+	out, stderr, code := runCmd(t, "mast", "--plan", demoPlanFile, "--keepout-limit", "1m", "--format", "json")
+	if code != 0 {
+		t.Fatal(stderr)
+	}
+	m := decodeJSON(t, out)
+	if m["keepout_limit_m"] != 1.0 {
+		t.Errorf("keepout_limit_m %v", m["keepout_limit_m"])
+	}
+	over := 0
+	for _, r := range m["rows"].([]any) {
+		row := r.(map[string]any)
+		if row["over_keepout_limit"] != (row["keepout_public_m"].(float64) > 1) {
+			t.Errorf("row %v", row)
+		}
+		if row["over_keepout_limit"] == true {
+			over++
+		}
+	}
+	if over == 0 {
+		t.Error("no row over the 1 m limit")
+	}
+	if rec, ok := m["recommended"].(map[string]any); !ok || rec["height_m"].(float64) < 3 {
+		t.Errorf("recommended %v, want a mast above 3 m (keep-out within 1 m)", m["recommended"])
+	}
+	out, _, _ = runCmd(t, "mast", "--plan", demoPlanFile, "--keepout-limit", "1m")
+	if !strings.Contains(out, "! public RF-exposure keep-out wider than the 1.0 m limit") || !strings.Contains(out, "*!") && !strings.Contains(out, " !") {
+		t.Errorf("text lacks the marker or its legend:\n%s", out)
+	}
+	if _, stderr, code := runCmd(t, "mast", "--plan", demoPlanFile, "--keepout-limit", "0m"); code != 2 || !strings.Contains(stderr, "--keepout-limit") {
+		t.Errorf("--keepout-limit 0m: code %d, %s", code, stderr)
+	}
 }

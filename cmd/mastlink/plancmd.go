@@ -12,7 +12,6 @@ import (
 	"time"
 
 	"github.com/mastlink/mastlink/plan"
-	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/mastlink/mastlink/propagation"
@@ -108,7 +107,7 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 			fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(maps, ", "), g.out)
 		}
 	}
-	return g.emit(res, func(w io.Writer) error { return writeLinksCSV(w, res.Links) },
+	return g.emit(res, func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeLinksCSV(w, res.Links) },
 		func(w io.Writer) error { renderPlanText(w, p, env, terrainFrom(g, p), res, g.imperial()); return nil })
 }
 
@@ -248,17 +247,21 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string
 		renderMastText(w, res.Mast, im)
 	}
 	renderPlanRoutesAndSites(w, res, im)
-	fmt.Fprintln(w, "RF exposure (keep people this far from the mast foot while transmitting)")
+	fmt.Fprintln(w, "RF exposure (keep people this far from the mast foot while transmitting; rounded up)")
 	t := newTable(w)
-	t.row("  station", "MHz", "EIRP", "public", "operators", "limits")
+	t.row("  station", "mast", "MHz", "EIRP", "public", "operators", "limits")
 	for _, e := range res.Exposure {
-		t.row("  "+e.Station, fmt.Sprintf("%.3f", e.FreqMHz), units.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
+		t.row("  "+exposureLabel(e), units.FormatHeight(e.AntennaHeightM, im), fmt.Sprintf("%.3f", e.FreqMHz), units.FormatPower(e.EIRPW), keepout(e.KeepoutPublicM, im), keepout(e.KeepoutOccupationalM, im), standardNames[e.Standard])
 	}
 	t.flush()
-	fmt.Fprintln(w, "\nCautions:")
-	for _, c := range exposure.Cautions() {
-		fmt.Fprintf(w, "  - %s\n", c)
+	for _, e := range res.Exposure {
+		if e.LimitsFromMemory {
+			fmt.Fprintf(w, "  %s: %s.\n", e.Station, limitsText(e.Report))
+			break
+		}
 	}
+	fmt.Fprintln(w)
+	writeCautions(w, res.Cautions)
 	if len(res.Warnings) > 0 {
 		fmt.Fprintln(w, "\nWarnings:")
 		for _, x := range res.Warnings {
@@ -273,11 +276,21 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string
 	}
 }
 
+// keepout renders a keep-out radius for the plan's table, rounded up.
 func keepout(m float64, im bool) string {
 	if m <= 0 {
 		return "none needed"
 	}
-	return units.FormatLength(up(m), im)
+	return safeLength(m, im)
+}
+
+// exposureLabel names a station's exposure row: the station as planned, or
+// with the mast sweep's recommended mast and cable.
+func exposureLabel(e plan.StationExposure) string {
+	if e.Configuration == plan.ConfigRecommended {
+		return fmt.Sprintf("%s (recommended mast, %s)", e.Station, e.Cable)
+	}
+	return e.Station
 }
 
 func clearance(l plan.LinkResult) string {
@@ -336,7 +349,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 		{"keepout.geojson", func(w io.Writer) error {
 			var sites []keepoutSite
 			for _, e := range res.Exposure {
-				sites = append(sites, keepoutSite{name: e.Station, pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
+				sites = append(sites, keepoutSite{name: exposureLabel(e), pos: orb.Point{e.Lon, e.Lat}, rep: e.Report})
 			}
 			fc, err := keepoutGeoJSON(sites)
 			if err != nil {

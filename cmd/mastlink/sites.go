@@ -77,8 +77,15 @@ func runSites(ctx context.Context, g *globals, cmd *cobra.Command, o *reachOptio
 			}
 			return renderTo(g.out, inputs, func(w io.Writer) error { return writeSitesCSV(w, res) })
 		},
-		csv:  writeSitesCSV,
-		text: func(w io.Writer, res *plan.SitesResult) error { renderSitesText(w, res, g.imperial()); return nil },
+		csv: func(w io.Writer, res *plan.SitesResult) error {
+			g.cautionsToStderr(res.Cautions)
+			return writeSitesCSV(w, res)
+		},
+		text: func(w io.Writer, res *plan.SitesResult) error {
+			renderSitesText(w, res, g.imperial())
+			writeCautions(w, res.Cautions)
+			return nil
+		},
 	})
 }
 
@@ -104,7 +111,6 @@ func renderSitesText(w io.Writer, s *plan.SitesResult, im bool) {
 			fmt.Sprintf("%d of %d", c.Reachable, c.Of), m)
 	}
 	t.flush()
-	fmt.Fprintln(w, "  Raise masts only where a falling mast cannot reach a power line; guy them against wind.")
 	fmt.Fprintln(w)
 }
 

@@ -61,17 +61,34 @@ const (
 	StandardFCC Standard = "fcc"
 	// StandardICNIRP2020 is the ICNIRP 2020 guidelines (Health Physics
 	// 118(5):483–524), Table 5 whole-body reference levels averaged over
-	// 30 minutes. The values are from memory and are to be verified against
-	// the published table.
+	// 30 minutes. The values are from memory and not yet checked against
+	// the published table; StandardSource says so for the output.
 	StandardICNIRP2020 Standard = "icnirp2020"
 	// StandardICNIRP1998 is the ICNIRP 1998 guidelines (Health Physics
-	// 74(4):494–522), Tables 6 and 7, averaged over 6 minutes (68/f^1.05
-	// minutes above 10 GHz, f in GHz). The values are from memory and are to
-	// be verified against the published tables.
+	// 74(4):494–522), Table 6 (occupational) and Table 7 (general public)
+	// reference levels, averaged over 6 minutes (68/f^1.05 minutes above
+	// 10 GHz, f in GHz). The values are from memory and not yet checked
+	// against the published tables; StandardSource says so for the output.
 	StandardICNIRP1998 Standard = "icnirp1998"
 )
 
 var exposureStandards = []Standard{StandardFCC, StandardICNIRP2020, StandardICNIRP1998}
+
+// StandardSource returns the published table a standard's limits come from
+// and whether the values in this package are from memory, not yet checked
+// against that table (true for both ICNIRP sets). An unknown standard gives
+// an empty source.
+func StandardSource(std Standard) (source string, fromMemory bool) {
+	switch std {
+	case StandardFCC, "":
+		return "US 47 CFR § 1.1310(e)(1) Table 1", false
+	case StandardICNIRP2020:
+		return "ICNIRP 2020 guidelines (Health Physics 118(5):483–524), Table 5, whole body, 30 min average", true
+	case StandardICNIRP1998:
+		return "ICNIRP 1998 guidelines (Health Physics 74(4):494–522), Tables 6 and 7", true
+	}
+	return "", false
+}
 
 // ParseStandard returns the standard named by s ("fcc",
 // "icnirp2020", "icnirp1998"; case and surrounding spaces ignored). An empty
@@ -162,7 +179,8 @@ var fccPublicBands = []exposureBand{
 }
 
 // ICNIRP 2020 Table 5, whole-body reference levels averaged over 30 min,
-// occupational [from memory, to verify]. Below 30 MHz the table gives only
+// occupational [from memory, not yet checked against the published table;
+// the local-exposure levels of Table 6 are not used]. Below 30 MHz the table gives only
 // incident field strengths (E = 660/f^0.7 V/m, H = 4.9/f A/m); their
 // plane-wave equivalent is used.
 var icnirp2020OccupationalBands = []exposureBand{
@@ -172,7 +190,8 @@ var icnirp2020OccupationalBands = []exposureBand{
 	{2000, 100000, func(float64) float64 { return 50 }}, // table runs to 300 GHz
 }
 
-// ICNIRP 2020 Table 5, general public [from memory, to verify]. Below
+// ICNIRP 2020 Table 5, general public [from memory, not yet checked against
+// the published table]. Below
 // 30 MHz: E = 300/f^0.7 V/m, H = 2.2/f A/m, plane-wave equivalent used.
 var icnirp2020PublicBands = []exposureBand{
 	{0.3, 30, func(f float64) float64 { return planeWaveWM2(300/math.Pow(f, 0.7), 2.2/f) }},
@@ -181,8 +200,8 @@ var icnirp2020PublicBands = []exposureBand{
 	{2000, 100000, func(float64) float64 { return 10 }},
 }
 
-// ICNIRP 1998 Table 7, occupational reference levels [from memory, to
-// verify]. Below 10 MHz the table gives field strengths only (0.065–1 MHz:
+// ICNIRP 1998 Table 6, occupational reference levels [from memory, not yet
+// checked against the published table]. Below 10 MHz the table gives field strengths only (0.065–1 MHz:
 // 610 V/m, 1.6/f A/m; 1–10 MHz: 610/f V/m, 1.6/f A/m); their plane-wave
 // equivalent is used.
 var icnirp1998OccupationalBands = []exposureBand{
@@ -193,8 +212,8 @@ var icnirp1998OccupationalBands = []exposureBand{
 	{2000, 100000, func(float64) float64 { return 50 }},
 }
 
-// ICNIRP 1998 Table 6, general public reference levels [from memory, to
-// verify]. Below 10 MHz: 0.15–1 MHz 87 V/m, 0.73/f A/m; 1–10 MHz
+// ICNIRP 1998 Table 7, general public reference levels [from memory, not
+// yet checked against the published table]. Below 10 MHz: 0.15–1 MHz 87 V/m, 0.73/f A/m; 1–10 MHz
 // 87/f^0.5 V/m, 0.73/f A/m; plane-wave equivalent used.
 var icnirp1998PublicBands = []exposureBand{
 	{0.3, 1, func(f float64) float64 { return planeWaveWM2(87, 0.73/f) }},
@@ -225,7 +244,7 @@ func lookupBand(table []exposureBand, freqMHz float64) float64 {
 }
 
 // icnirp1998Averaging is the ICNIRP 1998 averaging time: 6 minutes up to
-// 10 GHz, 68/f^1.05 minutes above (f in GHz) [from memory, to verify].
+// 10 GHz, 68/f^1.05 minutes above (f in GHz) [from memory, not yet checked].
 func icnirp1998Averaging(freqMHz float64) time.Duration {
 	if freqMHz <= 10000 {
 		return 6 * time.Minute
@@ -241,10 +260,10 @@ func icnirp1998Averaging(freqMHz float64) time.Duration {
 //   - StandardFCC: 47 CFR § 1.1310(e)(1) Table 1; occupational/controlled
 //     averaged over 6 min, general population/uncontrolled over 30 min.
 //   - StandardICNIRP2020: ICNIRP 2020 Table 5, both tiers over 30 min
-//     [from memory, to verify]; below 30 MHz the plane-wave equivalent of the
+//     [from memory, not yet checked]; below 30 MHz the plane-wave equivalent of the
 //     incident E and H reference levels (the stricter of E²/Z0 and Z0·H²).
 //   - StandardICNIRP1998: ICNIRP 1998 Tables 6 and 7, over 6 min (68/f^1.05
-//     min above 10 GHz) [from memory, to verify]; below 10 MHz the plane-wave
+//     min above 10 GHz) [from memory, not yet checked]; below 10 MHz the plane-wave
 //     equivalent of the E and H reference levels.
 //
 // The standard's name is read as by ParseStandard ("" is
@@ -290,13 +309,15 @@ type TxMode string
 const (
 	ModeFM           TxMode = "fm"            // FM voice, 100 %
 	ModeSSB          TxMode = "ssb"           // conversational SSB, 20 %
-	ModeSSBProcessed TxMode = "ssb-processed" // SSB with heavy speech processing, 50 %
+	ModeSSBProcessed TxMode = "ssb-processed" // SSB with heavy speech processing, 50 % (typical; see DutySource)
 	ModeCW           TxMode = "cw"            // conversational CW, 40 %
 	ModeDigital      TxMode = "digital"       // FSK, RTTY, AFSK over SSB, 100 %
 	ModeCarrier      TxMode = "carrier"       // unmodulated carrier, 100 %
 )
 
-// txModeDuty is OET Bulletin 65 Supplement B Table 2.
+// txModeDuty is OET Bulletin 65 Supplement B (ed. 97-01) Table 2, except
+// ssb-processed: 50 % is a typical, conservative figure for heavily
+// processed speech, not taken from that table (see DutySource).
 var txModeDuty = []struct {
 	mode TxMode
 	duty float64
@@ -343,6 +364,17 @@ func (m TxMode) DutyFactor() (float64, error) {
 	return 0, fmt.Errorf("%w: unknown mode %q", ErrInput, m) // not reached
 }
 
+// DutySource returns where the mode's duty factor comes from, for the
+// output: FCC OET Bulletin 65 Supplement B (ed. 97-01) Table 2 for fm, ssb,
+// cw, digital and carrier; for ssb-processed, a typical figure (50 %,
+// conservative) that is not taken from that table.
+func (m TxMode) DutySource() string {
+	if m == ModeSSBProcessed {
+		return "typical figure for heavily processed speech, conservative; not from FCC OET Bulletin 65 Supplement B Table 2"
+	}
+	return "FCC OET Bulletin 65 Supplement B (ed. 97-01), Table 2"
+}
+
 // WorstCaseOnAirFraction returns the largest fraction of any window of
 // length window that a periodic transmit/listen cycle — on for on, then off
 // for off, repeating — spends transmitting, over every placement of the
@@ -385,16 +417,39 @@ func ComplianceDistanceM(eirpAvgW, limitWM2, reflection float64) float64 {
 }
 
 // KeepOutRadiusM returns the horizontal distance in metres from the foot of
-// a mast within which a person's head, at headHeightM above the ground, is
-// closer than complianceM (m) to an antenna at antennaHeightM above the
-// ground: √(R² − (h_a − h_p)²) when R > |h_a − h_p|, else 0 (the antenna is
-// far enough above or below head height) [geometry].
+// a mast beyond which no part of a standing person — any point from the
+// ground up to the head at headHeightM — is closer than complianceM (m) to
+// an antenna at antennaHeightM above the ground [geometry]:
+//
+//   - antenna at or below head height: some part of the body is level with
+//     the antenna, so the keep-out is the whole compliance distance R;
+//   - antenna above head height: the head is the nearest point, and the
+//     keep-out is √(R² − (h_a − h_p)²), or 0 when R ≤ h_a − h_p.
+//
+// Results within 1e-9 m of 0 are returned as exactly 0.
 func KeepOutRadiusM(complianceM, antennaHeightM, headHeightM float64) float64 {
-	dh := math.Abs(antennaHeightM - headHeightM)
+	if !(complianceM > 0) {
+		return 0
+	}
+	dh := antennaHeightM - headHeightM
+	if dh <= 0 {
+		return complianceM
+	}
 	if complianceM <= dh {
 		return 0
 	}
-	return math.Sqrt(complianceM*complianceM - dh*dh)
+	// (R − Δh)(R + Δh) avoids the cancellation of R² − Δh² near R = Δh.
+	return clean(math.Sqrt((complianceM - dh) * (complianceM + dh)))
+}
+
+// clean returns v with magnitudes below 1e-9 (rounding residue, far below
+// any distance or power that matters) set to exactly +0, so that no output
+// shows "-0" or "2.2e-16".
+func clean(v float64) float64 {
+	if math.Abs(v) < 1e-9 {
+		return 0
+	}
+	return v
 }
 
 // NearFieldBoundaryM returns λ/2π in metres at freqMHz (MHz, > 0), the
@@ -472,24 +527,36 @@ func ExemptBeyondM(freqMHz, erpW float64) (float64, error) {
 	return math.Max(math.Sqrt(erpW/exemptionCoefficient(freqMHz)), NearFieldBoundaryM(freqMHz)), nil
 }
 
-// exposureCautions are returned with every report; see Cautions.
-var exposureCautions = []string{
+// rfCautions are the RF-exposure cautions; see Cautions.
+var rfCautions = []string{
 	"These distances are far-field estimates (FCC OET Bulletin 65): conservative at the distances shown, but unreliable within about λ/2π of the antenna, where near fields dominate.",
 	"This is a calculated estimate, not a measurement. Where people may come close to the antenna, have the site measured or evaluated by a qualified person.",
 	"The operator's regulatory obligations and local rules decide what is required and permitted; this estimate does not replace them.",
 	"Keep people, and yourself, out of the keep-out zone while transmitting; do not touch or stand beside the antenna while it is on the air.",
+}
+
+// mastCautions are the cautions for putting up masts; see MastCautions.
+var mastCautions = []string{
 	"Keep masts and antennas well clear of power lines: a falling mast or antenna must not be able to reach one. Contact with a power line can kill.",
-	"Guy and ballast masts against wind as their maker specifies, and lower them when strong wind is forecast.",
-	"Do not work on masts or antennas, or climb them, in storms or when lightning is possible.",
+	"Guy and ballast masts against wind as their maker specifies, and lower them when strong wind is forecast; check local rules and permits before putting one up.",
+	"Do not raise, work on or climb masts or antennas in storms or when lightning is possible.",
 }
 
 // Cautions returns the cautions to show with every RF-exposure
 // result (a new slice each call): the limits of a far-field estimate, that
 // it is not a measurement, that the operator's obligations and local rules
-// decide, keeping people out of the zone, and mast safety near power lines,
-// in wind and in storms.
+// decide, keeping people out of the zone, and then MastCautions.
 func Cautions() []string {
-	return append([]string(nil), exposureCautions...)
+	out := append([]string(nil), rfCautions...)
+	return append(out, mastCautions...)
+}
+
+// MastCautions returns the cautions to show with every mast or site advice
+// (a new slice each call): power lines within a falling mast's reach,
+// guying and ballast as the maker specifies, wind, storms and lightning,
+// and local rules and permits [common practice].
+func MastCautions() []string {
+	return append([]string(nil), mastCautions...)
 }
 
 // Input describes one transmitting station for Evaluate.
@@ -537,6 +604,11 @@ type Input struct {
 type Report struct {
 	// Standard is the limit set used.
 	Standard Standard `json:"standard"`
+	// LimitsSource names the published table of the limits
+	// (StandardSource); LimitsFromMemory is true while the values are from
+	// memory and not yet checked against it.
+	LimitsSource     string `json:"limits_source"`
+	LimitsFromMemory bool   `json:"limits_from_memory"`
 	// Mode is the emission mode used.
 	Mode TxMode `json:"mode"`
 	// FreqMHz is the transmit frequency in MHz.
@@ -545,6 +617,9 @@ type Report struct {
 	EIRPW float64 `json:"eirp_w"`
 	// DutyFactor is the mode's duty factor, or the override, 0–1.
 	DutyFactor float64 `json:"duty_factor"`
+	// DutySource says where DutyFactor comes from (TxMode.DutySource, or
+	// "given" for an override).
+	DutySource string `json:"duty_factor_source"`
 	// TxFractionPublic and TxFractionOccupational are the worst-case on-air
 	// fractions (0–1) in each tier's averaging window.
 	TxFractionPublic       float64 `json:"tx_fraction_public"`
@@ -573,20 +648,21 @@ type Report struct {
 	AntennaHeightM float64 `json:"antenna_height_m"`
 	HeadHeightM    float64 `json:"head_height_m"`
 	// KeepoutPublicM and KeepoutOccupationalM are horizontal radii in metres
-	// around the mast foot within which a head would be inside the
-	// compliance distance; 0 when the antenna is high enough.
+	// around the mast foot beyond which no part of a standing person is
+	// inside the compliance distance (KeepOutRadiusM): the whole distance
+	// when the antenna is at or below head height, 0 when it is high enough.
 	KeepoutPublicM       float64 `json:"keepout_public_m"`
 	KeepoutOccupationalM float64 `json:"keepout_occupational_m"`
 	// NearFieldM is λ/2π in metres; distances below it are unreliable.
 	NearFieldM float64 `json:"near_field_m"`
 	// ERPW is the ERP in W averaged over the US general-population window
-	// (30 min), EIRP/1.64.
-	ERPW float64 `json:"erp_w"`
+	// (30 min), EIRP/1.64; only with StandardFCC (0, left out, otherwise).
+	ERPW float64 `json:"erp_w,omitempty"`
 	// ExemptBeyondM is the distance in metres beyond which the station is
 	// exempt from routine evaluation under US 47 CFR § 1.1307(b)(3)(i)(C),
-	// testing the greater of ERPW and the transmitter's time-averaged power;
-	// given whatever Standard is.
-	ExemptBeyondM float64 `json:"exempt_beyond_m"`
+	// testing the greater of ERPW and the transmitter's time-averaged power.
+	// A US rule: only with StandardFCC (0, left out of JSON, otherwise).
+	ExemptBeyondM float64 `json:"exempt_beyond_m,omitempty"`
 	// Cautions are Cautions, always present.
 	Cautions []string `json:"cautions"`
 }
@@ -636,8 +712,9 @@ func exposureOnAir(in Input) (func(window time.Duration) (float64, error), error
 //     Supplement B, ed. 97-01);
 //   - the compliance distance R = √(F·EIRP_avg/(4π·S_limit)) (OET Bulletin
 //     65 eq. 6) and the keep-out radius around the mast foot;
-//   - λ/2π, the time-averaged ERP and the distance beyond which the station
-//     is exempt from routine evaluation under 47 CFR § 1.1307(b)(3)(i)(C);
+//   - λ/2π and, with the US limits only, the time-averaged ERP and the
+//     distance beyond which the station is exempt from routine evaluation
+//     under 47 CFR § 1.1307(b)(3)(i)(C);
 //   - the cautions of Cautions.
 //
 // Every invalid input gives one error wrapping ErrInput that names
@@ -673,7 +750,9 @@ func Evaluate(in Input) (Report, error) {
 	if err != nil {
 		return rep, err
 	}
+	dutySource := mode.DutySource()
 	if in.DutyFactor != 0 {
+		dutySource = "given"
 		if in.DutyFactor < 0 || in.DutyFactor > 1 {
 			return rep, fmt.Errorf("%w: duty factor %g is outside (0, 1]; give e.g. 0.4 for 40 %%", ErrInput, in.DutyFactor)
 		}
@@ -738,25 +817,31 @@ func Evaluate(in Input) (Report, error) {
 		return rep, err
 	}
 
-	// The US exemption averages over the general-population window of
-	// § 1.1310 (30 min) whatever standard the distances use.
-	usFrac, err := onAir(30 * time.Minute)
-	if err != nil {
-		return rep, err
+	// The US exemption (a US rule, so only with the US limits) averages
+	// over the general-population window of § 1.1310 (30 min).
+	var erp, exemptM float64
+	if std == StandardFCC {
+		usFrac, err := onAir(30 * time.Minute)
+		if err != nil {
+			return rep, err
+		}
+		erp = ERPFromEIRPW(eirp * duty * usFrac)
+		exemptPower := math.Max(erp, in.PowerW*duty*usFrac)
+		if exemptM, err = ExemptBeyondM(in.FreqMHz, exemptPower); err != nil {
+			return rep, err
+		}
 	}
-	erp := ERPFromEIRPW(eirp * duty * usFrac)
-	exemptPower := math.Max(erp, in.PowerW*duty*usFrac)
-	exemptM, err := ExemptBeyondM(in.FreqMHz, exemptPower)
-	if err != nil {
-		return rep, err
-	}
+	source, fromMemory := StandardSource(std)
 
 	rep = Report{
 		Standard:               std,
+		LimitsSource:           source,
+		LimitsFromMemory:       fromMemory,
 		Mode:                   mode,
 		FreqMHz:                in.FreqMHz,
 		EIRPW:                  eirp,
 		DutyFactor:             duty,
+		DutySource:             dutySource,
 		TxFractionPublic:       pub.fraction,
 		TxFractionOccupational: occ.fraction,
 		AveragingPublicS:       pub.limit.Averaging.Seconds(),
@@ -766,15 +851,15 @@ func Evaluate(in Input) (Report, error) {
 		LimitPublicWM2:         pub.limit.PowerDensityWM2,
 		LimitOccupationalWM2:   occ.limit.PowerDensityWM2,
 		ReflectionFactor:       refl,
-		DistancePublicM:        pub.distM,
-		DistanceOccupationalM:  occ.distM,
+		DistancePublicM:        clean(pub.distM),
+		DistanceOccupationalM:  clean(occ.distM),
 		AntennaHeightM:         in.AntennaHeightM,
 		HeadHeightM:            head,
-		KeepoutPublicM:         pub.k,
-		KeepoutOccupationalM:   occ.k,
+		KeepoutPublicM:         clean(pub.k),
+		KeepoutOccupationalM:   clean(occ.k),
 		NearFieldM:             NearFieldBoundaryM(in.FreqMHz),
-		ERPW:                   erp,
-		ExemptBeyondM:          exemptM,
+		ERPW:                   clean(erp),
+		ExemptBeyondM:          clean(exemptM),
 		Cautions:               Cautions(),
 	}
 	return rep, nil

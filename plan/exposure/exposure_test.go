@@ -467,14 +467,25 @@ func TestEvaluateExposureExemption(t *testing.T) {
 	if math.Abs(rep.ExemptBeyondM-5.1098) > 1e-3 {
 		t.Errorf("exempt beyond %.4f m, want 5.1098 m", rep.ExemptBeyondM)
 	}
-	// The exemption averages over 30 min even under ICNIRP 1998 (6 min):
+	// The exemption averages over the 30-min window of § 1.1310 (B):
 	// 250 W FM 5 on 5 off, 0 dBi → max(125/1.64, 125) = 125 W → 5.713 m [calc].
-	rep, err = Evaluate(Input{PowerW: 250, FreqMHz: 146, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute, Standard: StandardICNIRP1998})
+	rep, err = Evaluate(Input{PowerW: 250, FreqMHz: 146, Mode: ModeFM, OnTime: 5 * time.Minute, OffTime: 5 * time.Minute})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if math.Abs(rep.ExemptBeyondM-5.7130) > 1e-3 {
 		t.Errorf("exempt beyond %.4f m, want 5.7130 m", rep.ExemptBeyondM)
+	}
+	// § 1.1307 is a US rule: under the ICNIRP limits there is no exemption
+	// distance and no ERP for it (47 CFR § 1.1307 applies to FCC licensees).
+	for _, std := range []Standard{StandardICNIRP2020, StandardICNIRP1998} {
+		rep, err = Evaluate(Input{PowerW: 250, FreqMHz: 146, Mode: ModeFM, Standard: std})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rep.ExemptBeyondM != 0 || rep.ERPW != 0 {
+			t.Errorf("%s: exempt beyond %g m, ERP %g W; want neither", std, rep.ExemptBeyondM, rep.ERPW)
+		}
 	}
 }
 
@@ -514,7 +525,13 @@ func TestKeepOutRadiusM(t *testing.T) {
 		{"antenna higher than R", 2.89, 10, 2, 0, 0},
 		{"R equals height difference", 3, 5, 2, 0, 0},
 		{"antenna at head height", 2.5, 2, 2, 2.5, 1e-12},
-		{"antenna below head", 2.5, 0.5, 2, 2.0, 1e-12},
+		// A standing person spans 0–2 m: an antenna at or below head height
+		// is level with some part of the body, so the whole distance counts.
+		{"antenna below head", 2.5, 0.5, 2, 2.5, 0},
+		{"antenna on the ground", 2.89, 0, 2, 2.89, 0},
+		{"antenna just above head", 2.5, 2.1, 2, 2.4980, 1e-4}, // √(2.5² − 0.1²)
+		{"R just above the height difference", 3 + 1e-12, 5, 2, 0, 1e-5},
+		{"negative distance", -1, 2, 2, 0, 0},
 		{"zero distance", 0, 2, 2, 0, 0},
 	}
 	for _, tc := range tests {
@@ -531,9 +548,10 @@ func TestKeepOutRadiusM(t *testing.T) {
 		antM, headM      float64
 		wantPub, wantOcc float64
 	}{
-		{"3 m mast, 2 m head", 3, 0, 2.7121, 0.8192}, // [calc] default head 2 m
-		{"10 m mast: out of reach", 10, 0, 0, 0},     // antenna higher than both distances
-		{"3 m mast, 1.2 m head", 3, 1.2, 2.2617, 0},  // [calc] √(2.8906² − 1.8²); 1.2927 < 1.8
+		{"3 m mast, 2 m head", 3, 0, 2.7121, 0.8192},    // [calc] default head 2 m
+		{"10 m mast: out of reach", 10, 0, 0, 0},        // antenna higher than both distances
+		{"antenna on the ground", 0, 0, 2.8906, 1.2927}, // whole compliance distances [calc]
+		{"3 m mast, 1.2 m head", 3, 1.2, 2.2617, 0},     // [calc] √(2.8906² − 1.8²); 1.2927 < 1.8
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			rep, err := Evaluate(Input{PowerW: 50, GainDBi: 2.15, FreqMHz: 146, Mode: ModeFM, AntennaHeightM: tc.antM, HeadHeightM: tc.headM})
@@ -855,4 +873,75 @@ func exemptAt(freqMHz, erpW, distanceM float64) (bool, error) {
 		return false, err
 	}
 	return erpW <= threshold, nil
+}
+
+// TestEvaluateCleanValues sweeps powers, gains, heights, modes and
+// standards and checks that no figure of a report is negative, NaN or a
+// rounding residue (0 < |v| < 1e-9), which would print as "-0" or "2.2e-16".
+func TestEvaluateCleanValues(t *testing.T) {
+	n := 0
+	for _, std := range exposureStandards {
+		for _, p := range []float64{0.001, 0.1, 1, 5, 50, 1500} {
+			for _, h := range []float64{0, 1, 2, 2.0000000001, 3, 3.5, 10, 60} {
+				for _, f := range []float64{0.3, 3.5, 29.7, 30, 146, 400, 446, 1296, 10000, 100000} {
+					rep, err := Evaluate(Input{PowerW: p, GainDBi: 2.15, FreqMHz: f, Mode: ModeSSB, TxFraction: 0.5, AntennaHeightM: h, Standard: std})
+					if err != nil {
+						t.Fatal(err)
+					}
+					n++
+					for name, v := range map[string]float64{"distance public": rep.DistancePublicM, "distance occ": rep.DistanceOccupationalM,
+						"keepout public": rep.KeepoutPublicM, "keepout occ": rep.KeepoutOccupationalM, "exempt": rep.ExemptBeyondM, "erp": rep.ERPW} {
+						if math.IsNaN(v) || v < 0 || (v != 0 && math.Abs(v) < 1e-9) || math.Signbit(v) {
+							t.Errorf("%s %g W %g m %g MHz: %s = %g", std, p, h, f, name, v)
+						}
+					}
+					// Keep-out radius never exceeds the compliance distance
+					// and equals it at or below head height (geometry).
+					if rep.KeepoutPublicM > rep.DistancePublicM || (h <= 2 && rep.KeepoutPublicM != rep.DistancePublicM) {
+						t.Errorf("%s %g W %g m: keep-out %g m vs distance %g m", std, p, h, rep.KeepoutPublicM, rep.DistancePublicM)
+					}
+				}
+			}
+		}
+	}
+	if n == 0 {
+		t.Fatal("no case ran")
+	}
+}
+
+// TestSources checks that every figure says where it comes from: the US
+// table is cited and checked, the ICNIRP sets are marked from memory until
+// checked against their published tables, and ssb-processed's 50 % is marked
+// typical, not a Supplement B Table 2 figure.
+func TestSources(t *testing.T) {
+	for _, tc := range []struct {
+		std     Standard
+		want    string
+		fromMem bool
+	}{
+		{StandardFCC, "§ 1.1310(e)(1) Table 1", false},
+		{StandardICNIRP2020, "Table 5", true},
+		{StandardICNIRP1998, "Tables 6 and 7", true},
+	} {
+		rep, err := Evaluate(Input{PowerW: 5, FreqMHz: 146, Standard: tc.std, Mode: ModeSSBProcessed})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(rep.LimitsSource, tc.want) || rep.LimitsFromMemory != tc.fromMem {
+			t.Errorf("%s: source %q from memory %v; want %q, %v", tc.std, rep.LimitsSource, rep.LimitsFromMemory, tc.want, tc.fromMem)
+		}
+		if rep.DutyFactor != 0.5 || !strings.Contains(rep.DutySource, "typical") {
+			t.Errorf("ssb-processed: duty %g from %q; want 0.5, typical", rep.DutyFactor, rep.DutySource)
+		}
+	}
+	if s := ModeSSB.DutySource(); !strings.Contains(s, "Supplement B") {
+		t.Errorf("ssb duty source %q", s)
+	}
+	rep, _ := Evaluate(Input{PowerW: 5, FreqMHz: 146, DutyFactor: 0.3})
+	if rep.DutySource != "given" {
+		t.Errorf("override duty source %q, want given", rep.DutySource)
+	}
+	if len(MastCautions()) == 0 || len(Cautions()) <= len(MastCautions()) {
+		t.Error("cautions missing")
+	}
 }
