@@ -137,13 +137,15 @@ type coverageGrid struct {
 	radials      int
 	stepM        float64
 	samples      int // per radial, the site included
+	levels       int // line of sight: radial levels below the full set (see coverageLOS)
 	radialOfCell []int32
 }
 
 // CoverageMap computes a coverage map around req.Site over the elevation
 // data ts (nil or empty: a smooth earth at sea level).
 //
-// Method: radials leave the site along WGS84 geodesics (Karney) at equal
+// Method (loss; line of sight works cell by cell from a table of the
+// radials' horizons, see coverageLOS): radials leave the site along WGS84 geodesics (Karney) at equal
 // azimuth steps, enough that neighbouring radials lie at most one cell
 // apart at the radius (half a cell for loss); each is sampled every cell size (the smaller side)
 // with bilinear heights. Every cell within the radius is answered by the
@@ -159,7 +161,8 @@ type coverageGrid struct {
 //
 // It uses every core (results by index: the same bytes whatever the core
 // count) and calls progress, when not nil, from the calling goroutine with
-// the radials done, about every 100 ms and once at the end. Errors: bad
+// the work done (radials; for line of sight radials, then rows of
+// the grid), about every 100 ms and once at the end. Errors: bad
 // request (wrapping ErrCoverage; a grid over MaxCells names its cells and
 // memory), an unreadable elevation file, or ctx's error.
 func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, progress func(done, total int)) (*CoverageResult, error) {
@@ -214,6 +217,12 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 	}
 	res.SiteGroundM = h0
 	res.Values = make([]float32, g.rows*g.cols)
+	if req.Mode == CoverageLOS {
+		if err := g.coverageLOS(ctx, ts, prm, h0, res, progress); err != nil {
+			return nil, err
+		}
+		return finishCoverage(ts, res), nil
+	}
 	g.bucket(ctx, res.Values)
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -261,6 +270,11 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 		res.Covered += int(covered[r])
 		res.SmoothEarth = res.SmoothEarth || noData[r]
 	}
+	return finishCoverage(ts, res), nil
+}
+
+// finishCoverage sets the covered fraction and the smooth-earth warning.
+func finishCoverage(ts *terrain.Set, res *CoverageResult) *CoverageResult {
 	if res.Cells > 0 {
 		res.CoveredFraction = float64(res.Covered) / float64(res.Cells)
 	}
@@ -271,7 +285,7 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 		}
 		res.Warnings = append(res.Warnings, msg)
 	}
-	return res, nil
+	return res
 }
 
 // coverageGeometry lays out the grid and the radials, and refuses a grid
@@ -340,6 +354,14 @@ func coverageGeometry(ts *terrain.Set, lat, lon float64, req CoverageRequest, re
 	cell := math.Min(g.dLat*nM, g.dLon*eM)
 	g.stepM = cell
 	g.radials = max(8, int(math.Ceil(density*2*math.Pi*req.RadiusM/cell/8))*8)
+	if req.Mode == CoverageLOS {
+		base := max(16, int(math.Ceil(density*2*math.Pi*req.RadiusM/cell)))
+		for g.levels < losMaxLevels && base>>(g.levels+1) >= 16 {
+			g.levels++
+		}
+		unit := 1 << g.levels
+		g.radials = (base + unit - 1) / unit * unit
+	}
 	g.samples = int(req.RadiusM/g.stepM) + 3
 	res.Radials, res.StepM = g.radials, g.stepM
 	return g, nil

@@ -1,6 +1,8 @@
 package plan
 
 import (
+	"time"
+
 	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
@@ -12,8 +14,21 @@ import (
 
 // Plan is a parsed, validated plan file with every name resolved.
 type Plan struct {
-	Path         string // the plan file as given
-	Name         string
+	Path string // the plan file as given
+	Name string
+	Area string // where, in words (`area:`); "" when not given
+	// Date is when the deployment is (`date:`), in Location when the plan
+	// gives a time zone, else UTC; the zero time when not given. DateHasTime
+	// is set when the plan gave a time of day as well as the day.
+	Date        time.Time
+	DateHasTime bool
+	// Location is the plan's time zone (`timezone:`, an IANA name such as
+	// "Europe/Oslo"); nil when not given.
+	Location *time.Location
+	// Briefing is where the printable briefing goes (`briefing:`, resolved
+	// against the plan's folder); "" when the plan asks for none.
+	Briefing     string
+	BriefingAt   int // line of the briefing field, for errors about it
 	FreqMHz      float64
 	Terrain      []string  // DEM directories or files, resolved against the plan's folder
 	TerrainAt    int       // line of the terrain field, for errors about missing tiles

@@ -207,7 +207,7 @@ func (p *planParser) paths(n *yaml.Node, field string) ([]string, error) {
 	return []string{s}, nil
 }
 
-var topFields = []string{"name", "frequency", "terrain", "waypoints", "require", "k", "model", "itm", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites", "roads", "relays"}
+var topFields = []string{"name", "area", "date", "timezone", "briefing", "frequency", "terrain", "waypoints", "require", "k", "model", "itm", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites", "roads", "relays"}
 
 func (p *planParser) parse(data []byte) (*Plan, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
@@ -240,6 +240,9 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		if pl.Name, err = p.scalar(n, "name"); err != nil {
 			return nil, err
 		}
+	}
+	if err := p.briefingFields(f, pl); err != nil {
+		return nil, err
 	}
 	if n := f["frequency"]; n != nil {
 		if pl.FreqMHz, err = p.quantity(n, "frequency", units.ParseFreqMHz); err != nil {

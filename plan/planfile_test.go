@@ -188,6 +188,7 @@ func FuzzParsePlan(f *testing.F) {
 	}
 	f.Add("stations: [{name: a, at: '1,2'}]\ntargets: [{name: b, at: '1.1,2', frequency: 146}]\n")
 	f.Add("name: [\n")
+	f.Add("date: 2025-06-14 07:30\ntimezone: Europe/Oslo\narea: x\nbriefing: a.html\nstations: [{name: a, at: '1,2'}]\ntargets: [{name: b, at: '1.1,2', frequency: 146}]\n")
 	f.Add("stations:\n  - &a {name: x}\n  - *a\n")
 	f.Fuzz(func(t *testing.T, doc string) {
 		_, err := ParsePlan([]byte(doc), filepath.Join("..", "examples", "valley", "fuzz.yaml"))

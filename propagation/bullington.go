@@ -222,7 +222,10 @@ func bullingtonLoss(stim, srim, nuMax, edgeKM, hts, hrs, d, wavelengthM float64)
 		nu = (hts + stim*db - (hts*(d-db)+hrs*db)/d) * math.Sqrt(0.002*d/(wavelengthM*db*(d-db))) // eq. 55
 		dEdge = db
 	}
-	luc = KnifeEdgeLossDB(nu)                   // eqs. 52, 56
+	luc = KnifeEdgeLossDB(nu) // eqs. 52, 56
+	if luc == 0 {
+		return luc, nu, dEdge, 0 // eq. 57 with L_uc = 0, without the exponential
+	}
 	lb = luc + (1-math.Exp(-luc/6))*(10+0.02*d) // eq. 57
 	return luc, nu, dEdge, lb
 }

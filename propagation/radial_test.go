@@ -173,3 +173,87 @@ func BenchmarkRadialLoss(b *testing.B) {
 	}
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*(len(p.DistKM)-1)), "ns/receiver")
 }
+
+// TestHorizonLOSMatchesRadial: the running maximum of HorizonLOS.Slope
+// answers HorizonLOS.Visible exactly as Radial.Visible does (itself checked
+// against Terrain's line of sight, ITU-R P.526-16 eq. 50, in
+// TestRadialMatchesTerrain), on seeded random profiles.
+func TestHorizonLOSMatchesRadial(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 8))
+	prm := Params{FreqMHz: 146, TxHeightM: 10, RxHeightM: 2}
+	w, err := NewRadial(prm, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	visible, hidden := 0, 0
+	for trial := range 40 {
+		h0 := 300 + 200*rng.Float64()
+		hl, err := NewHorizonLOS(prm, h0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Reset(h0)
+		best := math.Inf(-1)
+		for i := 1; i < 800; i++ {
+			d := float64(i) * 0.03
+			h := h0 + 150*math.Sin(float64(i)/37+float64(trial)) + 40*rng.Float64()
+			if got, want := hl.Visible(best, d, h), w.Visible(d, h); got != want {
+				t.Fatalf("trial %d point %d: HorizonLOS %v, Radial %v", trial, i, got, want)
+			} else if got {
+				visible++
+			} else {
+				hidden++
+			}
+			w.Add(d, h)
+			best = math.Max(best, hl.Slope(d, h))
+		}
+	}
+	if visible == 0 || hidden == 0 {
+		t.Errorf("%d visible, %d hidden: the check needs both", visible, hidden)
+	}
+	if _, err := NewHorizonLOS(Params{FreqMHz: 146, TxHeightM: -1}, 0); err == nil {
+		t.Error("negative antenna accepted")
+	}
+}
+
+// TestRadialSmoothMaxima: the closed-form peaks of Radial.smoothMaxima
+// give the same S_tim and S_rim (eqs. 49, 53 on the zero profile of
+// eq. 64) as the binary searches of smoothProfileMaxima, and the same ν_max
+// (eq. 51) wherever the smooth profile is line of sight, on random
+// distances, heights and path lengths.
+func TestRadialSmoothMaxima(t *testing.T) {
+	rng := rand.New(rand.NewPCG(17, 4))
+	w, err := NewRadial(Params{FreqMHz: 146}, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	los := 0
+	for trial := range 3000 {
+		w.Reset(0)
+		n := 1 + rng.IntN(400)
+		step := 0.01 + 0.1*rng.Float64()
+		for i := 1; i <= n; i++ {
+			w.Add(float64(i)*step, 0)
+		}
+		d := (float64(n) + 0.5 + rng.Float64()) * step
+		hts, hrs := 200*rng.Float64()*rng.Float64(), 50*rng.Float64()*rng.Float64()
+		if trial%7 == 0 {
+			hts = 0
+		}
+		st, sr, nu := w.smoothMaxima(d, hts, hrs)
+		dist := append(append([]float64(nil), w.dist...), d)
+		wst, wsr, wnu := smoothProfileMaxima(dist, 0, d, hts, hrs, w.rp)
+		if st != wst || sr != wsr {
+			t.Fatalf("trial %d: S_tim %v S_rim %v, binary search %v %v", trial, st, sr, wst, wsr)
+		}
+		if st < (hrs-hts)/d {
+			los++
+			if nu != wnu {
+				t.Fatalf("trial %d: ν_max %v, binary search %v", trial, nu, wnu)
+			}
+		}
+	}
+	if los == 0 {
+		t.Error("no line-of-sight case")
+	}
+}

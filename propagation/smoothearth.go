@@ -23,6 +23,13 @@ func SmoothEarthLossDB(distKM, h1M, h2M float64, prm Params) (float64, error) {
 
 // smoothEarthLoss implements ITU-R P.526-16 §3.2.
 func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
+	c := newFirstTerm(rp.aeKM, rp)
+	return smoothEarthLossC(dKM, h1, h2, rp, &c)
+}
+
+// smoothEarthLossC is smoothEarthLoss with the first-term constants of the
+// effective radius rp.aeKM worked out once (ft = newFirstTerm(rp.aeKM, rp)).
+func smoothEarthLossC(dKM, h1, h2 float64, rp params, ft *firstTerm) float64 {
 	if !(dKM > 0) {
 		return 0
 	}
@@ -33,7 +40,7 @@ func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
 		// that the first term predicts a field above free space; like
 		// eq. 25's negative A_h, that counts as no loss. In eq. 66 it makes
 		// no difference (max(L_sph − L_bs, 0) with L_bs ≥ 0).
-		return math.Max(firstTermLoss(dKM, h1, h2, rp.aeKM, rp), 0)
+		return math.Max(ft.loss(dKM, h1, h2), 0)
 	}
 	// Within the horizon: work in metres.
 	d := dKM * 1000
@@ -70,6 +77,21 @@ func smoothEarthLoss(dKM, h1, h2 float64, rp params) float64 {
 // residue series (ITU-R P.526-16 §3.1.1, eqs. 11a–18), distance in km, heights
 // in m, for an effective radius aeKM.
 func firstTermLoss(dKM, h1, h2, aeKM float64, rp params) float64 {
+	c := newFirstTerm(aeKM, rp)
+	return c.loss(dKM, h1, h2)
+}
+
+// firstTerm holds what eqs. 11a–18 need that depends on the effective
+// radius, frequency, ground and polarization only.
+type firstTerm struct {
+	xPerKM float64 // X per km of path, eq. 14a
+	yb     float64 // β·Y per metre of height, eqs. 15a, 18
+	floor  float64 // 2 + 20 log K, the floor of G (eq. 18)
+}
+
+// newFirstTerm works out the constants of eqs. 11a, 12a, 14a, 15a and 16
+// for an effective radius aeKM.
+func newFirstTerm(aeKM float64, rp params) firstTerm {
 	f := rp.freqMHz
 	eps := rp.ground.Permittivity
 	q := 18000 * rp.ground.ConductivitySM / f
@@ -78,17 +100,23 @@ func firstTermLoss(dKM, h1, h2, aeKM float64, rp params) float64 {
 		k *= math.Sqrt(eps*eps + q*q) // eq. 12a
 	}
 	k2 := k * k
-	beta := (1 + 1.6*k2 + 0.67*k2*k2) / (1 + 4.5*k2 + 1.53*k2*k2)   // eq. 16
-	x := 2.188 * beta * math.Cbrt(f) * math.Pow(aeKM, -2.0/3) * dKM // eq. 14a
-	yk := 9.575e-3 * beta * math.Pow(f, 2.0/3) / math.Cbrt(aeKM)    // eq. 15a per metre
-	var fx float64                                                  // eq. 17
+	beta := (1 + 1.6*k2 + 0.67*k2*k2) / (1 + 4.5*k2 + 1.53*k2*k2) // eq. 16
+	xk := 2.188 * beta * math.Cbrt(f) * math.Pow(aeKM, -2.0/3)    // eq. 14a per km
+	yk := 9.575e-3 * beta * math.Pow(f, 2.0/3) / math.Cbrt(aeKM)  // eq. 15a per metre
+	return firstTerm{xPerKM: xk, yb: beta * yk, floor: 2 + 20*math.Log10(k)}
+}
+
+// loss is −(F(X) + G(Y1) + G(Y2)) (eqs. 14a–18) for a path dKM long
+// between heights h1, h2 metres.
+func (c *firstTerm) loss(dKM, h1, h2 float64) float64 {
+	x := c.xPerKM * dKM
+	var fx float64 // eq. 17
 	if x >= 1.6 {
 		fx = 11 + 10*math.Log10(x) - 17.6*x
 	} else {
 		fx = -20*math.Log10(x) - 5.6488*math.Pow(x, 1.425)
 	}
-	floor := 2 + 20*math.Log10(k)
-	return -(fx + heightGain(beta*yk*h1, floor) + heightGain(beta*yk*h2, floor))
+	return -(fx + heightGain(c.yb*h1, c.floor) + heightGain(c.yb*h2, c.floor))
 }
 
 // heightGain is G(Y) of ITU-R P.526-16 eq. 18 for B = βY, never below floor

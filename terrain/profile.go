@@ -3,6 +3,7 @@ package terrain
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // NoDEMStepM is the default profile step in metres when the set holds no
@@ -130,25 +131,29 @@ func profilePositions(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Pro
 }
 
 // profileHeights fills ElevM, Sources and NoData from Lat and Lon, keeping
-// the tile in use between samples.
+// the tile in use between samples and sampling it in grid coordinates:
+// row and column by one multiply-add each (reciprocal spacings) and the
+// bilinear weights of Tile.At without a division, so heights agree with
+// Tile.At to rounding (about 1e−9 m). A sample outside the tile in use
+// (or any sample when GeoTIFFs may overlap the tiles) is looked up.
 func (s *Set) profileHeights(dst *Profile) error {
 	var (
-		cur                    *Tile
-		curSrc                 *source
-		south, north           float64
-		west, east             float64
+		g                      = noGrid
 		lastMissLa, lastMissLo = math.MaxInt, math.MaxInt
 	)
 	// With only HGT tiles, a point inside the tile in use needs no lookup;
 	// other files may overlap tiles, so then every sample is looked up.
 	fast := len(s.others) == 0
-	for i, lat := range dst.Lat {
-		lon := dst.Lon[i]
-		if !fast || cur == nil || lat < south || lat > north || lon < west || lon > east {
+	lats, lons, elev := dst.Lat, dst.Lon[:len(dst.Lat)], dst.ElevM[:len(dst.Lat)]
+	for i, lat := range lats {
+		lon := lons[i]
+		y := (g.lat0 - lat) * g.invDLat
+		x := (lon - g.lon0) * g.invDLon
+		if !fast || !(y >= 0 && y <= g.maxY && x >= 0 && x <= g.maxX) {
 			src := s.lookup(lat, lon)
 			if src == nil {
-				cur, curSrc = nil, nil
-				dst.ElevM[i] = 0
+				g = noGrid
+				elev[i] = 0
 				dst.NoData++
 				if la, lo := int(math.Floor(lat)), int(math.Floor(lon)); la != lastMissLa || lo != lastMissLo {
 					lastMissLa, lastMissLo = la, lo
@@ -156,33 +161,93 @@ func (s *Set) profileHeights(dst *Profile) error {
 				}
 				continue
 			}
-			if src != curSrc {
+			if src != g.src {
 				t, err := s.tile(src)
 				if err != nil {
 					return err
 				}
-				cur, curSrc = t, src
-				north, west = t.Lat0, t.Lon0
-				south = t.Lat0 - float64(t.Rows-1)*t.DLat
-				east = t.Lon0 + float64(t.Cols-1)*t.DLon
-				seen := false
-				for _, n := range dst.Sources {
-					if n == src.name {
-						seen = true
-						break
-					}
-				}
-				if !seen {
+				g.use(t, src)
+				if !slices.Contains(dst.Sources, src.name) {
 					dst.Sources = append(dst.Sources, src.name)
 				}
 			}
+			y = min(max((g.lat0-lat)*g.invDLat, 0), g.maxY)
+			x = min(max((lon-g.lon0)*g.invDLon, 0), g.maxX)
 		}
-		h := cur.At(lat, lon)
+		h := g.at(y, x)
 		if h != h {
 			h = 0
 			dst.NoData++
 		}
-		dst.ElevM[i] = h
+		elev[i] = h
 	}
 	return nil
+}
+
+// gridCursor is a tile in use and its grid constants.
+type gridCursor struct {
+	t          *Tile
+	src        *source
+	h          []float32
+	cols       int
+	lat0, lon0 float64 // the north-west sample, degrees
+	invDLat    float64 // rows per degree of latitude
+	invDLon    float64 // columns per degree of longitude
+	maxY, maxX float64 // last row and column as numbers; −1 with no tile
+	maxR, maxC int     // last row and column a 2×2 cell may start at
+}
+
+// noGrid holds no tile: no point lies within it.
+var noGrid = gridCursor{maxY: -1, maxX: -1, maxR: -1}
+
+// use makes t (from src) the tile in use.
+func (g *gridCursor) use(t *Tile, src *source) {
+	*g = gridCursor{t: t, src: src, h: t.H, cols: t.Cols,
+		lat0: t.Lat0, lon0: t.Lon0, invDLat: 1 / t.DLat, invDLon: 1 / t.DLon,
+		maxY: float64(t.Rows - 1), maxX: float64(t.Cols - 1),
+		maxR: t.Rows - 2, maxC: t.Cols - 2}
+	if t.Rows < 2 || t.Cols < 2 || len(t.H) < t.Rows*t.Cols {
+		g.maxR = -1 // degenerate grid: Tile.At answers
+	}
+}
+
+// at interpolates the tile in use bilinearly at fractional row y and
+// column x, both within the grid, as Tile.At does; NaN where all four
+// samples are voids.
+func (g *gridCursor) at(y, x float64) float64 {
+	if g.maxR < 0 {
+		if g.t == nil {
+			return 0
+		}
+		return g.t.At(g.lat0-y*g.t.DLat, g.lon0+x*g.t.DLon)
+	}
+	r := min(int(y), g.maxR)
+	c := min(int(x), g.maxC)
+	fy, fx := y-float64(r), x-float64(c)
+	i := r*g.cols + c
+	h := g.h[i : i+g.cols+2 : i+g.cols+2] // one bounds check for the four samples
+	h00, h01 := float64(h[0]), float64(h[1])
+	h10, h11 := float64(h[g.cols]), float64(h[g.cols+1])
+	top := h00 + fx*(h01-h00)
+	bottom := h10 + fx*(h11-h10)
+	if v := top + fy*(bottom-top); v == v {
+		return v
+	}
+	return voidMean(h00, h01, h10, h11)
+}
+
+// voidMean returns the mean of the valid (non-NaN) values among four, NaN
+// when all are voids: Tile.At's answer next to a void.
+func voidMean(h00, h01, h10, h11 float64) float64 {
+	sum, n := 0.0, 0
+	for _, v := range [4]float64{h00, h01, h10, h11} {
+		if v == v {
+			sum += v
+			n++
+		}
+	}
+	if n == 0 {
+		return math.NaN()
+	}
+	return sum / float64(n)
 }

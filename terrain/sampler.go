@@ -126,16 +126,22 @@ func (p *Sampler) at(y, x float64) float64 {
 // within about a micrometre); heights from Height. Errors: invalid
 // position or step, or a file that cannot be read.
 func (p *Sampler) Radial(lat, lon, aziDeg, stepM float64, lats, lons, heights []float64) error {
+	return p.RadialFrom(lat, lon, aziDeg, 0, stepM, lats, lons, heights)
+}
+
+// RadialFrom is Radial for the points at distances startM, startM + stepM,
+// startM + 2·stepM, … metres (startM ≥ 0) along the same geodesic.
+func (p *Sampler) RadialFrom(lat, lon, aziDeg, startM, stepM float64, lats, lons, heights []float64) error {
 	if err := checkPoint(lat, lon); err != nil {
 		return fmt.Errorf("radial start: %w", err)
 	}
-	if !(stepM > 0) || math.IsInf(stepM, 0) || math.IsNaN(aziDeg) || math.IsInf(aziDeg, 0) {
-		return fmt.Errorf("radial: step %v m must be positive and azimuth %v° a number", stepM, aziDeg)
+	if !(stepM > 0) || math.IsInf(stepM, 0) || math.IsNaN(aziDeg) || math.IsInf(aziDeg, 0) || !(startM >= 0) || math.IsInf(startM, 0) {
+		return fmt.Errorf("radial: step %v m must be positive, start %v m zero or more and azimuth %v° a number", stepM, startM, aziDeg)
 	}
 	n := min(len(lats), len(lons), len(heights))
 	var line Line
 	wgs84Geod.initLineDeg(&line, lat, lon, aziDeg)
-	line.Positions(0, stepM, lats[:n], lons[:n])
+	line.Positions(startM, stepM, lats[:n], lons[:n])
 	for i := range n {
 		la, lo := lats[i], lons[i]
 		if lo >= 180 {

@@ -67,7 +67,20 @@ func TestSamplerRadial(t *testing.T) {
 			t.Errorf("point %d: %.10f,%.10f, Direct %.10f,%.10f", i, lats[i], lons[i], lat, lon)
 		}
 	}
+	// RadialFrom: the same points from the 100th on.
+	l2, o2, h2 := make([]float64, 400), make([]float64, 400), make([]float64, 400)
+	if err := set.NewSampler().RadialFrom(45.5, 7.5, 63.5, 100*30, 30, l2, o2, h2); err != nil {
+		t.Fatal(err)
+	}
+	for _, i := range []int{0, 1, 150, 399} {
+		if math.Abs(l2[i]-lats[i+100]) > 1e-11 || math.Abs(o2[i]-lons[i+100]) > 1e-11 || h2[i] != hs[i+100] {
+			t.Errorf("RadialFrom point %d: %.12f,%.12f, Radial %.12f,%.12f", i, l2[i], o2[i], lats[i+100], lons[i+100])
+		}
+	}
 	if err := set.NewSampler().Radial(45.5, 7.5, 10, 0, lats, lons, hs); err == nil {
 		t.Error("zero step accepted")
+	}
+	if err := set.NewSampler().RadialFrom(45.5, 7.5, 10, -1, 30, lats, lons, hs); err == nil {
+		t.Error("negative start accepted")
 	}
 }

@@ -20,9 +20,11 @@ import (
 	"github.com/spf13/cobra"
 )
 
-// planOptions are the plan command's own options: none yet, as the plan
-// file says everything; the struct keeps the shape every command has.
-type planOptions struct{}
+// planOptions are the plan command's own options; the plan file says
+// everything else.
+type planOptions struct {
+	briefing string // --briefing FILE.html (else the plan file's briefing:)
+}
 
 func newPlanCmd(g *globals) *cobra.Command {
 	o := &planOptions{}
@@ -37,15 +39,19 @@ RF-exposure keep-out and, when the plan has a mast section, the lowest mast
 and lightest cable that meet the requirement.
 
 With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
-into DIR for maps, GPS units and spreadsheets, and route-N.geojson and
-sites.geojson when the plan has routes and sites, and coverage-NAME.png and
-coverage-NAME.tif for every station whose coverage: asks for a map.`,
-		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/",
+into DIR for maps, GPS units and spreadsheets, plan-map.png (the links by
+margin over shaded relief), route-N.geojson and sites.geojson when the plan
+has routes and sites, and coverage-NAME.png and coverage-NAME.tif for every
+station whose coverage: asks for a map. With --briefing FILE.html (or
+briefing: in the plan file) it writes the printable briefing for the team:
+one self-contained page that prints on A4 or US Letter.`,
+		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/\n  mastlink plan examples/valley/plan.yaml --briefing briefing.html",
 		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runPlan(cmd.Context(), g, o, args)
 		},
 	}
+	cmd.Flags().StringVar(&o.briefing, "briefing", "", "write the printable briefing (one self-contained HTML page) to FILE.html; overrides the plan file's briefing:")
 	return cmd
 }
 
@@ -68,6 +74,10 @@ func loadPlan(g *globals, path string) (*plan.Plan, *plan.Env, error) {
 func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) error {
 	path := args[0]
 	p, env, err := loadPlan(g, path)
+	if err != nil {
+		return err
+	}
+	briefing, err := briefingTarget(g, o, p)
 	if err != nil {
 		return err
 	}
@@ -96,7 +106,7 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		fmt.Fprintf(g.stderr, "mastlink: warning: %s\n", w)
 	}
 	if g.out != "" {
-		if err := writePlanOutputs(g, p, res); err != nil {
+		if err := writePlanOutputs(g, p, env, res); err != nil {
 			return err
 		}
 		maps, err := writePlanCoverage(ctx, g, p, env.Terrain, g.out)
@@ -105,6 +115,11 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		}
 		if len(maps) > 0 {
 			fmt.Fprintf(g.stderr, "mastlink: wrote %s to %s\n", strings.Join(maps, ", "), g.out)
+		}
+	}
+	if briefing != "" {
+		if err := writePlanBriefing(g, briefing, p, env, res); err != nil {
+			return err
 		}
 	}
 	return g.emit(res, func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeLinksCSV(w, res.Links) },
@@ -332,7 +347,7 @@ func relPaths(ps []string) []string {
 // links.csv (and route-N.geojson, sites.geojson) into the directory g.out.
 // Every file is rendered and every name checked against the plan's inputs
 // before the first is written, so a refusal leaves nothing half done.
-func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
+func writePlanOutputs(g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanResult) error {
 	dir := g.out
 	if ext := extension(dir); ext != "" {
 		return usagef("-o: %q: plan writes several files; give a directory", dir)
@@ -359,6 +374,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, res *plan.PlanResult) error {
 		}},
 		{"plan.gpx", func(w io.Writer) error { return writePlanGPX(w, p, res) }},
 		{"links.csv", func(w io.Writer) error { return writeLinksCSV(w, res.Links) }},
+		{planMapFile, func(w io.Writer) error { return writePlanMap(w, p, env, res, g.imperial()) }},
 	}
 	for i := range res.Routes {
 		r := &res.Routes[i]

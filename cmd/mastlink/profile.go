@@ -16,6 +16,7 @@ type profileOptions struct {
 	from, to, step   string
 	height, toHeight string
 	k                string
+	freq, size       string // chart only: Fresnel zone frequency, picture size
 	points           pointResolver
 }
 
@@ -69,7 +70,10 @@ lat, lon, elevation_m; read back by mastlink link --profile), -o FILE.svg a
 chart (vector, for the web or further editing), -o FILE.png the same chart
 as a picture to print or put in a briefing. With --height or --to-height the
 chart also shows the masts, the straight line of sight between their tops,
-and the terrain raised by the earth bulge for --k.
+and the terrain raised by the earth bulge for --k. With --freq it draws the
+first Fresnel zone and its 0.6 part about the line of sight (ITU-R P.526)
+and marks the governing obstacle with its clearance; --size WxH sets the
+picture's size in pixels.
 
 Points are LAT,LON in decimal degrees or waypoint names from --waypoints.
 Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
@@ -77,7 +81,7 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 		Example: "  mastlink profile --dem examples/terrain --waypoints examples/valley/points.gpx \\\n" +
 			"    --from \"Wethermoss Saddle\" --to \"Corvane Peak\"\n" +
 			"  mastlink profile --dem examples/terrain --from -48.535,-123.963 --to -48.4467,-123.9492 \\\n" +
-			"    --height 9m --to-height 20m -o saddle-peak.png",
+			"    --height 9m --to-height 20m --freq 146.55MHz --size 1000x420 -o saddle-peak.png",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runProfile(cmd.Context(), g, o, args)
@@ -90,6 +94,8 @@ Elevation data comes from --dem or MASTLINK_DEM; without it the ground is
 	f.StringVar(&o.height, "height", "", "antenna height above ground at --from, drawn on a chart (-o F.svg or F.png) [m]")
 	f.StringVar(&o.toHeight, "to-height", "", "antenna height above ground at --to, drawn on a chart (-o F.svg or F.png) [m]")
 	f.StringVar(&o.k, "k", "4/3", "effective earth-radius factor for the earth bulge on a chart with antennas")
+	f.StringVar(&o.freq, "freq", "", "frequency for the chart's first Fresnel zone, its 0.6 part and the governing obstacle (needs -o F.svg or F.png) [MHz]")
+	f.StringVar(&o.size, "size", "", "chart size in pixels, WIDTHxHEIGHT (default 800x360; at least 320x200)")
 	addWaypointsFlag(cmd, &o.points)
 	_ = cmd.MarkFlagRequired("from")
 	_ = cmd.MarkFlagRequired("to")
@@ -140,6 +146,11 @@ func runProfile(ctx context.Context, g *globals, o *profileOptions, args []strin
 		}
 		chartOpts = append(chartOpts, report.WithAntennas(h1, h2), report.WithEarthBulge(k))
 	}
+	more, err := profileChartFlags(o, g.out, len(chartOpts) > 0)
+	if err != nil {
+		return err
+	}
+	chartOpts = append(chartOpts, more...)
 	from, fromName, err := o.points.resolve("--from", o.from)
 	if err != nil {
 		return err

@@ -38,6 +38,9 @@ type BriefingData struct {
 	Date time.Time
 	// Location is the plan's time zone; nil shows Date in its own zone.
 	Location *time.Location
+	// DateOnly shows Date as a day, without the time of day (for a plan
+	// that gives only the day).
+	DateOnly bool
 	// Area says where, in words (e.g. "Harrow Fell, north of Tarnby").
 	Area string
 	// Imperial shows lengths in feet and miles instead of metres and km.
@@ -413,7 +416,11 @@ func (p *page) render() error {
 	if d.Location != nil {
 		t = t.In(d.Location)
 	}
-	p.f(`<p class="when"><time datetime="%s">%s</time>`, h(t.Format(time.RFC3339)), h(t.Format("Monday 2 January 2006, 15:04 MST")))
+	if d.DateOnly {
+		p.f(`<p class="when"><time datetime="%s">%s</time>`, h(t.Format(time.DateOnly)), h(t.Format("Monday 2 January 2006")))
+	} else {
+		p.f(`<p class="when"><time datetime="%s">%s</time>`, h(t.Format(time.RFC3339)), h(t.Format("Monday 2 January 2006, 15:04")+" "+zoneLabel(t)))
+	}
 	if d.Area != "" {
 		p.f(`<span class="sep" aria-hidden="true"> · </span><span class="area">%s</span>`, h(d.Area))
 	}
@@ -438,6 +445,16 @@ func (p *page) render() error {
 	p.f("<footer><p>Made with mastlink from %s. Check the figures on site; conditions change.</p></footer>\n", h(orDefault(d.Inputs.PlanFile, "the plan")))
 	p.w("</body>\n</html>\n")
 	return nil
+}
+
+// zoneLabel names t's time zone by its abbreviation (CEST, MDT), or as
+// UTC−08 where the zone has none but its offset (the IANA Etc zones).
+func zoneLabel(t time.Time) string {
+	abbr := t.Format("MST")
+	if strings.HasPrefix(abbr, "+") || strings.HasPrefix(abbr, "-") {
+		return "UTC" + minus(abbr)
+	}
+	return abbr
 }
 
 func orDefault(s, def string) string {
@@ -631,7 +648,7 @@ func (p *page) profiles() error {
 	p.el("p", ` class="lead"`, "Ground along each path with the masts, the line of sight and the first Fresnel zone over an earth of k = "+kLabel(d.Inputs.K)+". Keep at least 0.6 of the zone clear of the ground.")
 	for i, pr := range d.Profiles {
 		opts := []ProfileOption{WithTitle(pr.Title), WithAntennas(pr.FromHeightM, pr.ToHeightM),
-			WithEarthBulge(d.Inputs.K), WithFrequency(pr.FreqMHz), WithSize(720, 320)}
+			WithEarthBulge(d.Inputs.K), WithFrequency(pr.FreqMHz), WithSize(800, 300)}
 		if d.Imperial {
 			opts = append(opts, WithImperial())
 		}

@@ -11,68 +11,19 @@ import (
 	"testing"
 	"time"
 
-	"golang.org/x/net/html"
+	"github.com/mastlink/mastlink/internal/pagecheck"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files under testdata/")
 
-// outline lists the page's structure, one element a line, indented by
-// depth: landmarks, sections, headings, tables with their captions and
-// header cells, figures, images and lists, with their ids, classes and
-// text where it names something. Inline SVG is shown as one line.
+// outline is the page's structure (pagecheck.Outline).
 func outline(t *testing.T, page []byte) string {
 	t.Helper()
-	doc, err := html.Parse(bytes.NewReader(page))
+	o, err := pagecheck.Outline(page)
 	if err != nil {
 		t.Fatal(err)
 	}
-	keep := map[string]bool{"html": true, "head": true, "title": true, "style": true, "body": true, "header": true, "main": true, "footer": true,
-		"section": true, "aside": true, "h1": true, "h2": true, "h3": true, "table": true, "caption": true, "thead": true, "tbody": true,
-		"tr": true, "th": true, "figure": true, "figcaption": true, "img": true, "svg": true, "ul": true, "li": true, "dl": true, "dt": true, "div": true, "time": true}
-	texty := map[string]bool{"title": true, "h1": true, "h2": true, "h3": true, "caption": true, "th": true, "dt": true, "time": true}
-	var b strings.Builder
-	var walk func(n *html.Node, depth int)
-	walk = func(n *html.Node, depth int) {
-		if n.Type == html.ElementNode && keep[n.Data] {
-			b.WriteString(strings.Repeat("  ", depth) + n.Data)
-			for _, a := range n.Attr {
-				switch a.Key {
-				case "id", "class", "scope", "alt", "role", "aria-label", "lang":
-					v := a.Val
-					if len(v) > 60 {
-						v = v[:60] + "…"
-					}
-					b.WriteString(" " + a.Key + "=" + v)
-				case "src":
-					b.WriteString(" src=" + a.Val[:min(len(a.Val), 22)] + "…")
-				}
-			}
-			if texty[n.Data] {
-				b.WriteString(": " + strings.Join(strings.Fields(textOf(n)), " "))
-			}
-			b.WriteString("\n")
-			if n.Data == "svg" || n.Data == "style" {
-				return
-			}
-			depth++
-		}
-		for c := n.FirstChild; c != nil; c = c.NextSibling {
-			walk(c, depth)
-		}
-	}
-	walk(doc, 0)
-	return b.String()
-}
-
-func textOf(n *html.Node) string {
-	if n.Type == html.TextNode {
-		return n.Data
-	}
-	var s strings.Builder
-	for c := n.FirstChild; c != nil; c = c.NextSibling {
-		s.WriteString(textOf(c))
-	}
-	return s.String()
+	return o
 }
 
 // TestBriefingGolden compares the structure of the sample briefing with

@@ -40,11 +40,11 @@ a { color: var(--accent); }
 .summary.short { border-left-color: var(--fail); }
 figure { margin: 6px 0 10px; break-inside: avoid; page-break-inside: avoid; }
 figcaption { font-size: 8.5pt; color: var(--muted); margin-top: 3px; }
-.map img { display: block; width: auto; height: auto; max-width: 100%; max-height: 92mm; margin: 0 auto; border: 1px solid var(--rule); }
+.map img { display: block; width: auto; height: auto; max-width: 100%; max-height: 130mm; margin: 0 auto; border: 1px solid var(--rule); }
 .map figcaption { text-align: center; }
 svg.chart { display: block; width: 100%; height: auto; }
 .sweep svg.chart { max-width: 140mm; max-height: 62mm; }
-.profile svg.chart { max-height: 68mm; }
+.profile svg.chart { max-height: 56mm; }
 table.links tbody th { width: 27%; }
 table.links td.way { width: 22%; }
 table { width: 100%; border-collapse: collapse; margin: 2px 0 8px; font-size: 9pt; break-inside: avoid; page-break-inside: avoid; }
