@@ -19,6 +19,9 @@ type LinkBudget struct {
 	RxGainDBi        float64 `json:"rx_gain_dbi"`         // receiving antenna gain towards the path
 	RxFeedlineLossDB float64 `json:"rx_feedline_loss_db"` // whole line at the receiver
 	RxSensitivityDBm float64 `json:"rx_sensitivity_dbm"`  // the level the receiver needs
+	TxBodyLossDB     float64 `json:"tx_body_loss_db"`     // operator's body at a handheld transmitter
+	RxBodyLossDB     float64 `json:"rx_body_loss_db"`     // operator's body at a handheld receiver
+	ClutterLossDB    float64 `json:"clutter_loss_db"`     // terminal clutter at both ends (ITU-R P.2108)
 }
 
 // LinkLevels is the outcome of a LinkBudget: EIRP, the level at the
@@ -31,13 +34,17 @@ type LinkLevels struct {
 
 // Levels adds up the budget:
 //
-//	EIRP = P_tx − L_feed,tx + G_tx
-//	P_rx = EIRP − L_path + G_rx − L_feed,rx
+//	EIRP = P_tx − L_feed,tx + G_tx − L_body,tx
+//	P_rx = EIRP − L_path − L_clutter + G_rx − L_body,rx − L_feed,rx
 //	margin = P_rx − sensitivity
 //
 // All in dB/dBm; a negative margin means the link falls short by that much.
+// The body loss of a handheld transmitter is taken out of its EIRP (what the
+// body absorbs is not radiated); the terminal clutter losses of both ends
+// add to the path loss, as ITU-R P.2108-1 §3.1 adds them to the basic
+// transmission loss.
 func (b LinkBudget) Levels() LinkLevels {
-	eirp := EIRPDBm(b.TxPowerDBm, b.TxFeedlineLossDB, b.TxGainDBi)
-	rx := eirp - b.PathLossDB + b.RxGainDBi - b.RxFeedlineLossDB
+	eirp := EIRPDBm(b.TxPowerDBm, b.TxFeedlineLossDB, b.TxGainDBi) - b.TxBodyLossDB
+	rx := eirp - b.PathLossDB - b.ClutterLossDB + b.RxGainDBi - b.RxBodyLossDB - b.RxFeedlineLossDB
 	return LinkLevels{EIRPDBm: eirp, RxPowerDBm: rx, MarginDB: rx - b.RxSensitivityDBm}
 }

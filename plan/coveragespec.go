@@ -107,7 +107,10 @@ type CoverageSpec struct {
 // take the lower of the two in every cell. Each budget is the link budget
 // of Env.Evaluate without the path loss: EIRP = power (dBm) − feedline
 // loss (dB) + gain (dBi) at the transmitter; the receiving antenna's gain
-// less its feedline loss; the receiver's sensitivity (dBm). A direction
+// less its feedline loss; the receiver's sensitivity (dBm). Gains are the
+// antennas' peak gains (a catalog pattern is not applied cell by cell); a
+// handheld's body loss and each end's ITU-R P.2108-1 §3.1 terminal clutter
+// loss (Antenna.ClutterLossDB) are taken off as Env.Evaluate does. A direction
 // whose transmitter has no power or whose receiver has no sensitivity is
 // left out; the error says when none is left, or a feedline's loss cannot
 // be worked out at freqMHz.
@@ -134,9 +137,17 @@ func CoverageBudgets(site, cell End, freqMHz float64, dir CoverageDirection) ([]
 		if err != nil {
 			return nil, fmt.Errorf("%s: feedline: %w", way.rx.Name, err)
 		}
+		txL, err := way.tx.losses(freqMHz)
+		if err != nil {
+			return nil, err
+		}
+		rxL, err := way.rx.losses(freqMHz)
+		if err != nil {
+			return nil, err
+		}
 		out = append(out, CoverageBudget{
-			EIRPDBm:          EIRPDBm(units.DBmFromW(way.tx.Radio.PowerW), txFL.TotalLossDB, way.tx.Antenna.GainDBi),
-			RxNetGainDB:      way.rx.Antenna.GainDBi - rxFL.TotalLossDB,
+			EIRPDBm:          EIRPDBm(units.DBmFromW(way.tx.Radio.PowerW), txFL.TotalLossDB, way.tx.Antenna.GainDBi) - txL.bodyDB - txL.clutterDB,
+			RxNetGainDB:      way.rx.Antenna.GainDBi - rxFL.TotalLossDB - rxL.bodyDB - rxL.clutterDB,
 			RxSensitivityDBm: way.rx.Radio.SensitivityDBm,
 		})
 	}

@@ -55,12 +55,16 @@ type targetLegs struct {
 	target   Target
 	legs     []leg
 	freqsMHz []float64
+	// near is the near end's antenna; patterned says that either antenna
+	// has a catalog pattern, so the gains depend on each path's direction.
+	near      Antenna
+	patterned bool
 }
 
 // newTargetLegs prepares the legs between near and t in the order of
 // Target.directions. Feedline losses are computed here once.
 func newTargetLegs(near End, t Target) (targetLegs, error) {
-	tl := targetLegs{target: t}
+	tl := targetLegs{target: t, near: near.Antenna, patterned: patterned(near.Antenna, t.Antenna)}
 	for _, d := range t.directions() {
 		if !(d.freqMHz > 0) {
 			return targetLegs{}, fmt.Errorf("%s: no frequency given", t.Name)
@@ -77,6 +81,14 @@ func newTargetLegs(near End, t Target) (targetLegs, error) {
 		if err != nil {
 			return targetLegs{}, fmt.Errorf("%s: feedline: %w", rx.Name, err)
 		}
+		txL, err := tx.losses(d.freqMHz)
+		if err != nil {
+			return targetLegs{}, err
+		}
+		rxL, err := rx.losses(d.freqMHz)
+		if err != nil {
+			return targetLegs{}, err
+		}
 		l := leg{direction: d, budget: LinkBudget{
 			TxPowerDBm:       units.DBmFromW(tx.Radio.PowerW),
 			TxFeedlineLossDB: txFL.TotalLossDB,
@@ -84,6 +96,9 @@ func newTargetLegs(near End, t Target) (targetLegs, error) {
 			RxGainDBi:        rx.Antenna.GainDBi,
 			RxFeedlineLossDB: rxFL.TotalLossDB,
 			RxSensitivityDBm: rx.Radio.SensitivityDBm,
+			TxBodyLossDB:     txL.bodyDB,
+			RxBodyLossDB:     rxL.bodyDB,
+			ClutterLossDB:    txL.clutterDB + rxL.clutterDB,
 		}}
 		l.lossIndex = slices.Index(tl.freqsMHz, d.freqMHz)
 		if l.lossIndex < 0 {
@@ -111,14 +126,40 @@ func (e *Env) pathLosses(g *Geometry, tl *targetLegs, nearHeightM float64, loss 
 	return nil
 }
 
+// towardFor returns the directions the path of g (near end at g.From)
+// leaves both ends, with the near antenna nearHeightM above the ground, or
+// nil when neither antenna has a pattern (the peak gains then hold).
+func (e *Env) towardFor(g *Geometry, tl *targetLegs, nearHeightM float64) (*towardPath, error) {
+	if !tl.patterned {
+		return nil, nil
+	}
+	t, err := e.toward(g, nearHeightM, tl.target.Antenna.HeightM)
+	if err != nil {
+		return nil, err
+	}
+	return &t, nil
+}
+
 // margins fills out[k] with the margin in dB of leg k given the path
-// losses from pathLosses, and returns the smallest. The figures are those
-// of Env.Evaluate for the same ends.
-func (tl *targetLegs) margins(loss *[2]float64, out []float64) float64 {
+// losses from pathLosses and, for antennas with a pattern, the directions
+// from towardFor, and returns the smallest. The figures are those of
+// Env.Evaluate for the same ends.
+func (tl *targetLegs) margins(loss *[2]float64, tw *towardPath, out []float64) float64 {
 	worst := math.Inf(1)
+	var nearG, farG float64
+	if tw != nil {
+		nearG = tl.near.GainTowardDBi(tw.fromAzDeg, tw.fromElDeg)
+		farG = tl.target.Antenna.GainTowardDBi(tw.toAzDeg, tw.toElDeg)
+	}
 	for k := range tl.legs {
 		b := tl.legs[k].budget
 		b.PathLossDB = loss[tl.legs[k].lossIndex]
+		if tw != nil {
+			b.TxGainDBi, b.RxGainDBi = nearG, farG
+			if !tl.legs[k].nearTx {
+				b.TxGainDBi, b.RxGainDBi = farG, nearG
+			}
+		}
 		m := b.Levels().MarginDB
 		out[k] = m
 		worst = math.Min(worst, m)

@@ -154,18 +154,38 @@ type LinkResult struct {
 	// RxAzimuthDeg is the azimuth at the receiving end towards the
 	// transmitter. On a geodesic it differs from AzimuthDeg ± 180° (Karney
 	// 2013: the forward azimuths at the two ends are not opposite).
-	RxAzimuthDeg     float64    `json:"rx_azimuth_deg"`
-	Terrain          string     `json:"terrain"` // terrain, smooth earth or profile file
-	Model            string     `json:"model"`
-	FreeSpaceLossDB  float64    `json:"free_space_loss_db"`
-	ExcessLossDB     float64    `json:"excess_loss_db"`
-	PathLossDB       float64    `json:"path_loss_db"`
-	TxPowerDBm       float64    `json:"tx_power_dbm"`
-	TxFeedlineLossDB float64    `json:"tx_feedline_loss_db"`
-	TxGainDBi        float64    `json:"tx_gain_dbi"`
-	EIRPDBm          float64    `json:"eirp_dbm"`
-	RxGainDBi        float64    `json:"rx_gain_dbi"`
-	RxFeedlineLossDB float64    `json:"rx_feedline_loss_db"`
+	RxAzimuthDeg     float64 `json:"rx_azimuth_deg"`
+	Terrain          string  `json:"terrain"` // terrain, smooth earth or profile file
+	Model            string  `json:"model"`
+	FreeSpaceLossDB  float64 `json:"free_space_loss_db"`
+	ExcessLossDB     float64 `json:"excess_loss_db"`
+	PathLossDB       float64 `json:"path_loss_db"`
+	TxPowerDBm       float64 `json:"tx_power_dbm"`
+	TxFeedlineLossDB float64 `json:"tx_feedline_loss_db"`
+	TxGainDBi        float64 `json:"tx_gain_dbi"` // the transmitting antenna's peak gain
+	EIRPDBm          float64 `json:"eirp_dbm"`    // toward the path
+	RxGainDBi        float64 `json:"rx_gain_dbi"` // the receiving antenna's peak gain
+	RxFeedlineLossDB float64 `json:"rx_feedline_loss_db"`
+	// The antennas toward the path: catalog type (omitted without one),
+	// where a directional one points (null for others), the elevation
+	// angle the path leaves each end at, and the pattern gain toward the
+	// path, which the budget uses.
+	TxAntenna           string   `json:"tx_antenna,omitempty"`
+	RxAntenna           string   `json:"rx_antenna,omitempty"`
+	TxBearingDeg        *float64 `json:"tx_bearing_deg"`
+	RxBearingDeg        *float64 `json:"rx_bearing_deg"`
+	TxElevationDeg      float64  `json:"tx_elevation_deg"`
+	RxElevationDeg      float64  `json:"rx_elevation_deg"`
+	TxGainTowardPathDBi float64  `json:"tx_gain_toward_path_dbi"`
+	RxGainTowardPathDBi float64  `json:"rx_gain_toward_path_dbi"`
+	TxBodyLossDB        float64  `json:"tx_body_loss_db"`
+	RxBodyLossDB        float64  `json:"rx_body_loss_db"`
+	TxClutterLossDB     float64  `json:"tx_clutter_loss_db"` // ITU-R P.2108-1 §3.1
+	RxClutterLossDB     float64  `json:"rx_clutter_loss_db"`
+	ClutterLossDB       float64  `json:"clutter_loss_db"` // both ends'
+	// Notes: an antenna used outside its band, a directional antenna
+	// taken as aimed at the far end.
+	Notes            []string   `json:"notes,omitempty"`
 	RxPowerDBm       float64    `json:"rx_power_dbm"`
 	RxSensitivityDBm float64    `json:"rx_sensitivity_dbm"`
 	MarginDB         float64    `json:"margin_db"`
@@ -186,11 +206,16 @@ type LinkResult struct {
 	RxGroundM float64 `json:"rx_ground_m"`
 }
 
-// Evaluate computes the budget from tx to rx over g. tx is at g.From when
-// txAtFrom is true, else at g.To; the path loss is computed on g in its own
-// orientation (ITU-R P.526 diffraction is reciprocal), so one Geometry
-// serves both directions. Ends closer than SamePlaceM give an error
-// wrapping ErrSamePlace.
+// Evaluate computes the budget from tx to rx over g at freqMHz (LinkBudget:
+// dBm and dB). tx is at g.From when txAtFrom is true, else at g.To; the path
+// loss is computed on g in its own orientation (ITU-R P.526 diffraction is
+// reciprocal), so one Geometry serves both directions. Each antenna's gain is
+// its gain toward the path (Antenna.GainTowardDBi: the catalog pattern
+// toward the path's azimuth and its elevation angle at that end, the horizon
+// angles of ITU-R P.452-17 Attachment 2 to Annex 1); a handheld's body loss
+// comes off the EIRP or the received level, and each end's terminal clutter
+// loss (ITU-R P.2108-1 §3.1, Antenna.ClutterLossDB) adds to the path loss.
+// Ends closer than SamePlaceM give an error wrapping ErrSamePlace.
 func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) (LinkResult, error) {
 	if !(freqMHz > 0) {
 		return LinkResult{}, errors.New("no frequency given")
@@ -215,14 +240,33 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		return LinkResult{}, fmt.Errorf("%s: feedline: %w", rx.Name, err)
 	}
 	txLine, rxLine := txFL.TotalLossDB, rxFL.TotalLossDB
+	txL, err := tx.losses(freqMHz)
+	if err != nil {
+		return LinkResult{}, err
+	}
+	rxL, err := rx.losses(freqMHz)
+	if err != nil {
+		return LinkResult{}, err
+	}
+	tw, err := e.toward(g, fromEnd.Antenna.HeightM, toEnd.Antenna.HeightM)
+	if err != nil {
+		return LinkResult{}, err
+	}
+	txAz, txEl, rxAz, rxEl := tw.fromAzDeg, tw.fromElDeg, tw.toAzDeg, tw.toElDeg
+	if !txAtFrom {
+		txAz, txEl, rxAz, rxEl = rxAz, rxEl, txAz, txEl
+	}
 	b := LinkBudget{
 		TxPowerDBm:       units.DBmFromW(tx.Radio.PowerW),
 		TxFeedlineLossDB: txLine,
-		TxGainDBi:        tx.Antenna.GainDBi,
+		TxGainDBi:        tx.Antenna.GainTowardDBi(txAz, txEl),
 		PathLossDB:       loss.PathLossDB,
-		RxGainDBi:        rx.Antenna.GainDBi,
+		RxGainDBi:        rx.Antenna.GainTowardDBi(rxAz, rxEl),
 		RxFeedlineLossDB: rxLine,
 		RxSensitivityDBm: rx.Radio.SensitivityDBm,
+		TxBodyLossDB:     txL.bodyDB,
+		RxBodyLossDB:     rxL.bodyDB,
+		ClutterLossDB:    txL.clutterDB + rxL.clutterDB,
 	}
 	lv := b.Levels()
 	n := len(g.Profile.DistM)
@@ -237,10 +281,26 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		PathLossDB:       loss.PathLossDB,
 		TxPowerDBm:       b.TxPowerDBm,
 		TxFeedlineLossDB: txLine,
-		TxGainDBi:        b.TxGainDBi,
+		TxGainDBi:        tx.Antenna.GainDBi,
 		EIRPDBm:          lv.EIRPDBm,
-		RxGainDBi:        b.RxGainDBi,
+		RxGainDBi:        rx.Antenna.GainDBi,
 		RxFeedlineLossDB: rxLine,
+
+		TxAntenna:           tx.Antenna.Name(),
+		RxAntenna:           rx.Antenna.Name(),
+		TxBearingDeg:        aimOf(tx.Antenna, txAz),
+		RxBearingDeg:        aimOf(rx.Antenna, rxAz),
+		TxElevationDeg:      txEl,
+		RxElevationDeg:      rxEl,
+		TxGainTowardPathDBi: b.TxGainDBi,
+		RxGainTowardPathDBi: b.RxGainDBi,
+		TxBodyLossDB:        b.TxBodyLossDB,
+		RxBodyLossDB:        b.RxBodyLossDB,
+		TxClutterLossDB:     txL.clutterDB,
+		RxClutterLossDB:     rxL.clutterDB,
+		ClutterLossDB:       b.ClutterLossDB,
+		Notes:               append(tx.Antenna.notes(tx.Name, freqMHz), rx.Antenna.notes(rx.Name, freqMHz)...),
+
 		RxPowerDBm:       lv.RxPowerDBm,
 		RxSensitivityDBm: b.RxSensitivityDBm,
 		MarginDB:         lv.MarginDB,
@@ -275,6 +335,16 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		r.Probability = &p
 	}
 	return r, nil
+}
+
+// aimOf returns where a directional antenna points for a path leaving it at
+// azimuthDeg, nil for an antenna without a main beam in azimuth.
+func aimOf(a Antenna, azimuthDeg float64) *float64 {
+	if !a.Directional() {
+		return nil
+	}
+	b := a.AimDeg(azimuthDeg)
+	return &b
 }
 
 // PathLoss returns the propagation loss over g between antennas hFromM and

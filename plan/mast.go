@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/propagation"
@@ -12,6 +13,7 @@ import (
 // MastRow is one mast height and cable of a sweep.
 type MastRow struct {
 	HeightM          float64 `json:"height_m"`
+	Antenna          string  `json:"antenna,omitempty"` // when the sweep tries antennas
 	Cable            string  `json:"cable"`
 	CableLengthM     float64 `json:"cable_length_m"`
 	CableMassKg      float64 `json:"cable_mass_kg"`
@@ -31,6 +33,7 @@ type MastRow struct {
 // MastChoice names a mast height and cable.
 type MastChoice struct {
 	HeightM      float64 `json:"height_m"`
+	Antenna      string  `json:"antenna,omitempty"`
 	Cable        string  `json:"cable"`
 	CableLengthM float64 `json:"cable_length_m"`
 	CableMassKg  float64 `json:"cable_mass_kg"`
@@ -71,7 +74,10 @@ func (m *MastResult) cable(name string, sweep *MastSweep) feedline.Cable {
 // lowest mast that meets the requirement, then the lightest cable (mass per
 // metre × length) at that height, among the rows whose public RF-exposure
 // keep-out (exposure.Evaluate with the station's exposure habits, FCC OET
-// Bulletin 65 far field) is within m.KeepoutLimitM when that is set.
+// Bulletin 65 far field) is within m.KeepoutLimitM when that is set. When m
+// lists antennas, each is tried in place of the station's (catalog gain and
+// pattern, the station's bearing) and the recommendation takes the lowest
+// mast, then the first antenna in m's order, then the lightest cable.
 // Terrain profiles are extracted once per target and reused for every
 // height.
 func (e *Env) SweepMast(st Station, targets []Target, m *MastSweep, req Requirement) (*MastResult, error) {
@@ -91,53 +97,70 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 	if len(targets) == 0 {
 		return nil, fmt.Errorf("mast sweep: the plan has no targets to reach")
 	}
+	ants := []*antenna.Antenna{nil}
+	if len(m.Antennas) > 0 {
+		ants = ants[:0]
+		for i := range m.Antennas {
+			ants = append(ants, &m.Antennas[i])
+		}
+	}
+	antIndex := map[string]int{}
 	for _, g := range geoms {
 		g.modelWarn = 0
 	}
 	for _, h := range m.Heights.ValuesM() {
-		for _, c := range m.Cables {
-			s := st
-			s.Antenna.HeightM = h
-			s.Feedline = mastFeedline(st.Feedline, c, h, m)
-			length := s.Feedline.LengthM
-			row := MastRow{HeightM: h, Cable: c.Name, CableLengthM: length, CableMassKg: c.MassKgPerM * length, WorstMarginDB: math.Inf(1)}
-			required := 0
-			for i, t := range targets {
-				if t.Optional {
-					continue
+		for ai, at := range ants {
+			for _, c := range m.Cables {
+				s := st
+				if at != nil {
+					s.Antenna = withType(st.Antenna, *at)
+					antIndex[at.Name] = ai
 				}
-				required++
-				links, err := e.targetLinks(geoms[i], s.End, t, need)
-				if err != nil {
-					return nil, err
+				s.Antenna.HeightM = h
+				s.Feedline = mastFeedline(st.Feedline, c, h, m)
+				length := s.Feedline.LengthM
+				row := MastRow{HeightM: h, Cable: c.Name, CableLengthM: length, CableMassKg: c.MassKgPerM * length, WorstMarginDB: math.Inf(1)}
+				if at != nil {
+					row.Antenna = at.Name
 				}
-				if links[0].SamePlace { // nothing to reach: left out
-					required--
-					continue
-				}
-				if row.FeedlineLossDB == 0 {
-					// The station transmits in the first direction
-					// (Target.directions): its line at that frequency.
-					row.FeedlineLossDB = links[0].TxFeedlineLossDB
-				}
-				for _, l := range links {
-					if l.MarginDB < row.WorstMarginDB {
-						row.WorstMarginDB = l.MarginDB
-						row.WorstLink = fmt.Sprintf("%s (%s)", t.Name, l.Direction)
+				required := 0
+				for i, t := range targets {
+					if t.Optional {
+						continue
+					}
+					required++
+					links, err := e.targetLinks(geoms[i], s.End, t, need)
+					if err != nil {
+						return nil, err
+					}
+					if links[0].SamePlace { // nothing to reach: left out
+						required--
+						continue
+					}
+					if row.FeedlineLossDB == 0 {
+						// The station transmits in the first direction
+						// (Target.directions): its line at that frequency.
+						row.FeedlineLossDB = links[0].TxFeedlineLossDB
+					}
+					for _, l := range links {
+						if l.MarginDB < row.WorstMarginDB {
+							row.WorstMarginDB = l.MarginDB
+							row.WorstLink = fmt.Sprintf("%s (%s)", t.Name, l.Direction)
+						}
 					}
 				}
+				if required == 0 {
+					return nil, fmt.Errorf("mast sweep: no required target away from %s's place; mark at least one target as required", st.Name)
+				}
+				row.MeetsRequirement = row.WorstMarginDB >= need
+				ex, err := stationExposureReport(s, targets, 0, false)
+				if err != nil {
+					return nil, fmt.Errorf("mast sweep: %s at %g m: exposure: %w", c.Name, h, err)
+				}
+				row.KeepoutPublicM = ex.KeepoutPublicM
+				row.OverKeepoutLimit = m.KeepoutLimitM > 0 && row.KeepoutPublicM > m.KeepoutLimitM
+				res.Rows = append(res.Rows, row)
 			}
-			if required == 0 {
-				return nil, fmt.Errorf("mast sweep: no required target away from %s's place; mark at least one target as required", st.Name)
-			}
-			row.MeetsRequirement = row.WorstMarginDB >= need
-			ex, err := stationExposureReport(s, targets, 0, false)
-			if err != nil {
-				return nil, fmt.Errorf("mast sweep: %s at %g m: exposure: %w", c.Name, h, err)
-			}
-			row.KeepoutPublicM = ex.KeepoutPublicM
-			row.OverKeepoutLimit = m.KeepoutLimitM > 0 && row.KeepoutPublicM > m.KeepoutLimitM
-			res.Rows = append(res.Rows, row)
 		}
 	}
 	for i := range res.Rows {
@@ -145,9 +168,11 @@ func (e *Env) sweep(st Station, targets []Target, geoms []*Geometry, m *MastSwee
 		if !r.MeetsRequirement || r.OverKeepoutLimit {
 			continue
 		}
-		if res.Recommended == nil || r.HeightM < res.Recommended.HeightM ||
-			(r.HeightM == res.Recommended.HeightM && r.CableMassKg < res.Recommended.CableMassKg) {
-			res.Recommended = &MastChoice{HeightM: r.HeightM, Cable: r.Cable, CableLengthM: r.CableLengthM, CableMassKg: r.CableMassKg}
+		rec := res.Recommended
+		if rec == nil || r.HeightM < rec.HeightM ||
+			(r.HeightM == rec.HeightM && antIndex[r.Antenna] < antIndex[rec.Antenna]) ||
+			(r.HeightM == rec.HeightM && r.Antenna == rec.Antenna && r.CableMassKg < rec.CableMassKg) {
+			res.Recommended = &MastChoice{HeightM: r.HeightM, Antenna: r.Antenna, Cable: r.Cable, CableLengthM: r.CableLengthM, CableMassKg: r.CableMassKg}
 		}
 	}
 	var warns []propagation.ITMWarnings

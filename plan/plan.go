@@ -3,6 +3,7 @@ package plan
 import (
 	"time"
 
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/units"
@@ -42,6 +43,8 @@ type Plan struct {
 	Mast         *MastSweep
 	Routes       []string // GPX files with tracks, resolved
 	Sites        []string // GPX files with candidate waypoints, resolved
+	Roads        []string // GPX files whose tracks and routes are roads a relay can be brought along, resolved
+	Relays       []RelaySpec
 	InputFiles   []string // every file the plan reads, for output guards
 
 	// Defaults is the kit under `defaults:` (a handheld: 0 dBi at 1.5 m
@@ -57,8 +60,35 @@ type MastSweep struct {
 	Cables  []feedline.Cable // from the catalog, or described by the user
 	RunM    float64          // cable from the mast foot to the radio, metres
 	SlackM  float64          // extra cable for drip loops and the mast head, metres
+	// Antennas are catalog antennas to try in place of the station's, in
+	// the order of preference (the one you would rather carry first);
+	// none keeps the station's own.
+	Antennas []antenna.Antenna
 	// KeepoutLimitM, when above 0, is the largest public RF-exposure
 	// keep-out radius in metres the site allows (the clear space around
 	// the mast foot); rows above it are marked and never recommended.
 	KeepoutLimitM float64
+}
+
+// withType returns a with the catalog type t in place of its own (the
+// catalog's gain; bearing, body loss and clutter kept), as AntennaOptions
+// would set it.
+func withType(a Antenna, t antenna.Antenna) Antenna {
+	a.Type, a.GainDBi = &t, t.GainDBi
+	if t.Handheld && a.BodyLoss == "" {
+		a.BodyLossDB, a.BodyLoss = antenna.AtFace.BodyLossDB(), antenna.AtFace.String()+", typical"
+	}
+	return a
+}
+
+// RelaySpec is a relay the plan asks for (`relays:`): two parties who
+// cannot hear each other, by name (a station, a target, a waypoint or
+// LAT,LON), the relay's antenna heights to try, the search radius and the
+// frequencies of the two links (0: the plan's frequency).
+type RelaySpec struct {
+	Between, And       string
+	HeightsM           []float64 // none: the defaults' antenna height
+	RadiusM            float64   // 0: the distance between the parties
+	FreqAMHz, FreqBMHz float64
+	Line               int // in the plan file, for errors
 }

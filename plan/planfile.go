@@ -12,6 +12,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
@@ -206,7 +207,7 @@ func (p *planParser) paths(n *yaml.Node, field string) ([]string, error) {
 	return []string{s}, nil
 }
 
-var topFields = []string{"name", "area", "date", "timezone", "briefing", "frequency", "terrain", "waypoints", "require", "k", "model", "itm", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites"}
+var topFields = []string{"name", "area", "date", "timezone", "briefing", "frequency", "terrain", "waypoints", "require", "k", "model", "itm", "polarization", "ground", "defaults", "stations", "targets", "mast", "routes", "sites", "roads", "relays"}
 
 func (p *planParser) parse(data []byte) (*Plan, error) {
 	if len(bytes.TrimSpace(data)) == 0 {
@@ -351,7 +352,19 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 		}
 		pl.Mast = m
 	}
-	for _, key := range []string{"routes", "sites"} {
+	if n := f["relays"]; n != nil {
+		if n.Kind != yaml.SequenceNode {
+			return nil, p.errf(n, "relays", "expected a list of relays ({between: A, and: B, height: 6m}), found %s", describe(n))
+		}
+		for i, c := range n.Content {
+			r, err := p.relay(c, fmt.Sprintf("relays[%d]", i))
+			if err != nil {
+				return nil, err
+			}
+			pl.Relays = append(pl.Relays, r)
+		}
+	}
+	for _, key := range []string{"routes", "sites", "roads"} {
 		n := f[key]
 		if n == nil {
 			continue
@@ -365,10 +378,13 @@ func (p *planParser) parse(data []byte) (*Plan, error) {
 				return nil, p.errf(n, key, "%s: %v", fp, unwrapPathError(err))
 			}
 		}
-		if key == "routes" {
+		switch key {
+		case "routes":
 			pl.Routes = files
-		} else {
+		case "sites":
 			pl.Sites = files
+		default:
+			pl.Roads = files
 		}
 		pl.InputFiles = append(pl.InputFiles, files...)
 	}
@@ -615,7 +631,7 @@ type kit struct {
 }
 
 func (p *planParser) defaults(n *yaml.Node, k *kit) error {
-	f, err := p.fields(n, "defaults", "radio", "antenna", "feedline")
+	f, err := p.fields(n, "defaults", "radio", "antenna", "feedline", OptBodyLoss, OptClutter)
 	if err != nil {
 		return err
 	}
@@ -640,19 +656,37 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 		}
 	}
 	if c := f["antenna"]; c != nil {
-		af, err := p.fields(c, joinField(field, "antenna"), "gain", "height")
+		af := fieldsOf(c)
+		if c.Kind == yaml.MappingNode {
+			var err error
+			if af, err = p.fields(c, joinField(field, "antenna"), OptAntennaType, OptBearing, OptGain, OptHeight); err != nil {
+				return err
+			}
+		}
+		text, err := p.texts(af, joinField(field, "antenna"))
 		if err != nil {
 			return err
 		}
-		if v := af["gain"]; v != nil {
-			if k.antenna.GainDBi, err = p.quantity(v, joinField(field, "antenna.gain"), units.ParseGainDBi); err != nil {
-				return err
-			}
+		o := AntennaOptions{Type: text[OptAntennaType], Bearing: text[OptBearing], Gain: text[OptGain], Height: text[OptHeight]}
+		if err := p.options(c, joinField(field, "antenna"), af, o.Apply(&k.antenna)); err != nil {
+			return err
 		}
-		if v := af["height"]; v != nil {
-			if k.antenna.HeightM, err = p.quantity(v, joinField(field, "antenna.height"), units.ParseLengthM); err != nil {
-				return err
-			}
+	}
+	// body_loss and clutter belong to the end, not to its antenna mapping.
+	ef := map[string]*yaml.Node{}
+	for _, key := range []string{OptBodyLoss, OptClutter} {
+		if v := f[key]; v != nil {
+			ef[key] = v
+		}
+	}
+	if len(ef) > 0 {
+		text, err := p.texts(ef, field)
+		if err != nil {
+			return err
+		}
+		o := AntennaOptions{BodyLoss: text[OptBodyLoss], Clutter: text[OptClutter]}
+		if err := p.options(nil, field, ef, o.Apply(&k.antenna)); err != nil {
+			return err
 		}
 	}
 	if c := f["feedline"]; c != nil {
@@ -699,6 +733,12 @@ func (p *planParser) kit(f map[string]*yaml.Node, field string, k *kit) error {
 	return nil
 }
 
+// fieldsOf is the short form of antenna: a catalog name alone
+// ("antenna: yagi-3el-2m"), as the mapping {type: …} would give it.
+func fieldsOf(n *yaml.Node) map[string]*yaml.Node {
+	return map[string]*yaml.Node{OptAntennaType: n}
+}
+
 // position resolves "at": a waypoint name or LAT,LON.
 func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
 	s, err := p.scalar(n, field)
@@ -723,7 +763,7 @@ func (p *planParser) position(n *yaml.Node, field string) (orb.Point, error) {
 }
 
 func (p *planParser) station(n *yaml.Node, field string, def kit) (Station, error) {
-	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", "exposure", "coverage")
+	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", OptBodyLoss, OptClutter, "exposure", "coverage")
 	if err != nil {
 		return Station{}, err
 	}
@@ -849,7 +889,7 @@ func (p *planParser) end(n *yaml.Node, f map[string]*yaml.Node, field string, de
 }
 
 func (p *planParser) target(n *yaml.Node, field string, def kit) (Target, error) {
-	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", "listen", "transmit", "frequency", "optional")
+	f, err := p.fields(n, field, "name", "at", "radio", "antenna", "feedline", OptBodyLoss, OptClutter, "listen", "transmit", "frequency", "optional")
 	if err != nil {
 		return Target{}, err
 	}
@@ -911,7 +951,7 @@ func (p *planParser) exposure(n *yaml.Node, field string, e *exposure.Input) err
 }
 
 func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
-	f, err := p.fields(n, "mast", "heights", "cables", "run", "slack", "keepout_limit")
+	f, err := p.fields(n, "mast", "heights", "cables", "run", "slack", "antennas", "keepout_limit")
 	if err != nil {
 		return nil, err
 	}
@@ -946,6 +986,23 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 		}
 		m.Cables = append(m.Cables, c)
 	}
+	if c := f["antennas"]; c != nil {
+		if c.Kind != yaml.SequenceNode || len(c.Content) == 0 {
+			return nil, p.errf(c, "mast.antennas", "expected a list of catalog antennas (see `mastlink antenna --list`), found %s", describe(c))
+		}
+		for i, cc := range c.Content {
+			fld := fmt.Sprintf("mast.antennas[%d]", i)
+			name, err := p.scalar(cc, fld)
+			if err != nil {
+				return nil, err
+			}
+			a, err := antenna.Lookup(name)
+			if err != nil {
+				return nil, p.wrap(cc, fld, err)
+			}
+			m.Antennas = append(m.Antennas, a)
+		}
+	}
 	if c := f["run"]; c != nil {
 		if m.RunM, err = p.quantity(c, "mast.run", units.ParseLengthM); err != nil {
 			return nil, err
@@ -965,4 +1022,75 @@ func (p *planParser) mast(n *yaml.Node) (*MastSweep, error) {
 		}
 	}
 	return m, nil
+}
+
+// relay reads one entry of relays:. The parties are resolved by the relay
+// search (they may be stations, targets or waypoints).
+func (p *planParser) relay(n *yaml.Node, field string) (RelaySpec, error) {
+	f, err := p.fields(n, field, "between", "and", "height", "radius", "frequency_a", "frequency_b")
+	if err != nil {
+		return RelaySpec{}, err
+	}
+	r := RelaySpec{Line: n.Line}
+	for _, key := range []string{"between", "and"} {
+		c := f[key]
+		if c == nil {
+			return RelaySpec{}, p.errf(n, joinField(field, key), "missing: name the two parties (between: A, and: B)")
+		}
+		s, err := p.scalar(c, joinField(field, key))
+		if err != nil {
+			return RelaySpec{}, err
+		}
+		if key == "between" {
+			r.Between = s
+		} else {
+			r.And = s
+		}
+	}
+	if c := f["height"]; c != nil {
+		s, err := p.scalar(c, joinField(field, "height"))
+		if err != nil {
+			return RelaySpec{}, err
+		}
+		if r.HeightsM, err = ParseRelayHeights(s); err != nil {
+			return RelaySpec{}, p.wrap(c, joinField(field, "height"), err)
+		}
+	}
+	if c := f["radius"]; c != nil {
+		if r.RadiusM, err = p.quantity(c, joinField(field, "radius"), units.ParseLengthM); err != nil {
+			return RelaySpec{}, err
+		}
+	}
+	if c := f["frequency_a"]; c != nil {
+		if r.FreqAMHz, err = p.quantity(c, joinField(field, "frequency_a"), units.ParseFreqMHz); err != nil {
+			return RelaySpec{}, err
+		}
+	}
+	if c := f["frequency_b"]; c != nil {
+		if r.FreqBMHz, err = p.quantity(c, joinField(field, "frequency_b"), units.ParseFreqMHz); err != nil {
+			return RelaySpec{}, err
+		}
+	}
+	return r, nil
+}
+
+// ParseRelayHeights reads the relay antenna heights to try: one length
+// ("6m") or a range ("2m..10m step 2m", units.ParseLengthRange), metres.
+func ParseRelayHeights(s string) ([]float64, error) {
+	if strings.Contains(s, "..") {
+		r, err := units.ParseLengthRange(s)
+		if err != nil {
+			return nil, err
+		}
+		hs := r.ValuesM()
+		if len(hs) > 255 {
+			return nil, fmt.Errorf("%q gives %d heights; give at most 255", s, len(hs))
+		}
+		return hs, nil
+	}
+	h, err := units.ParseLengthM(s)
+	if err != nil {
+		return nil, err
+	}
+	return []float64{h}, nil
 }

@@ -287,7 +287,11 @@ func (e *Env) nearMargins(g *Geometry, pos orb.Point, tl *targetLegs, nearHeight
 	if err := e.lossesAt(g, tl, nearHeightM, &loss); err != nil {
 		return 0, err
 	}
-	return tl.margins(&loss, out), nil
+	tw, err := e.towardFor(g, tl, nearHeightM)
+	if err != nil {
+		return 0, err
+	}
+	return tl.margins(&loss, tw, out), nil
 }
 
 // lossesAt is pathLosses, except that ends closer than minPathM are taken

@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/gpx"
@@ -51,6 +52,9 @@ type SiteResult struct {
 	// requirement on every required link: from the sweep when one is
 	// given, else the station's own height; null when none does.
 	MastM *float64 `json:"mast_m"`
+	// Antenna is the first antenna of the sweep's list that meets it at
+	// MastM (sweep with antennas only).
+	Antenna string `json:"antenna,omitempty"`
 	// feedline.Cable is the lightest cable that meets it at MastM (sweep only).
 	Cable   string       `json:"cable,omitempty"`
 	Targets []SiteTarget `json:"targets"`
@@ -97,6 +101,8 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	}
 	type config struct {
 		heightM float64
+		antenna string // "" keeps the station's
+		antIdx  int    // its place in req.Mast.Antennas, the order of preference
 		cable   feedline.Cable
 		massKg  float64
 		legs    []targetLegs
@@ -105,16 +111,29 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 	var configs []config // by height, then cable
 	if req.Mast != nil {
 		heights = req.Mast.Heights.ValuesM()
+		ants := []*antenna.Antenna{nil}
+		if len(req.Mast.Antennas) > 0 {
+			ants = ants[:0]
+			for i := range req.Mast.Antennas {
+				ants = append(ants, &req.Mast.Antennas[i])
+			}
+		}
 		for _, h := range heights {
-			for _, c := range req.Mast.Cables {
-				s := req.Station
-				s.Antenna.HeightM = h
-				s.Feedline = mastFeedline(req.Station.Feedline, c, h, req.Mast)
-				cl, err := prepareLegs(s, req.Targets)
-				if err != nil {
-					return nil, err
+			for ai, at := range ants {
+				for _, c := range req.Mast.Cables {
+					s := req.Station
+					name := ""
+					if at != nil {
+						s.Antenna, name = withType(s.Antenna, *at), at.Name
+					}
+					s.Antenna.HeightM = h
+					s.Feedline = mastFeedline(req.Station.Feedline, c, h, req.Mast)
+					cl, err := prepareLegs(s, req.Targets)
+					if err != nil {
+						return nil, err
+					}
+					configs = append(configs, config{heightM: h, antenna: name, antIdx: ai, cable: c, massKg: c.MassKgPerM * s.Feedline.LengthM, legs: cl})
 				}
-				configs = append(configs, config{heightM: h, cable: c, massKg: c.MassKgPerM * s.Feedline.LengthM, legs: cl})
 			}
 		}
 	}
@@ -137,14 +156,22 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 		}
 		var loss [2]float64
 		var buf [2]float64
+		var tw *towardPath
 		for k := 0; k < nk; k++ {
 			cf := &configs[k]
 			if k == 0 || cf.heightM != configs[k-1].heightM {
 				if err := e.lossesAt(g, &cf.legs[t], cf.heightM, &loss); err != nil {
 					return fmt.Errorf("%s: %w", req.Candidates[c].Name, err)
 				}
+				tw = nil
 			}
-			swept[i*nk+k] = cf.legs[t].margins(&loss, buf[:])
+			if tw == nil && cf.legs[t].patterned {
+				var err error
+				if tw, err = e.towardFor(g, &cf.legs[t], cf.heightM); err != nil {
+					return fmt.Errorf("%s: %w", req.Candidates[c].Name, err)
+				}
+			}
+			swept[i*nk+k] = cf.legs[t].margins(&loss, tw, buf[:])
 		}
 		warns[i] = g.modelWarn
 		return nil
@@ -192,7 +219,7 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 				s.MastM = &h
 			}
 		} else {
-			bestMass := math.Inf(1)
+			bestMass, bestAnt := math.Inf(1), len(configs)
 			for k := range configs {
 				cf := &configs[k]
 				if s.MastM != nil && cf.heightM != *s.MastM {
@@ -205,9 +232,9 @@ func (e *Env) RankSites(ctx context.Context, req SitesRequest, progress Progress
 						break
 					}
 				}
-				if ok && cf.massKg < bestMass {
+				if ok && (cf.antIdx < bestAnt || (cf.antIdx == bestAnt && cf.massKg < bestMass)) {
 					h := cf.heightM
-					s.MastM, s.Cable, bestMass = &h, cf.cable.Name, cf.massKg
+					s.MastM, s.Antenna, s.Cable, bestMass, bestAnt = &h, cf.antenna, cf.cable.Name, cf.massKg, cf.antIdx
 				}
 			}
 		}

@@ -4,8 +4,10 @@ package plan
 // and the kit at each.
 
 import (
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/exposure"
 	"github.com/mastlink/mastlink/plan/feedline"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 )
 
@@ -15,11 +17,34 @@ type Radio struct {
 	SensitivityDBm float64 // receiver sensitivity (e.g. 12 dB SINAD), dBm
 }
 
-// Antenna is an antenna's gain toward the horizon and its height above the
-// ground at its foot.
+// Antenna is an antenna as it stands at one end of a link: its peak gain,
+// its height above the ground at its foot, the catalog type whose pattern
+// shapes the gain toward each path, where a directional one is aimed, and
+// the losses of its surroundings (an operator's body, terminal clutter).
+// The zero value is an isotropic antenna of 0 dBi at ground level in the
+// open. See AntennaOptions for the one parser of these fields.
 type Antenna struct {
-	GainDBi float64 // dBi
+	GainDBi float64 // peak gain, dBi (the catalog's unless overridden)
 	HeightM float64 // metres above ground
+
+	// Type is the catalog entry whose pattern gives the gain toward a
+	// path (antenna.Antenna.RelativeDB added to GainDBi); nil means the
+	// same GainDBi in every direction, as a bare gain figure.
+	Type *antenna.Antenna
+	// BearingDeg is where a directional Type is aimed, degrees clockwise
+	// from true north; used only when Aimed.
+	BearingDeg float64
+	// Aimed says BearingDeg was given. A directional antenna that is not
+	// aimed is taken as pointed at the far end of each link.
+	Aimed bool
+	// BodyLossDB is the loss of an operator's body next to a handheld's
+	// antenna, dB (positive); BodyLoss says how it was chosen ("face,
+	// typical", "belt, typical", "given"; "" for none).
+	BodyLossDB float64
+	BodyLoss   string
+	// Clutter is the terminal clutter class around the antenna (ITU-R
+	// P.2108-1 §3.1); propagation.NoClutter adds nothing.
+	Clutter propagation.ClutterClass
 }
 
 // End is one end of a link: a named position with its kit.

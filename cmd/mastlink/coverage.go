@@ -31,11 +31,12 @@ type coverageOptions struct {
 // --from still apply.
 var coveragePlanFlags = []string{"power", "gain", "cable", "cable-length", "connectors", "swr", "sens",
 	"target-power", "target-gain", "target-cable", "target-cable-length", "target-connectors", "target-swr", "rx-sens",
-	"margin", "reliability", "sigma", "k", "polarization", "ground"}
+	"margin", "reliability", "sigma", "k", "polarization", "ground",
+	"antenna", "bearing", "body-loss", "clutter", "target-antenna", "target-bearing", "target-body-loss", "target-clutter"}
 
 // coverageKitFlags are the flags that make the kit known (so the map's
 // value defaults to the margin).
-var coverageKitFlags = []string{"power", "gain", "cable", "sens", "target-power", "target-gain", "target-cable", "rx-sens", "margin", "reliability"}
+var coverageKitFlags = []string{"power", "gain", "antenna", "cable", "sens", "target-power", "target-gain", "target-antenna", "target-cable", "rx-sens", "margin", "reliability"}
 
 func newCoverageCmd(g *globals) *cobra.Command {
 	o := &coverageOptions{}
@@ -304,6 +305,11 @@ func (o *coverageOptions) fromFlags(g *globals, mode plan.CoverageMode, dir plan
 		return nil, err
 	}
 	req.SiteHeightM, req.TargetHeightM = site.Antenna.HeightM, cell.Antenna.HeightM
+	for _, a := range []plan.Antenna{site.Antenna, cell.Antenna} {
+		if a.Directional() {
+			fmt.Fprintf(g.stderr, "mastlink: note: the map takes the %s's peak gain toward every cell (as if turned to each); its pattern is not applied cell by cell\n", a.Name())
+		}
+	}
 	if mode == plan.CoverageLoss {
 		if o.freq == "" {
 			return nil, usagef("--freq: give the frequency of the link (loss mode), or use --mode los")

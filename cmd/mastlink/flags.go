@@ -136,6 +136,16 @@ type endFlags struct {
 	power, gain, height, cable, cableLength, swr, sens string
 	sensFlag                                           string // the sensitivity flag, without "--"; "" when the end has none
 	connectors                                         int
+	// The antenna as it stands (plan.AntennaOptions): catalog type,
+	// bearing, body loss and terminal clutter.
+	antenna, bearing, bodyLoss, clutter string
+	changed                             func(flag string) bool // whether a flag was given
+}
+
+// antennaFlagOf names the flag of an AntennaOptions key for an end.
+var antennaFlagOf = map[string]string{
+	plan.OptAntennaType: "antenna", plan.OptBearing: "bearing", plan.OptGain: "gain",
+	plan.OptHeight: "height", plan.OptBodyLoss: "body-loss", plan.OptClutter: "clutter",
 }
 
 // addKitFlags registers the antenna and feedline flags of one end of a link:
@@ -147,12 +157,26 @@ func addKitFlags(cmd *cobra.Command, e *endFlags, prefix, what string, power boo
 	if power {
 		f.StringVar(&e.power, prefix+"power", "5W", "transmitter power [W]")
 	}
-	f.StringVar(&e.gain, prefix+"gain", "0dBi", what+"antenna gain [dBi] (dBd accepted)")
+	f.StringVar(&e.gain, prefix+"gain", "0dBi", what+"antenna gain [dBi] (dBd accepted); with --"+prefix+"antenna, overrides the catalog's")
 	f.StringVar(&e.height, prefix+"height", "1.5m", what+"antenna height above ground [m]")
+	addAntennaFlags(cmd, e, prefix, what)
 	f.StringVar(&e.cable, prefix+"cable", "", what+"feedline cable: a name that mastlink feedline --list shows, or custom:LOSS/100ft@FREQ")
 	f.StringVar(&e.cableLength, prefix+"cable-length", "", what+"feedline length [m]")
 	f.IntVar(&e.connectors, prefix+"connectors", 0, "mated connector pairs in the "+what+"feedline")
 	f.StringVar(&e.swr, prefix+"swr", "1", "SWR at the "+what+"antenna")
+}
+
+// addAntennaFlags registers the antenna-as-it-stands flags of one end
+// (--antenna, --bearing, --body-loss, --clutter, with prefix): the one
+// place they are defined, for every command with kit flags. The end's
+// --gain is then taken only when given beside --antenna.
+func addAntennaFlags(cmd *cobra.Command, e *endFlags, prefix, what string) {
+	f := cmd.Flags()
+	e.prefix, e.changed = prefix, f.Changed
+	f.StringVar(&e.antenna, prefix+"antenna", "", what+"antenna from the catalog (mastlink antenna --list): its gain and pattern toward the path")
+	f.StringVar(&e.bearing, prefix+"bearing", "", "where the "+what+"directional antenna points [degrees true] (default: at the far end)")
+	f.StringVar(&e.bodyLoss, prefix+"body-loss", "", "body loss at the "+what+"handheld: face, belt, none, or dB (default: face, typical, for a handheld antenna type; else none)")
+	f.StringVar(&e.clutter, prefix+"clutter", "", "terminal clutter around the "+what+"antenna, ITU-R P.2108-1 §3.1 (added to the path loss at the antenna's real height): "+strings.Join(propagation.ClutterClassNames(), ", "))
 }
 
 // deprecatedAlias registers old as a hidden name of the flag now called
@@ -185,6 +209,32 @@ func addSensFlag(cmd *cobra.Command, e *endFlags, name, help string) {
 	cmd.Flags().StringVar(&e.sens, name, "0.25uV", help)
 }
 
+// antennaOptions are the end's antenna flags for plan.AntennaOptions: the
+// gain counts with a catalog antenna only when given (it overrides the
+// catalog's).
+func (e *endFlags) antennaOptions() plan.AntennaOptions {
+	gain := e.gain
+	if e.antenna != "" && (e.changed == nil || !e.changed(e.prefix+"gain")) {
+		gain = ""
+	}
+	return plan.AntennaOptions{Type: e.antenna, Bearing: e.bearing, Gain: gain, Height: e.height, BodyLoss: e.bodyLoss, Clutter: e.clutter}
+}
+
+// antennaUsage names the end's flag in an error of plan.AntennaOptions.
+func (e *endFlags) antennaUsage(err error) error {
+	var oe *units.OptionError
+	if errors.As(err, &oe) {
+		return usagef("--%s%s: %v", e.prefix, antennaFlagOf[oe.Option], oe.Err)
+	}
+	return usageError{err}
+}
+
+// antennaFlagNames lists the antenna flags of an end, for commands that
+// refuse them beside a plan file.
+func antennaFlagNames(prefix string) []string {
+	return []string{prefix + "antenna", prefix + "bearing", prefix + "body-loss", prefix + "clutter"}
+}
+
 // end builds one end of a link from its flags, named name. A flag left
 // empty leaves its part of the kit at zero (no power, no sensitivity, 0 m);
 // without --cable there is no feedline, but --swr and --connectors still
@@ -203,15 +253,8 @@ func (e *endFlags) end(name string) (plan.End, error) {
 			return out, err
 		}
 	}
-	if e.gain != "" {
-		if out.Antenna.GainDBi, err = quantity(p+"gain", e.gain, units.ParseGainDBi); err != nil {
-			return out, err
-		}
-	}
-	if e.height != "" {
-		if out.Antenna.HeightM, err = quantity(p+"height", e.height, units.ParseLengthM); err != nil {
-			return out, err
-		}
+	if err := e.antennaOptions().Apply(&out.Antenna); err != nil {
+		return out, e.antennaUsage(err)
 	}
 	if e.connectors < 0 {
 		return out, usagef("--%sconnectors: give 0 or more", p)
@@ -261,11 +304,18 @@ func (e *endFlags) over(base plan.End, changed func(flag string) bool) (plan.End
 	if e.sensFlag != "" && changed(e.sensFlag) {
 		out.Radio.SensitivityDBm = f.Radio.SensitivityDBm
 	}
-	if changed(p + "gain") {
-		out.Antenna.GainDBi = f.Antenna.GainDBi
+	// The antenna flags given, applied over the plan's antenna as the plan
+	// file's own fields would be (a type brings its gain, --gain overrides).
+	given := func(flag, v string) string {
+		if changed(p + flag) {
+			return v
+		}
+		return ""
 	}
-	if changed(p + "height") {
-		out.Antenna.HeightM = f.Antenna.HeightM
+	ao := plan.AntennaOptions{Type: given("antenna", e.antenna), Gain: given("gain", e.gain), Height: given("height", e.height),
+		Bearing: given("bearing", e.bearing), BodyLoss: given("body-loss", e.bodyLoss), Clutter: given("clutter", e.clutter)}
+	if err := ao.Apply(&out.Antenna); err != nil {
+		return base, e.antennaUsage(err)
 	}
 	if changed(p+"cable") || changed(p+"cable-length") {
 		if e.cable == "" || e.cableLength == "" {

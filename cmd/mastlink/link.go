@@ -216,7 +216,10 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	t := newTable(w)
 	t.row("  transmitter power", units.FormatPower(math.Pow(10, (r.TxPowerDBm-30)/10)), dbm(r.TxPowerDBm))
 	t.row("  transmit feedline"+lineName(tx), "", db(-r.TxFeedlineLossDB))
-	t.row("  transmit antenna gain", "", dbi(r.TxGainDBi))
+	t.row("  transmit antenna gain"+antennaName(tx.Antenna, r.TxBearingDeg), towardText(r.TxAntenna, r.TxGainDBi, r.TxElevationDeg), dbi(r.TxGainTowardPathDBi))
+	if r.TxBodyLossDB != 0 {
+		t.row("  body loss at the transmitter", "("+tx.Antenna.BodyLoss+")", db(-r.TxBodyLossDB))
+	}
 	t.row("  EIRP", "", dbm(r.EIRPDBm))
 	t.row("  free-space loss", "", db(-r.FreeSpaceLossDB))
 	if r.ITM != nil {
@@ -224,7 +227,16 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	} else {
 		t.row("  terrain (diffraction) loss", "", db(-r.ExcessLossDB))
 	}
-	t.row("  receive antenna gain", "", dbi(r.RxGainDBi))
+	if r.TxClutterLossDB != 0 {
+		t.row("  clutter at the transmitter", "("+tx.Antenna.Clutter.String()+", ITU-R P.2108)", db(-r.TxClutterLossDB))
+	}
+	if r.RxClutterLossDB != 0 {
+		t.row("  clutter at the receiver", "("+rx.Antenna.Clutter.String()+", ITU-R P.2108)", db(-r.RxClutterLossDB))
+	}
+	t.row("  receive antenna gain"+antennaName(rx.Antenna, r.RxBearingDeg), towardText(r.RxAntenna, r.RxGainDBi, r.RxElevationDeg), dbi(r.RxGainTowardPathDBi))
+	if r.RxBodyLossDB != 0 {
+		t.row("  body loss at the receiver", "("+rx.Antenna.BodyLoss+")", db(-r.RxBodyLossDB))
+	}
 	t.row("  receive feedline"+lineName(rx), "", db(-r.RxFeedlineLossDB))
 	t.row("  received level", units.SMeter(r.RxPowerDBm, r.FreqMHz), dbm(r.RxPowerDBm))
 	t.row("  receiver sensitivity", fmt.Sprintf("%.2f µV", units.MicrovoltsFromDBm(r.RxSensitivityDBm)), dbm(r.RxSensitivityDBm))
@@ -235,6 +247,30 @@ func renderLinkText(w io.Writer, o linkOutput, tx, rx plan.End, im bool) {
 	t.flush()
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, verdict(r))
+	for _, n := range r.Notes {
+		fmt.Fprintln(w, "Note: "+n+".")
+	}
+}
+
+// antennaName is " (type, aimed at B° true)" for an end with a catalog
+// antenna, "" without.
+func antennaName(a plan.Antenna, bearing *float64) string {
+	if a.Type == nil {
+		return ""
+	}
+	if bearing != nil {
+		return fmt.Sprintf(" (%s, aimed %.0f° true)", a.Type.Name, *bearing)
+	}
+	return " (" + a.Type.Name + ")"
+}
+
+// towardText says what the pattern did to a catalog antenna's gain toward
+// the path: its peak and the path's elevation angle.
+func towardText(name string, peakDBi, elevationDeg float64) string {
+	if name == "" {
+		return ""
+	}
+	return fmt.Sprintf("peak %.1f dBi, path at %+.1f°", peakDBi, elevationDeg)
 }
 
 func lineName(e plan.End) string {

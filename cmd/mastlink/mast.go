@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/mastlink/mastlink/plan"
+	"github.com/mastlink/mastlink/plan/antenna"
 	"github.com/mastlink/mastlink/plan/feedline"
 	"github.com/mastlink/mastlink/plan/units"
 	"github.com/spf13/cobra"
@@ -26,16 +27,22 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	heights := []float64{}
 	hseen := map[float64]bool{}
 	cell := map[string]plan.MastRow{}
+	column := func(r plan.MastRow) string { // the cable, after the antenna when the sweep tries antennas
+		if r.Antenna != "" {
+			return r.Antenna + " " + r.Cable
+		}
+		return r.Cable
+	}
 	for _, r := range m.Rows {
-		if !seen[r.Cable] {
-			seen[r.Cable] = true
-			cables = append(cables, r.Cable)
+		if !seen[column(r)] {
+			seen[column(r)] = true
+			cables = append(cables, column(r))
 		}
 		if !hseen[r.HeightM] {
 			hseen[r.HeightM] = true
 			heights = append(heights, r.HeightM)
 		}
-		cell[fmt.Sprintf("%g|%s", r.HeightM, r.Cable)] = r
+		cell[fmt.Sprintf("%g|%s", r.HeightM, column(r))] = r
 	}
 	sort.Float64s(heights)
 	t := newTable(w)
@@ -59,7 +66,11 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 	switch {
 	case m.Recommended != nil:
 		r := m.Recommended
-		fmt.Fprintf(w, "Recommended: a %s mast with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
+		ant := ""
+		if r.Antenna != "" {
+			ant = ", the " + r.Antenna + ","
+		}
+		fmt.Fprintf(w, "Recommended: a %s mast%s with %s %s (%.1f kg of cable).\n\n", units.FormatHeight(r.HeightM, im), ant, units.FormatLength(r.CableLengthM, im), r.Cable, r.CableMassKg)
 	case m.Closest != nil:
 		c := m.Closest
 		what := "Nothing in the sweep meets the requirement"
@@ -67,7 +78,7 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 			what += " within the keep-out limit"
 		}
 		fmt.Fprintf(w, "%s. Closest: %s mast with %s, worst margin %s on %s (%.1f dB short).\n\n",
-			what, units.FormatHeight(c.HeightM, im), c.Cable, db(c.WorstMarginDB), c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
+			what, units.FormatHeight(c.HeightM, im), strings.TrimSpace(c.Antenna+" "+c.Cable), db(c.WorstMarginDB), c.WorstLink, m.NeededMarginDB-c.WorstMarginDB)
 	default:
 		fmt.Fprintln(w)
 	}
@@ -76,6 +87,7 @@ func renderMastText(w io.Writer, m *plan.MastResult, im bool) {
 type mastOptions struct {
 	planFile, station           string
 	heights, cables, run, slack string
+	antennas                    string
 	keepoutLimit                string
 	from, to, freq              string
 	envFlags                                            // --k, --model (and the ITM's settings), --polarization, --ground, --step
@@ -139,6 +151,9 @@ With --plan the station, targets and requirement come from a plan file
 	f.StringVar(&tg.gain, "to-gain", "0dBi", "target antenna gain [dBi]")
 	f.StringVar(&tg.height, "to-height", "1.5m", "target antenna height [m]")
 	addSensFlag(cmd, tg, "to-sens", "target receiver sensitivity [dBm]")
+	addAntennaFlags(cmd, st, "", "station ")
+	addAntennaFlags(cmd, tg, "to-", "target ")
+	f.StringVar(&o.antennas, "antennas", "", "catalog antennas to try in place of the station's, comma separated, preferred first (see mastlink antenna --list)")
 	addEnvFlags(cmd, &o.envFlags)
 	addWaypointsFlag(cmd, &o.points)
 	return cmd
@@ -239,6 +254,16 @@ func runMast(ctx context.Context, g *globals, o *mastOptions, args []string) err
 			sweep.Cables = append(sweep.Cables, c)
 		}
 	}
+	if o.antennas != "" {
+		sweep.Antennas = nil
+		for _, name := range strings.Split(o.antennas, ",") {
+			a, err := antenna.Lookup(name)
+			if err != nil {
+				return usagef("--antennas: %v", err)
+			}
+			sweep.Antennas = append(sweep.Antennas, a)
+		}
+	}
 	if o.run != "" {
 		if sweep.RunM, err = quantity("run", o.run, units.ParseLengthM); err != nil {
 			return err
@@ -318,8 +343,8 @@ func writeMastCSV(w io.Writer, m *plan.MastResult) error {
 	rows := make([][]string, len(m.Rows))
 	for i, r := range m.Rows {
 		rows[i] = []string{f2(r.HeightM), r.Cable, f2(r.CableLengthM), f2(r.CableMassKg), f2(r.FeedlineLossDB), f2(r.WorstMarginDB), r.WorstLink, fmt.Sprint(r.MeetsRequirement),
-			exact(r.KeepoutPublicM), fmt.Sprint(r.OverKeepoutLimit)}
+			exact(r.KeepoutPublicM), fmt.Sprint(r.OverKeepoutLimit), r.Antenna}
 	}
 	return writeCSV(w, []string{"height_m", "cable", "cable_length_m", "cable_mass_kg", "feedline_loss_db", "worst_margin_db", "worst_link", "meets_requirement",
-		"keepout_public_m", "over_keepout_limit"}, rows)
+		"keepout_public_m", "over_keepout_limit", "antenna"}, rows)
 }

@@ -134,8 +134,8 @@ func (o *reachOptions) resolve(g *globals, cmd *cobra.Command, forSites bool) (*
 		if err := o.envFlags.itm.requirement(env, &req); err != nil {
 			return nil, err
 		}
-		r.whatIf = o.given(value, append([]string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens",
-			"margin", "reliability", "sigma", "k", "model", "polarization", "ground"}, itmFlagNames...)...)
+		r.whatIf = o.given(value, append(append([]string{"power", "gain", "height", "cable", "cable-length", "connectors", "swr", "rx-sens",
+			"margin", "reliability", "sigma", "k", "model", "polarization", "ground"}, antennaFlagNames("")...), itmFlagNames...)...)
 	} else {
 		if o.station != "" {
 			return nil, usagef("--station needs --plan")
@@ -174,7 +174,7 @@ func (o *reachOptions) resolve(g *globals, cmd *cobra.Command, forSites bool) (*
 		r.targets = ts
 		r.inputs = append(r.inputs, o.targets)
 	} else {
-		for _, n := range []string{"to-power", "to-gain", "to-height", "to-cable", "to-cable-length", "to-connectors", "to-swr", "to-sens"} {
+		for _, n := range append([]string{"to-power", "to-gain", "to-height", "to-cable", "to-cable-length", "to-connectors", "to-swr", "to-sens"}, antennaFlagNames("to-")...) {
 			if o.changed(n) {
 				return nil, usagef("--%s: the --to- flags give the kit of the targets of --targets; the plan's targets carry their own (edit the plan)", n)
 			}

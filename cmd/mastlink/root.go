@@ -174,6 +174,8 @@ a bare number takes the default unit named in each flag's help.`,
 		newRouteCmd(g),
 		newSitesCmd(g),
 		newCoverageCmd(g),
+		newAntennaCmd(g),
+		newRelayCmd(g),
 		newVersionCmd(g),
 	)
 	addOutFlags(root, g)
