@@ -28,7 +28,7 @@ targets:
     at: Team Alder, Quillet Glen
     body_loss: belt
   - name: Team Birch
-    at: Team Birch, upper Marrowind
+    at: Team Birch, upper Ostral
     antenna: {type: collinear-2, height: 4m}
     clutter: open
 mast: {heights: 2m..4m step 1m, cables: [RG-58], antennas: [ground-plane, collinear-2]}

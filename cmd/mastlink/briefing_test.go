@@ -196,7 +196,7 @@ func TestPlanBriefingDemo(t *testing.T) {
 		if code != 0 {
 			t.Fatalf("exit %d: %s", code, stderr)
 		}
-		if !strings.Contains(out, "Marrowind valley search exercise") || !strings.Contains(stderr, "wrote the briefing to "+file) {
+		if !strings.Contains(out, "Ostral valley search exercise") || !strings.Contains(stderr, "wrote the briefing to "+file) {
 			t.Errorf("stdout or stderr lack the plan or the briefing: %q", stderr)
 		}
 		b, err := os.ReadFile(file)
@@ -220,9 +220,9 @@ func TestPlanBriefingDemo(t *testing.T) {
 	s := string(page)
 	for _, want := range []string{
 		`id="requirement"`, `id="map"`, `id="links"`, `id="mast"`, `id="profiles"`, `id="routes"`, `id="exposure"`, `id="cautions"`, `id="inputs"`,
-		"Marrowind valley and Quillet Glen (invented)",
+		"Ostral valley and Quillet Glen (invented)",
 		`<time datetime="2025-06-14T07:30:00-08:00">Saturday 14 June 2025, 07:30 UTC−08</time>`,
-		"Valley Base", "Corvane Peak repeater", "Team Alder", "at Marrowind Bend", "foam-0.405in",
+		"Valley Base", "Corvane Peak repeater", "Team Alder", "at Ostral Bend", "foam-0.405in",
 		"Valley Base to Team Alder", "first Fresnel zone, 146.55 MHz", "Gorsefold trailhead to Quillet Glen over Quillet Col",
 		"S49W124.hgt.gz", "k = 4/3", "data:image/png;base64,",
 	} {
@@ -260,7 +260,7 @@ func TestPlanBriefingInBrowser(t *testing.T) {
 	if _, stderr, code := runCmd(t, "plan", demoPlan, "--briefing", file); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	want := append([]string{"Marrowind valley search exercise", "CAUTIONS"}, exposure.Cautions()...)
+	want := append([]string{"Ostral valley search exercise", "CAUTIONS"}, exposure.Cautions()...)
 	pagecheck.InBrowser(t, file, append(want, briefingCautions...))
 }
 

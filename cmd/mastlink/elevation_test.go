@@ -72,8 +72,8 @@ func TestElevationWaypoints(t *testing.T) {
 	}{
 		{"Corvane Peak", 1729.0, "S49W124.hgt.gz", 0.05},
 		{"Wethermoss Saddle", 1011.0, "S49W124.hgt.gz", 0.05},
-		{"Marrowind Flats staging area", 314.6, "S49W124.hgt.gz", 0.05},
-		{"Team Birch, upper Marrowind", 463.5, "S49W125.hgt.gz", 0.05},
+		{"Ostral Flats staging area", 314.6, "S49W124.hgt.gz", 0.05},
+		{"Team Birch, upper Ostral", 463.5, "S49W125.hgt.gz", 0.05},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -228,7 +228,7 @@ func TestElevationGDAL(t *testing.T) {
 		}{
 			{"Corvane Ridge", 536, 60, 0.37, 0.81, "S49W124", -124, 1e-3},
 			{"valley floor", 590, 40, 0.5, 0.5, "S49W124", -124, 1e-3},
-			{"upper Marrowind", 613, 995, 0.13, 0.62, "S49W125", -125, 1e-3},
+			{"upper Ostral", 613, 995, 0.13, 0.62, "S49W125", -125, 1e-3},
 		}
 		for _, c := range cells {
 			lat := -48 - (float64(c.row)+c.fr)*d
@@ -246,7 +246,7 @@ func TestElevationGDAL(t *testing.T) {
 }
 
 func TestElevationText(t *testing.T) {
-	args := []string{"--dem", exampleTerrain, "--waypoints", examplePoints, "elevation", "--", "Corvane Peak", "Wethermoss Saddle", "-48.5,-123.95", "Team Birch, upper Marrowind"}
+	args := []string{"--dem", exampleTerrain, "--waypoints", examplePoints, "elevation", "--", "Corvane Peak", "Wethermoss Saddle", "-48.5,-123.95", "Team Birch, upper Ostral"}
 	out, stderr, code := runCmd(t, args...)
 	if code != 0 || stderr != "" {
 		t.Fatalf("exit %d, stderr %q", code, stderr)

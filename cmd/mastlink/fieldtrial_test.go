@@ -90,7 +90,7 @@ func smallPlan(t *testing.T, dir, waypointsName string) string {
 	}
 	doc := "name: small\nfrequency: 146.55MHz\nwaypoints: " + waypointsName + "\n" +
 		"defaults: {radio: {power: 5W, sensitivity: 0.25uV}}\n" +
-		"stations: [{name: base, at: Marrowind Bend, antenna: {height: 6m}}]\n" +
+		"stations: [{name: base, at: Ostral Bend, antenna: {height: 6m}}]\n" +
 		"targets: [{name: peak, at: Corvane Peak}]\n"
 	path := filepath.Join(dir, "plan.yaml")
 	if err := os.WriteFile(path, []byte(doc), 0o644); err != nil {

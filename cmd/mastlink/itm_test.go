@@ -79,7 +79,7 @@ func TestLinkITMCommandLineExample(t *testing.T) {
 // the golden files; the model's warnings on stderr and in the JSON; the
 // margin is at the ITM's reliability, with no σ added.
 func TestLinkITMDemo(t *testing.T) {
-	args := []string{"--dem", demoTerrain, "link", "--waypoints", demoPoints, "--from", "Marrowind Bend", "--to", "Corvane Peak",
+	args := []string{"--dem", demoTerrain, "link", "--waypoints", demoPoints, "--from", "Ostral Bend", "--to", "Corvane Peak",
 		"--freq", "147.78", "--power", "25W", "--gain", "2.15dBi", "--height", "9m", "--cable", "RG-8X", "--cable-length", "20m",
 		"--to-gain", "6dBi", "--to-height", "20m", "--rx-sens", "-122dBm", "--model", "itm", "--reliability", "90%", "--margin", "10dB"}
 	txt, stderr, code := runCmd(t, args...)

@@ -21,7 +21,7 @@ import (
 // memory). Both ends' cases: the Yagi transmitting (--bearing) and
 // receiving (--to-bearing).
 func TestLinkYagiAimedAtAndAway(t *testing.T) {
-	base := []string{"link", "--dem", demoTerrain, "--waypoints", demoPoints, "--from", "Marrowind Bend", "--to", "Corvane Peak",
+	base := []string{"link", "--dem", demoTerrain, "--waypoints", demoPoints, "--from", "Ostral Bend", "--to", "Corvane Peak",
 		"--freq", "146.55", "--format", "json"}
 	margin := func(extra ...string) (float64, map[string]any) {
 		out, stderr, code := runCmd(t, append(append([]string(nil), base...), extra...)...)
@@ -64,7 +64,7 @@ func TestLinkYagiAimedAtAndAway(t *testing.T) {
 // TestLinkKitText: the text shows the antenna toward the path, the body
 // loss marked typical, the clutter, and the notes.
 func TestLinkKitText(t *testing.T) {
-	out, stderr, code := runCmd(t, "link", "--dem", demoTerrain, "--waypoints", demoPoints, "--from", "Marrowind Bend", "--to", "Corvane Peak",
+	out, stderr, code := runCmd(t, "link", "--dem", demoTerrain, "--waypoints", demoPoints, "--from", "Ostral Bend", "--to", "Corvane Peak",
 		"--freq", "146.55", "--antenna", "handheld-whip", "--to-antenna", "yagi-3el-70cm", "--to-clutter", "forest", "--to-height", "4m")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
@@ -248,7 +248,7 @@ func TestRelayCommand(t *testing.T) {
 	for _, party := range []struct {
 		name string
 		want float64
-	}{{"Team Birch, upper Marrowind", best.MarginToADB}, {"Team Cedar, lower Marrowind", best.MarginToBDB}} {
+	}{{"Team Birch, upper Ostral", best.MarginToADB}, {"Team Cedar, lower Ostral", best.MarginToBDB}} {
 		worst := math.Inf(1)
 		for _, dir := range [][2]string{{at, party.name}, {party.name, at}} {
 			lo, _, code := runCmd(t, "link", "--dem", demoTerrain, "--waypoints", demoPoints, "--from", dir[0], "--to", dir[1],

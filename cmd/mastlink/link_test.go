@@ -77,7 +77,7 @@ func convertDBull(t *testing.T, in, out string) {
 // free-space loss of ITU-R P.525 for the reported distance.
 func TestLinkBudgetExample(t *testing.T) {
 	out, stderr, code := runCmd(t, "--dem", "../../examples/terrain", "link", "--waypoints", "../../examples/valley/points.gpx",
-		"--from", "Marrowind Bend", "--to", "Corvane Peak", "--freq", "147.78", "--power", "25W", "--gain", "2.15dBi", "--height", "9m",
+		"--from", "Ostral Bend", "--to", "Corvane Peak", "--freq", "147.78", "--power", "25W", "--gain", "2.15dBi", "--height", "9m",
 		"--cable", "RG-8X", "--cable-length", "20m", "--connectors", "2", "--to-gain", "6dBi", "--to-height", "20m",
 		"--to-cable", "hardline-0.5in", "--to-cable-length", "30m", "--rx-sens", "-122dBm", "--format", "json")
 	if code != 0 {

@@ -116,7 +116,7 @@ With --plan the station, targets and requirement come from a plan file
 ` + itmHelp,
 		Example: "  mastlink mast --plan examples/valley/plan.yaml\n" +
 			"  mastlink mast --plan examples/valley/plan.yaml --heights '2m..8m step 0.5m' --cables RG-58,RG-8X\n" +
-			"  mastlink mast --dem examples/terrain --waypoints examples/valley/points.gpx --from \"Marrowind Bend\" \\\n" +
+			"  mastlink mast --dem examples/terrain --waypoints examples/valley/points.gpx --from \"Ostral Bend\" \\\n" +
 			"    --to \"Team Alder, Quillet Glen\" --freq 146.55 --power 25W --gain 2.15dBi --heights '2m..12m step 1m' \\\n" +
 			"    --cables RG-58,RG-8X,RG-213 --run 10m --margin 10dB",
 		Args: cobra.NoArgs,

@@ -146,12 +146,12 @@ func TestPlanErrors(t *testing.T) {
 		return p
 	}
 	wp, _ := filepath.Abs("../../examples/valley/points.gpx")
-	good := "waypoints: " + wp + "\nfrequency: 146.55MHz\nstations:\n  - name: base\n    at: Marrowind Bend\n    radio: {power: 25W, sensitivity: 0.25uV}\n" +
+	good := "waypoints: " + wp + "\nfrequency: 146.55MHz\nstations:\n  - name: base\n    at: Ostral Bend\n    radio: {power: 25W, sensitivity: 0.25uV}\n" +
 		"targets:\n  - name: Team Alder\n    at: Team Alder, Quillet Glen\n    radio: {power: 5W, sensitivity: 0.25uV}\n"
 	cases := []struct{ name, body, want string }{
 		{"bad yaml", "stations: [\n", "bad.yaml:"},
 		{"unknown cable", strings.Replace(good, "    radio: {power: 25W", "    feedline: {cable: RG-59X, length: 5m}\n    radio: {power: 25W", 1), `unknown cable "RG-59X"`},
-		{"unknown waypoint", strings.Replace(good, "Marrowind Bend", "Marowind Bend", 1), `closest: "Marrowind Bend"`},
+		{"unknown waypoint", strings.Replace(good, "Ostral Bend", "Marowind Bend", 1), `closest: "Ostral Bend"`},
 		{"power unit", strings.Replace(good, "25W", "25 watts", 1), `unknown unit "watts"`},
 		{"empty", "", "the plan is empty"},
 		{"missing gpx", strings.Replace(good, wp, "nosuch.gpx", 1), "waypoints:"},

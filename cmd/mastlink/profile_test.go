@@ -104,7 +104,7 @@ func TestProfileGeodSolve(t *testing.T) {
 		posTolM float64 // sample positions: exact knots and interpolation under 0.05 m (terrain.Profile)
 	}{
 		{"Wethermoss Saddle to Corvane Peak", append(append(dem, wpt...), "--from", "Wethermoss Saddle", "--to", "Corvane Peak"), 1e-3, 1e-6, 0.05},
-		{"across the 124°W seam", append(append(dem, wpt...), "--from", "Team Birch, upper Marrowind", "--to", "Corvane Peak"), 1e-3, 1e-6, 0.05},
+		{"across the 124°W seam", append(append(dem, wpt...), "--from", "Team Birch, upper Ostral", "--to", "Corvane Peak"), 1e-3, 1e-6, 0.05},
 		{"due east on the equator", []string{"--from", "0,10", "--to", "0,10.5"}, 1e-3, 1e-6, 0.05},
 		{"southern mid-latitude, 46 km", []string{"--from", "-48.5,-124.3", "--to", "-48.4,-123.7"}, 1e-3, 1e-6, 0.05},
 		{"across the antimeridian", []string{"--from", "-16.8,179.7", "--to", "-17.3,-179.6", "--step", "500m"}, 1e-3, 1e-6, 0.05},
@@ -163,7 +163,7 @@ func TestProfileGeodSolve(t *testing.T) {
 // no jump between samples at the seam is larger than those around it.
 func TestProfileSeam(t *testing.T) {
 	p := runProfileJSON(t, "--dem", exampleTerrain, "--waypoints", examplePoints,
-		"--from", "Team Birch, upper Marrowind", "--to", "Corvane Peak", "--step", "2m")
+		"--from", "Team Birch, upper Ostral", "--to", "Corvane Peak", "--step", "2m")
 	if strings.Join(p.Sources, ",") != "S49W125.hgt.gz,S49W124.hgt.gz" {
 		t.Errorf("sources %v, want both tiles in path order", p.Sources)
 	}

@@ -49,7 +49,7 @@ frequency (default: --freq, else the plan's). Without --between and --and
 the plan's first relays: entry is used.`,
 		Example: "  mastlink relay --plan examples/valley/plan.yaml --between \"Team Alder\" --and \"Team Birch\" --height 4m\n" +
 			"  mastlink relay --plan examples/valley/plan.yaml -o relay.gpx\n" +
-			"  mastlink relay --plan examples/valley/plan.yaml --between \"Team Alder\" --and \"Marrowind Bend\" \\\n" +
+			"  mastlink relay --plan examples/valley/plan.yaml --between \"Team Alder\" --and \"Ostral Bend\" \\\n" +
 			"    --freq-a 146.55 --freq-b 446.1 --height '2m..8m step 2m' -o relay.png",
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {

@@ -473,8 +473,8 @@ func TestLinesOfSight(t *testing.T) {
 		want         bool
 	}{
 		{"repeater to command post", peak, cp, 20, 9, true},
-		{"repeater to staging area", peak, waypointByName(t, pts, "Marrowind Flats staging area"), 20, 2, true},
-		{"repeater to Team Birch", peak, waypointByName(t, pts, "Team Birch, upper Marrowind"), 20, 2, true},
+		{"repeater to staging area", peak, waypointByName(t, pts, "Ostral Flats staging area"), 20, 2, true},
+		{"repeater to Team Birch", peak, waypointByName(t, pts, "Team Birch, upper Ostral"), 20, 2, true},
 		{"repeater to Team Alder (hidden)", peak, waypointByName(t, pts, "Team Alder, Quillet Glen"), 20, 2, false},
 		{"command post to Team Alder", cp, waypointByName(t, pts, "Team Alder, Quillet Glen"), 9, 2, true},
 	}

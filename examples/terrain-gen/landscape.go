@@ -81,7 +81,7 @@ func (t table) slope(i int) float64 {
 
 // Floors and crest heights along the island (x km → m).
 var (
-	// Marrowind River: a low divide in the west, the lake basin behind a
+	// Ostral River: a low divide in the west, the lake basin behind a
 	// moraine sill, then a gentle fall to the east coast.
 	mainFloor = table{{-30, 300}, {-25, 520}, {-19, 760}, {-15, 540}, {-13, 470},
 		{-11.5, 440}, {-10, 400}, {-7.5, 382}, {-5.2, 396}, {-4.3, 436}, {-3.6, 432},
@@ -96,7 +96,7 @@ var (
 	// Fennick Range, between the main valley and Quillet Glen (dips added below).
 	southCrest = table{{-26, 750}, {-20, 1050}, {-14, 1250}, {-8, 1300}, {-2, 1360},
 		{2.5, 1330}, {8, 1340}, {13, 1180}, {18, 950}, {24, 600}}
-	// Skerrow Hills, along the south coast.
+	// Quarvel Hills, along the south coast.
 	coastCrest = table{{-26, 400}, {-18, 650}, {-10, 800}, {-2, 780}, {6, 720},
 		{12, 600}, {18, 420}, {24, 250}}
 )
@@ -124,7 +124,7 @@ const (
 	outerDecayKm = 4.0
 )
 
-// mainAxisY is the Marrowind River's line (y km at x km).
+// mainAxisY is the Ostral River's line (y km at x km).
 func mainAxisY(x float64) float64 {
 	return 0.9*math.Sin(x/6.5+0.4) - 0.2*math.Sin(x/2.9)
 }
@@ -199,7 +199,7 @@ func heightLocal(x, y float64) float64 {
 	case y >= yC: // Quillet Glen, south side
 		base = sideFloor.at(x)
 		h = across(base, cC, ys-y, sideHalfWKm, ys-yC)
-	default: // south slopes of the Skerrow Hills
+	default: // south slopes of the Quarvel Hills
 		h = cC * decay((yC-y)/outerDecayKm)
 	}
 	if x < sideHeadXKm && y < yS && y > yC {

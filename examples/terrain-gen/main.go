@@ -120,8 +120,8 @@ func outputs() (tiles, gpx map[string][]byte, err error) {
 		return nil, nil, err
 	}
 	gpx = map[string][]byte{
-		"points.gpx":     waypointsGPX("Marrowind valley exercise: places", ps, false),
-		"candidates.gpx": waypointsGPX("Marrowind valley exercise: candidate sites for the portable station", ps, true),
+		"points.gpx":     waypointsGPX("Ostral valley exercise: places", ps, false),
+		"candidates.gpx": waypointsGPX("Ostral valley exercise: candidate sites for the portable station", ps, true),
 		"hike.gpx":       trackGPX("Gorsefold trailhead to Quillet Glen over Quillet Col", trk),
 	}
 	return tiles, gpx, nil
