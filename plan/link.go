@@ -99,13 +99,22 @@ func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 	if g.Profile.NoData == len(g.Profile.ElevM) {
 		g.Source = "smooth earth"
 	}
-	g.path.DistKM = g.path.DistKM[:0]
-	g.path.HeightM = g.path.HeightM[:0]
-	g.path.ClutterM = nil
-	for i, d := range g.Profile.DistM {
-		g.path.DistKM = append(g.path.DistKM, d/1000)
-		g.path.HeightM = append(g.path.HeightM, g.Profile.ElevM[i])
+	n := len(g.Profile.DistM)
+	if cap(g.path.DistKM) < n {
+		g.path.DistKM = make([]float64, n)
+		g.path.HeightM = make([]float64, n)
 	}
+	g.path.DistKM = g.path.DistKM[:n]
+	g.path.HeightM = append(g.path.HeightM[:0], g.Profile.ElevM...)
+	g.path.ClutterM = nil
+	// Samples are equally spaced: i·step in km, a multiply per sample (no
+	// division), the last one the exact length.
+	stepKM := g.Profile.StepM * 0.001
+	dist := g.path.DistKM
+	for i := range dist {
+		dist[i] = float64(i) * stepKM
+	}
+	dist[n-1] = g.Profile.DistanceM * 0.001
 	return nil
 }
 

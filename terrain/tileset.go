@@ -430,3 +430,44 @@ func (s *Set) SpacingM(lat float64) float64 {
 	}
 	return best
 }
+
+// SpacingAlongM returns the distance in metres, at latitude lat (degrees),
+// between successive crossings of grid rows or columns by a line at
+// azimuth aziDeg (degrees clockwise from north): for a grid of spacing Δy
+// north–south and Δx east–west (metres), min(Δy/|cos α|, Δx/|sin α|), so
+// that a profile stepped by it moves at most one row and at most one
+// column per sample (the elevation data's own spacing in the line's
+// direction; a plane approximation of the grid cell, common practice).
+// It takes the finest such distance over the files whose spacing is known
+// before loading, and returns 0 for an empty set. It lies between
+// SpacingM(lat) and the diagonal of a grid cell, √(Δx² + Δy²).
+func (s *Set) SpacingAlongM(lat, aziDeg float64) float64 {
+	latM, lonM := metresPerDegree(lat)
+	sin, cos := math.Sincos(aziDeg * math.Pi / 180)
+	sin, cos = math.Abs(sin), math.Abs(cos)
+	// Rounding of the azimuth (sin 180° is 1.2e−16 in floating point)
+	// must not make a meridian path cross columns, nor a parallel rows.
+	if sin < 1e-12 {
+		sin = 0
+	}
+	if cos < 1e-12 {
+		cos = 0
+	}
+	best := 0.0
+	for _, src := range s.all {
+		if src.dLatDeg == 0 {
+			continue
+		}
+		d := math.Inf(1)
+		if cos > 0 {
+			d = src.dLatDeg * latM / cos
+		}
+		if sin > 0 {
+			d = math.Min(d, src.dLonDeg*lonM/sin)
+		}
+		if d > 0 && !math.IsInf(d, 0) && (best == 0 || d < best) {
+			best = d
+		}
+	}
+	return best
+}
