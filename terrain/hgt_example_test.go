@@ -79,6 +79,6 @@ func ExampleSet_Profile() {
 	fmt.Printf("highest %.0f m at %.0f m (%.4f°N %.4f°E)\n", p.ElevM[top], p.DistM[top], p.Lat[top], p.Lon[top])
 	// Output:
 	// 64618 m, azimuth 46.3°, back 226.7°
-	// 727 samples every 89.0 m from [N45E007.hgt]
-	// highest 1000 m at 32220 m (45.4998°N 7.4981°E)
+	// 997 samples every 64.9 m from [N45E007.hgt]
+	// highest 1000 m at 32179 m (45.4996°N 7.4977°E)
 }

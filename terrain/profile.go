@@ -67,9 +67,7 @@ func grow(s []float64, n int) []float64 {
 // sampled with bilinear interpolation like Elevation.
 //
 // stepM is the distance between samples in metres; 0 takes the set's finest
-// sample spacing in the path's direction at the higher of the two end
-// latitudes (SpacingAlongM, the finer of the azimuths at the two ends: one
-// sample per grid row or column crossed, whichever comes first), or
+// sample spacing at the higher of the two end latitudes (SpacingM), or
 // NoDEMStepM when the set is empty, and never less than MinAutoStepM. The step is then shortened so that the
 // samples are equally spaced and both ends are samples: n = ⌈D/step⌉ + 1
 // samples (at least 2; coincident ends give two samples at 0 m).
@@ -98,11 +96,7 @@ func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
 	var line Line // on the stack: no allocation
 	distM, azi1, azi2 := profileLine(&line, lat1, lon1, lat2, lon2)
 	if stepM == 0 {
-		// The data's spacing in the path's direction, the finer of the
-		// two ends' azimuths at the higher latitude: each sample moves at
-		// most one row and one column of the grid.
-		lat := math.Max(math.Abs(lat1), math.Abs(lat2))
-		stepM = math.Min(s.SpacingAlongM(lat, azi1), s.SpacingAlongM(lat, azi2))
+		stepM = s.SpacingM(math.Max(math.Abs(lat1), math.Abs(lat2)))
 		if stepM == 0 {
 			stepM = NoDEMStepM
 		}
