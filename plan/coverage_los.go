@@ -59,6 +59,16 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		}
 	}
 
+	// Per-sample constants shared by every radial (they share the step):
+	// eq. 49's slope (h − bulge·d² − h_ts)/d as (h − c_m)·(1/d_m), one
+	// multiply instead of a division per sample.
+	sampC, sampInv := make([]float64, n), make([]float64, n)
+	for m := 1; m < n; m++ {
+		dm := float64(m) * stepKM
+		sampC[m] = hl.Bulge*dm*dm + hl.HtsM
+		sampInv[m] = 1 / dm
+	}
+
 	// Pass 1, level by level from the coarsest.
 	for t := g.levels; t >= 0; t-- {
 		// start: the first sample a radial of this level computes.
@@ -99,9 +109,10 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 					best = float64(table[at(k-stride, start-1)])
 				}
 				base := at(k, 0)
+				cs, inv := sampC[start:start+len(hgts)], sampInv[start:start+len(hgts)]
 				for i, h := range hgts {
 					m := start + i
-					if v := hl.Slope(float64(m)*stepKM, h); v > best {
+					if v := (h - cs[i]) * inv[i]; v > best { // hl.Slope
 						best = v
 					}
 					table[base+(m>>4)*kb<<8|(m&15)<<4] = float32(best)
@@ -133,7 +144,27 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
 		eScale := g.rowE[r]
 		var nc, nv int64
-		for c := range row {
+		// The columns within the radius: |e| ≤ √(R² − north²), a cell
+		// wider each side for rounding (the test below decides).
+		cLo, cHi := 0, len(row)
+		if rem := r2 - north*north; rem < 0 {
+			cHi = 0
+		} else if eScale > 0 {
+			half := math.Sqrt(rem)/eScale/g.dLon + 1
+			mid := (g.siteLon - g.lon0) / g.dLon
+			if mid >= -1 && mid <= float64(len(row)) { // no wrap of the antimeridian between
+				cLo = max(int(math.Floor(mid-half)), 0)
+				cHi = min(int(math.Ceil(mid+half))+1, len(row))
+			}
+		}
+		cLo = min(cLo, cHi)
+		for c := range row[:cLo] {
+			row[c] = CoverageNoData
+		}
+		for c := cHi; c < len(row); c++ {
+			row[c] = CoverageNoData
+		}
+		for c := cLo; c < cHi; c++ {
 			lon := g.lon0 + float64(c)*g.dLon
 			dLon := lon - g.siteLon
 			if dLon > 180 {
