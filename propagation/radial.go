@@ -65,6 +65,7 @@ type Radial struct {
 	rp       params
 	needLoss bool
 	ft       firstTerm // smooth-earth constants for a_e (eqs. 11a–16)
+	fc       firstTermScale
 
 	hts, h0 float64 // transmitter antenna amsl, ground at the transmitter (m)
 	bulge   float64 // 500 C_e, m/km²
@@ -114,7 +115,7 @@ func NewRadial(prm Params, needLoss bool) (*Radial, error) {
 	if err != nil {
 		return nil, err
 	}
-	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp)}
+	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp), fc: newFirstTermScale(rp)}
 	w.Reset(0)
 	return w, nil
 }
@@ -302,7 +303,7 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 
 	// Smooth spherical earth (eq. 65); where it gives no loss, eq. 66 needs
 	// no Bullington loss of the smooth profile (L_bs ≥ 0).
-	lsph := smoothEarthLossC(d, htsS, hrsS, *rp, &w.ft)
+	lsph := w.smoothEarthLoss(d, htsS, hrsS)
 	lbs := lsph
 	if lsph > 0 {
 		// Bullington over the smooth profile (eq. 64) on the same distances.
@@ -411,4 +412,79 @@ func (w *Radial) smoothMaxima(d, hts, hrs float64) (stim, srim, nuMax float64) {
 		})
 	}
 	return stim, srim, nuMax
+}
+
+// firstTermScale holds the parts of eqs. 11a, 12a, 14a and 15a that do not
+// depend on the effective radius: K = kc·a^(−1/3), X per km = xc·β·a^(−2/3),
+// β·Y per metre = yc·β²·a^(−1/3) (a in km). Within the horizon eq. 24's
+// modified radius a_em changes with every receiver; with these constants
+// its first-term constants cost one cube root and one logarithm instead of
+// three powers, a cube root and a logarithm (newFirstTerm), equal to
+// rounding (about 1e−15 relative).
+type firstTermScale struct {
+	kc, xc, yc float64
+}
+
+func newFirstTermScale(rp params) firstTermScale {
+	f := rp.freqMHz
+	eps := rp.ground.Permittivity
+	q := 18000 * rp.ground.ConductivitySM / f
+	kc := 0.36 * math.Pow(f, -1.0/3) * math.Pow((eps-1)*(eps-1)+q*q, -0.25) // eq. 11a without a_e
+	if rp.pol == Vertical {
+		kc *= math.Sqrt(eps*eps + q*q) // eq. 12a
+	}
+	return firstTermScale{kc: kc, xc: 2.188 * math.Cbrt(f), yc: 9.575e-3 * math.Pow(f, 2.0/3)}
+}
+
+// at returns newFirstTerm's constants for an effective radius aeKM.
+func (c *firstTermScale) at(aeKM float64) firstTerm {
+	u := 1 / math.Cbrt(aeKM) // a^(−1/3)
+	k := c.kc * u
+	k2 := k * k
+	beta := (1 + 1.6*k2 + 0.67*k2*k2) / (1 + 4.5*k2 + 1.53*k2*k2) // eq. 16
+	return firstTerm{xPerKM: c.xc * beta * u * u, yb: c.yc * beta * beta * u, floor: 2 + 20*math.Log10(k)}
+}
+
+// smoothEarthLoss is smoothEarthLossC (ITU-R P.526-16 §3.2, eqs. 22–25)
+// for the Radial's parameters, with the first-term constants of eq. 24's
+// a_em from firstTermScale and (m+1)³ by multiplication: the same
+// formulas, equal to rounding (TestRadialMatchesTerrain, 1e−9 dB).
+func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
+	rp := &w.rp
+	if !(dKM > 0) {
+		return 0
+	}
+	h1 = math.Max(h1, 0)
+	h2 = math.Max(h2, 0)
+	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
+		return math.Max(w.ft.loss(dKM, h1, h2), 0)
+	}
+	d := dKM * 1000
+	ae := rp.aeKM * 1000
+	c := (h1 - h2) / (h1 + h2)                 // eq. 22d
+	m := d * d / (4 * ae * (h1 + h2))          // eq. 22e
+	m1 := m + 1                                //
+	arg := 1.5 * c * math.Sqrt(3*m/(m1*m1*m1)) // argument of arccos in eq. 22c
+	arg = math.Max(-1, math.Min(1, arg))
+	b := 2 * math.Sqrt(m1/(3*m)) * math.Cos(math.Pi/3+math.Acos(arg)/3) // eq. 22c
+	b = math.Max(-1, math.Min(1, b))
+	d1 := d / 2 * (1 + b)                                  // eq. 22a
+	d2 := d - d1                                           // eq. 22b
+	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d // eq. 22
+	h = math.Max(h, 0)
+	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d) // eq. 23
+	if h > hreq {
+		return 0
+	}
+	s := math.Sqrt(h1) + math.Sqrt(h2)
+	aem := 0.5 * (d / s) * (d / s) // eq. 24, metres
+	ft := w.fc.at(aem / 1000)
+	ah := ft.loss(dKM, h1, h2)
+	if ah < 0 {
+		return 0
+	}
+	if hreq == 0 {
+		return ah
+	}
+	return (1 - h/hreq) * ah // eq. 25
 }
