@@ -128,7 +128,10 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		}
 	}
 	return g.emit(newPlanJSON(res, relays), func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeLinksCSV(w, res.Links) },
-		func(w io.Writer) error { renderPlanText(w, p, env, terrainFrom(g, p), res, relays, g.imperial()); return nil })
+		func(w io.Writer) error {
+			renderPlanText(w, p, env, terrainFrom(g, p), res, relays, g.imperial())
+			return nil
+		})
 }
 
 // terrainFrom names where the elevation data came from: the --dem paths
