@@ -126,10 +126,12 @@ type RelayResult struct {
 // distance over the grid, within about 8 % of the straight-line distance;
 // roads outside the grid are not seen), then antenna height, then the
 // exact margin; spots are picked greedily down that order at least
-// SeparationM apart (non-maximum suppression). The best few times Spots
-// such spots are recomputed with Env.Evaluate (the full profile and the
-// Env's model, the antennas' patterns toward each path) and ranked again
-// on those figures, so that the spots' margins are those `link` gives.
+// SeparationM apart (non-maximum suppression). The best 4 × Spots such
+// spots (8 × Spots when the Env's model is not delta-Bullington, e.g. the
+// Longley–Rice ITM: the maps stay delta-Bullington's, see CoverageByCell)
+// are recomputed with Env.Evaluate (the full profile and the Env's model,
+// the antennas' patterns toward each path) and ranked again on those
+// figures, so that the spots' margins are those `link` gives.
 //
 // Gains on the maps are the antennas' peak gains (a directional antenna
 // aimed at the other end); body and clutter losses are included. The
@@ -293,7 +295,13 @@ func (e *Env) FindRelay(ctx context.Context, req RelayRequest, progress Progress
 		return nil, fmt.Errorf("%w: no cell lies within %.0f m of both parties", ErrRelay, radius)
 	}
 	sort.Slice(cands, func(x, y int) bool { return cands[x].before(&cands[y]) })
-	picked := pickApart(grid, cands, 4*spots, sep)
+	recheck := 4 * spots
+	if CoverageByCell(e.Model) {
+		// The maps are delta-Bullington's, the final ranking the Env's
+		// model's: recheck more candidates.
+		recheck = 8 * spots
+	}
+	picked := pickApart(grid, cands, recheck, sep)
 
 	// Recompute the picked cells with the link computation and rank again.
 	checked := make([]relayCell, 0, len(picked))

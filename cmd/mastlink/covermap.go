@@ -12,6 +12,7 @@ import (
 	"github.com/mastlink/mastlink/plan"
 	"github.com/mastlink/mastlink/plan/report"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
 	"github.com/paulmach/orb"
 )
@@ -35,6 +36,7 @@ type coverageView struct {
 	title    string
 	subtitle string
 	imperial bool
+	model    propagation.Model // of a loss map; nil: delta-Bullington (radial engine)
 }
 
 // defaultLevels are the levels of a map when none are asked for: margins
@@ -398,9 +400,7 @@ func writePlanCoverage(ctx context.Context, g *globals, p *plan.Plan, ts *terrai
 		if levels == nil {
 			levels = defaultLevels(spec.Mode, req.Value)
 		}
-		bar := newProgress(g, "coverage radials")
-		res, err := plan.CoverageMap(ctx, ts, *req, bar.update)
-		bar.done()
+		res, err := coverageCompute(ctx, g, ts, su.model, req, "coverage ")
 		if err != nil {
 			return nil, fmt.Errorf("%s:%d: stations: %s: coverage: %w", p.Path, spec.Line, st.Name, err)
 		}
@@ -408,7 +408,7 @@ func writePlanCoverage(ctx context.Context, g *globals, p *plan.Plan, ts *terrai
 			fmt.Fprintf(g.stderr, "mastlink: warning: %s: %s\n", st.Name, w)
 		}
 		v := &coverageView{res: res, mode: spec.Mode, value: req.Value, levels: levels, needDB: req.NeededMarginDB, budget: true,
-			siteName: st.Name, site: st.Pos, markers: su.markers, imperial: g.imperial()}
+			siteName: st.Name, site: st.Pos, markers: su.markers, imperial: g.imperial(), model: su.model}
 		v.title, v.subtitle = coverageTitles(v, req, su.directions)
 		name := "coverage-" + fileSlug(st.Name)
 		for i := 2; used[name]; i++ {

@@ -41,7 +41,9 @@ With -o DIR it writes links.geojson, keepout.geojson, plan.gpx and links.csv
 into DIR for maps, GPS units and spreadsheets, plan-map.png (the links by
 margin over shaded relief), route-N.geojson and sites.geojson when the plan
 has routes and sites, and coverage-NAME.png and coverage-NAME.tif for every
-station whose coverage: asks for a map. With --briefing FILE.html (or
+station whose coverage: asks for a map. The plan's relays: entries are
+searched as the relay command searches them (text section, relays[] in
+the JSON, and the spots as waypoints "Relay N" in plan.gpx). With --briefing FILE.html (or
 briefing: in the plan file) it writes the printable briefing for the team:
 one self-contained page that prints on A4 or US Letter.`,
 		Example: "  mastlink plan examples/valley/plan.yaml\n  mastlink plan examples/valley/plan.yaml --format json\n  mastlink plan examples/valley/plan.yaml -o briefing/\n  mastlink plan examples/valley/plan.yaml --briefing briefing.html",
@@ -89,6 +91,10 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 	if err := addPlanRoutesAndSites(ctx, g, p, env, res); err != nil {
 		return err
 	}
+	relays, err := planRelays(ctx, g, p, env)
+	if err != nil {
+		return err
+	}
 	if env.Terrain != nil {
 		if m := env.Terrain.Missing(); len(m) > 0 {
 			where := "--dem"
@@ -105,7 +111,7 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 		fmt.Fprintf(g.stderr, "mastlink: warning: %s\n", w)
 	}
 	if g.out != "" {
-		if err := writePlanOutputs(g, p, env, res); err != nil {
+		if err := writePlanOutputs(g, p, env, res, relays); err != nil {
 			return err
 		}
 		maps, err := writePlanCoverage(ctx, g, p, env.Terrain, g.out)
@@ -121,8 +127,11 @@ func runPlan(ctx context.Context, g *globals, o *planOptions, args []string) err
 			return err
 		}
 	}
-	return g.emit(res, func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeLinksCSV(w, res.Links) },
-		func(w io.Writer) error { renderPlanText(w, p, env, terrainFrom(g, p), res, g.imperial()); return nil })
+	return g.emit(newPlanJSON(res, relays), func(w io.Writer) error { g.cautionsToStderr(res.Cautions); return writeLinksCSV(w, res.Links) },
+		func(w io.Writer) error {
+			renderPlanText(w, p, env, terrainFrom(g, p), res, relays, g.imperial())
+			return nil
+		})
 }
 
 // terrainFrom names where the elevation data came from: the --dem paths
@@ -183,7 +192,7 @@ func writeLinksCSV(w io.Writer, links []plan.LinkResult) error {
 }
 
 // renderPlanText writes the plan result as a briefing.
-func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string, res *plan.PlanResult, im bool) {
+func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string, res *plan.PlanResult, relays []planRelay, im bool) {
 	title := res.Name
 	if title == "" {
 		title = filepath.Base(p.Path)
@@ -267,6 +276,7 @@ func renderPlanText(w io.Writer, p *plan.Plan, env *plan.Env, terrainFrom string
 		renderMastText(w, res.Mast, im)
 	}
 	renderPlanRoutesAndSites(w, res, im)
+	renderPlanRelays(w, relays, im)
 	fmt.Fprintln(w, "RF exposure (keep people this far from the mast foot while transmitting; rounded up)")
 	t := newTable(w)
 	t.row("  station", "mast", "MHz", "EIRP", "public", "operators", "limits")
@@ -357,7 +367,7 @@ func relPaths(ps []string) []string {
 // links.csv (and route-N.geojson, sites.geojson) into the directory g.out.
 // Every file is rendered and every name checked against the plan's inputs
 // before the first is written, so a refusal leaves nothing half done.
-func writePlanOutputs(g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanResult) error {
+func writePlanOutputs(g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanResult, relays []planRelay) error {
 	dir := g.out
 	if ext := extension(dir); ext != "" {
 		return usagef("-o: %q: plan writes several files; give a directory", dir)
@@ -382,7 +392,7 @@ func writePlanOutputs(g *globals, p *plan.Plan, env *plan.Env, res *plan.PlanRes
 			}
 			return writeJSON(w, fc)
 		}},
-		{"plan.gpx", func(w io.Writer) error { return writePlanGPX(w, p, res) }},
+		{"plan.gpx", func(w io.Writer) error { return writePlanGPX(w, p, res, relays) }},
 		{"links.csv", func(w io.Writer) error { return writeLinksCSV(w, res.Links) }},
 		{planMapFile, func(w io.Writer) error { return writePlanMap(w, p, env, res, g.imperial()) }},
 	}
@@ -465,8 +475,8 @@ func endpoints(p *plan.Plan, l plan.LinkResult) (orb.Point, orb.Point) {
 }
 
 // writePlanGPX writes the plan's places as waypoints annotated with their
-// worst margins, for a GPS.
-func writePlanGPX(w io.Writer, p *plan.Plan, res *plan.PlanResult) error {
+// worst margins, and the relays' spots, for a GPS.
+func writePlanGPX(w io.Writer, p *plan.Plan, res *plan.PlanResult, relays []planRelay) error {
 	// No time of writing: the same plan gives the same bytes.
 	out := gpx.Output{Name: res.Name}
 	for i, s := range p.Stations {
@@ -491,6 +501,7 @@ func writePlanGPX(w io.Writer, p *plan.Plan, res *plan.PlanResult) error {
 		}
 		out.Waypoints = append(out.Waypoints, gpx.Place{Name: t.Name, Pos: t.Pos, ElevM: math.NaN(), Symbol: "Waypoint", Description: desc})
 	}
+	out.Waypoints = append(out.Waypoints, relayWaypoints(relays)...)
 	b, err := gpx.Encode(out)
 	if err != nil {
 		return err

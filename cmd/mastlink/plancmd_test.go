@@ -115,7 +115,8 @@ func TestPlanOutputs(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(g.Waypoints) != 6 || !strings.Contains(g.Waypoints[1].Description, "worst margin") || g.Waypoints[0].Time.Location().String() != "UTC" {
+	// six places of the plan, then the five spots of its relay
+	if len(g.Waypoints) != 11 || !strings.Contains(g.Waypoints[1].Description, "worst margin") || g.Waypoints[6].Name != "Relay 1" || g.Waypoints[0].Time.Location().String() != "UTC" {
 		t.Errorf("plan.gpx waypoints: %+v", g.Waypoints)
 	}
 	f, err := os.Open(filepath.Join(dir, "links.csv"))

@@ -12,6 +12,7 @@ import (
 	"github.com/mastlink/mastlink/plan/gpx"
 	"github.com/mastlink/mastlink/plan/report"
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 )
@@ -76,8 +77,41 @@ the plan's first relays: entry is used.`,
 // relayOutput is the JSON of `mastlink relay`.
 type relayOutput struct {
 	*plan.RelayResult
-	Antenna string   `json:"relay_antenna,omitempty"`
-	Notes   []string `json:"notes"`
+	Antenna string `json:"relay_antenna,omitempty"`
+	// Model is the plan's model, with which the spots are rechecked and
+	// ranked; SearchModel the model of the maps the search ranks cells on.
+	Model       string   `json:"model"`
+	SearchModel string   `json:"search_model"`
+	Notes       []string `json:"notes"`
+}
+
+// newRelayOutput is the answer of a relay search with its notes.
+func newRelayOutput(res *plan.RelayResult, req plan.RelayRequest, env *plan.Env) relayOutput {
+	m := env.Model
+	if m == nil {
+		m = propagation.Terrain{}
+	}
+	return relayOutput{RelayResult: res, Antenna: req.Relay.Antenna.Name(), Model: m.Name(), SearchModel: propagation.Terrain{}.Name(),
+		Notes: relayNotes(res, req, m)}
+}
+
+// relayRequest is the search a relays: entry (or --between/--and) asks
+// for: the parties, the relay with the plan's defaults as kit, heights,
+// radius and the plan's requirement; frequencies are left to the caller.
+// names are where the two parties were given, for errors.
+func relayRequest(p *plan.Plan, spec plan.RelaySpec, names [2]string) (plan.RelayRequest, error) {
+	a, err := p.Party(spec.Between)
+	if err != nil {
+		return plan.RelayRequest{}, usagef("%s: %v", names[0], err)
+	}
+	b, err := p.Party(spec.And)
+	if err != nil {
+		return plan.RelayRequest{}, usagef("%s: %v", names[1], err)
+	}
+	req := plan.RelayRequest{A: a, B: b, Relay: p.Defaults, HeightsM: spec.HeightsM, RadiusM: spec.RadiusM,
+		NeededMarginDB: p.Require.NeededMarginDB()}
+	req.Relay.Name = "relay"
+	return req, nil
 }
 
 func runRelay(ctx context.Context, g *globals, o *relayOptions, args []string) error {
@@ -110,17 +144,15 @@ func runRelay(ctx context.Context, g *globals, o *relayOptions, args []string) e
 	} else if o.between == "" || o.and == "" {
 		return usagef("--between and --and go together: name both parties")
 	}
-	a, err := p.Party(spec.Between)
-	if err != nil {
-		return usagef("--between: %v", err)
+	names := [2]string{"--between", "--and"}
+	if o.between == "" {
+		names = [2]string{fmt.Sprintf("%s:%d: relays[0].between", p.Path, spec.Line), fmt.Sprintf("%s:%d: relays[0].and", p.Path, spec.Line)}
 	}
-	b, err := p.Party(spec.And)
+	req, err := relayRequest(p, spec, names)
 	if err != nil {
-		return usagef("--and: %v", err)
+		return err
 	}
-	req := plan.RelayRequest{A: a, B: b, Relay: p.Defaults, HeightsM: spec.HeightsM, RadiusM: spec.RadiusM,
-		NeededMarginDB: p.Require.NeededMarginDB(), Spots: o.spots}
-	req.Relay.Name = "relay"
+	req.Spots = o.spots
 	if err := o.relay.antennaOptions().Apply(&req.Relay.Antenna); err != nil {
 		return o.relay.antennaUsage(err)
 	}
@@ -172,7 +204,7 @@ func runRelay(ctx context.Context, g *globals, o *relayOptions, args []string) e
 		return err
 	}
 	g.warnMissing(env.Terrain)
-	out := relayOutput{RelayResult: res, Antenna: req.Relay.Antenna.Name(), Notes: relayNotes(res, req)}
+	out := newRelayOutput(res, req, env)
 	if outKind != "" {
 		if err := writeRelayFile(g, outKind, inputs, out, req, env); err != nil {
 			return err
@@ -193,15 +225,20 @@ func firstPositive(v ...float64) float64 {
 }
 
 // relayNotes are the lines every relay answer carries.
-func relayNotes(res *plan.RelayResult, req plan.RelayRequest) []string {
+func relayNotes(res *plan.RelayResult, req plan.RelayRequest, model propagation.Model) []string {
 	var out []string
 	for _, p := range []plan.End{req.A, req.B, req.Relay} {
 		if p.Antenna.Directional() {
 			out = append(out, fmt.Sprintf("%s: the %s is taken as aimed at the other end of each link", p.Name, p.Antenna.Name()))
 		}
 	}
+	if plan.CoverageByCell(model) {
+		out = append(out, fmt.Sprintf("The search ranks cells on maps of the radial engine (ITU-R P.526-16 delta-Bullington); the %d best candidates are then rechecked and ranked again with the plan's model (%s), and those are the margins shown; the map's margins are delta-Bullington's.",
+			8*max(req.Spots, 1), propagation.ModelDescription(model.Name())))
+	} else {
+		out = append(out, "The spots' margins are the link computation's over the full profile (both directions of both links); the map's are the coverage engine's, within about 1 dB of them.")
+	}
 	out = append(out,
-		"The spots' margins are the link computation's over the full profile (both directions of both links); the map's are the coverage engine's, within about 1 dB of them.",
 		"Check access, land and safety at a spot before sending anyone; a relay on a mast needs the usual mast cautions (power lines, guys, weather).")
 	return out
 }

@@ -61,14 +61,19 @@ const (
 	StandardFCC Standard = "fcc"
 	// StandardICNIRP2020 is the ICNIRP 2020 guidelines (Health Physics
 	// 118(5):483–524), Table 5 whole-body reference levels averaged over
-	// 30 minutes. The values are from memory and not yet checked against
-	// the published table; StandardSource says so for the output.
+	// 30 minutes. The values are from memory: neither the published table
+	// nor a faithful copy of it has been read yet (only secondary
+	// transcriptions, which agree); StandardSource says so for the output.
 	StandardICNIRP2020 Standard = "icnirp2020"
 	// StandardICNIRP1998 is the ICNIRP 1998 guidelines (Health Physics
 	// 74(4):494–522), Table 6 (occupational) and Table 7 (general public)
 	// reference levels, averaged over 6 minutes (68/f^1.05 minutes above
-	// 10 GHz, f in GHz). The values are from memory and not yet checked
-	// against the published tables; StandardSource says so for the output.
+	// 10 GHz, f in GHz). The general-public values and the averaging times
+	// agree with the public reference levels of Council Recommendation
+	// 1999/519/EC, Annex III, which are taken from ICNIRP 1998 (read as
+	// reproduced in French Décret n° 2002-775, annex § 2.2 A); the occupational Table 6 has been checked only in part
+	// (see icnirp1998OccupationalBands), so the set as a whole stays marked
+	// from memory and StandardSource says so for the output.
 	StandardICNIRP1998 Standard = "icnirp1998"
 )
 
@@ -76,8 +81,9 @@ var exposureStandards = []Standard{StandardFCC, StandardICNIRP2020, StandardICNI
 
 // StandardSource returns the published table a standard's limits come from
 // and whether the values in this package are from memory, not yet checked
-// against that table (true for both ICNIRP sets). An unknown standard gives
-// an empty source.
+// against that table or a faithful copy of it in full (true for both ICNIRP
+// sets: ICNIRP 2020 Table 5 is unread, ICNIRP 1998 Table 6 is checked only
+// in part). An unknown standard gives an empty source.
 func StandardSource(std Standard) (source string, fromMemory bool) {
 	switch std {
 	case StandardFCC, "":
@@ -179,8 +185,9 @@ var fccPublicBands = []exposureBand{
 }
 
 // ICNIRP 2020 Table 5, whole-body reference levels averaged over 30 min,
-// occupational [from memory, not yet checked against the published table;
-// the local-exposure levels of Table 6 are not used]. Below 30 MHz the table gives only
+// occupational [from memory, not yet checked against the published table
+// or a faithful copy of it; the local-exposure levels of Table 6 are not
+// used]. Below 30 MHz the table gives only
 // incident field strengths (E = 660/f^0.7 V/m, H = 4.9/f A/m); their
 // plane-wave equivalent is used.
 var icnirp2020OccupationalBands = []exposureBand{
@@ -191,7 +198,7 @@ var icnirp2020OccupationalBands = []exposureBand{
 }
 
 // ICNIRP 2020 Table 5, general public [from memory, not yet checked against
-// the published table]. Below
+// the published table or a faithful copy of it]. Below
 // 30 MHz: E = 300/f^0.7 V/m, H = 2.2/f A/m, plane-wave equivalent used.
 var icnirp2020PublicBands = []exposureBand{
 	{0.3, 30, func(f float64) float64 { return planeWaveWM2(300/math.Pow(f, 0.7), 2.2/f) }},
@@ -200,8 +207,14 @@ var icnirp2020PublicBands = []exposureBand{
 	{2000, 100000, func(float64) float64 { return 10 }},
 }
 
-// ICNIRP 1998 Table 6, occupational reference levels [from memory, not yet
-// checked against the published table]. Below 10 MHz the table gives field strengths only (0.065–1 MHz:
+// ICNIRP 1998 Table 6, occupational reference levels [from memory, checked
+// only in part: the E-field levels 610 V/m (0.065–1 MHz), 610/f V/m
+// (1–10 MHz) and 61 V/m with 10 W/m² (10–400 MHz) agree with a copy of the
+// table read in secondary material, and 3·10⁻³·f^½ V/m (f in Hz, i.e.
+// 3·f^½ with f in MHz, 400 MHz–2 GHz) and 50 W/m² above 2 GHz agree with
+// the action values of Directive 2013/35/EU Annex III, which keep them; the
+// H-field levels 1.6/f A/m and the S column for 400–2000 MHz (f/40) have
+// not been read]. Below 10 MHz the table gives field strengths only (0.065–1 MHz:
 // 610 V/m, 1.6/f A/m; 1–10 MHz: 610/f V/m, 1.6/f A/m); their plane-wave
 // equivalent is used.
 var icnirp1998OccupationalBands = []exposureBand{
@@ -212,9 +225,14 @@ var icnirp1998OccupationalBands = []exposureBand{
 	{2000, 100000, func(float64) float64 { return 50 }},
 }
 
-// ICNIRP 1998 Table 7, general public reference levels [from memory, not
-// yet checked against the published table]. Below 10 MHz: 0.15–1 MHz 87 V/m, 0.73/f A/m; 1–10 MHz
-// 87/f^0.5 V/m, 0.73/f A/m; plane-wave equivalent used.
+// ICNIRP 1998 Table 7, general public reference levels. Every band used
+// here (0.15–1 MHz: 87 V/m, 0.73/f A/m; 1–10 MHz: 87/f^½ V/m, 0.73/f A/m;
+// 10–400 MHz: 28 V/m, 0.073 A/m, 2 W/m²; 400–2000 MHz: 1.375·f^½ V/m,
+// 0.0037·f^½ A/m, f/200 W/m²; 2–300 GHz: 61 V/m, 0.16 A/m, 10 W/m²) was
+// checked against the public reference levels of Council Recommendation
+// 1999/519/EC, Annex III, which are taken from this table, read as
+// reproduced in French Décret n° 2002-775 of 3 May 2002, annex § 2.2 A
+// (not against the journal's page itself). Below 10 MHz the plane-wave equivalent is used.
 var icnirp1998PublicBands = []exposureBand{
 	{0.3, 1, func(f float64) float64 { return planeWaveWM2(87, 0.73/f) }},
 	{1, 10, func(f float64) float64 { return planeWaveWM2(87/math.Sqrt(f), 0.73/f) }},
@@ -244,7 +262,9 @@ func lookupBand(table []exposureBand, freqMHz float64) float64 {
 }
 
 // icnirp1998Averaging is the ICNIRP 1998 averaging time: 6 minutes up to
-// 10 GHz, 68/f^1.05 minutes above (f in GHz) [from memory, not yet checked].
+// 10 GHz, 68/f^1.05 minutes above (f in GHz); checked against notes 2 and 3
+// of the reference levels of Council Recommendation 1999/519/EC, Annex III
+// (as reproduced in French Décret n° 2002-775, annex § 2.2 A).
 func icnirp1998Averaging(freqMHz float64) time.Duration {
 	if freqMHz <= 10000 {
 		return 6 * time.Minute
@@ -260,10 +280,12 @@ func icnirp1998Averaging(freqMHz float64) time.Duration {
 //   - StandardFCC: 47 CFR § 1.1310(e)(1) Table 1; occupational/controlled
 //     averaged over 6 min, general population/uncontrolled over 30 min.
 //   - StandardICNIRP2020: ICNIRP 2020 Table 5, both tiers over 30 min
-//     [from memory, not yet checked]; below 30 MHz the plane-wave equivalent of the
+//     [from memory, not yet checked against the table]; below 30 MHz the plane-wave equivalent of the
 //     incident E and H reference levels (the stricter of E²/Z0 and Z0·H²).
 //   - StandardICNIRP1998: ICNIRP 1998 Tables 6 and 7, over 6 min (68/f^1.05
-//     min above 10 GHz) [from memory, not yet checked]; below 10 MHz the plane-wave
+//     min above 10 GHz) [Table 7 and the averaging times checked against the
+//     reference levels of Council Recommendation 1999/519/EC, Annex III,
+//     taken from it; Table 6 from memory, checked in part]; below 10 MHz the plane-wave
 //     equivalent of the E and H reference levels.
 //
 // The standard's name is read as by ParseStandard ("" is
@@ -309,15 +331,16 @@ type TxMode string
 const (
 	ModeFM           TxMode = "fm"            // FM voice, 100 %
 	ModeSSB          TxMode = "ssb"           // conversational SSB, 20 %
-	ModeSSBProcessed TxMode = "ssb-processed" // SSB with heavy speech processing, 50 % (typical; see DutySource)
+	ModeSSBProcessed TxMode = "ssb-processed" // SSB with heavy speech processing, 50 % (typical, conservative; see DutySource)
 	ModeCW           TxMode = "cw"            // conversational CW, 40 %
 	ModeDigital      TxMode = "digital"       // FSK, RTTY, AFSK over SSB, 100 %
 	ModeCarrier      TxMode = "carrier"       // unmodulated carrier, 100 %
 )
 
 // txModeDuty is OET Bulletin 65 Supplement B (ed. 97-01) Table 2, except
-// ssb-processed: 50 % is a typical, conservative figure for heavily
-// processed speech, not taken from that table (see DutySource).
+// ssb-processed: the published table has not been read for it, and
+// secondary copies of the table disagree (40 % in some, 50 % in others), so
+// 50 %, the higher, is used and marked typical (see DutySource).
 var txModeDuty = []struct {
 	mode TxMode
 	duty float64
@@ -367,10 +390,11 @@ func (m TxMode) DutyFactor() (float64, error) {
 // DutySource returns where the mode's duty factor comes from, for the
 // output: FCC OET Bulletin 65 Supplement B (ed. 97-01) Table 2 for fm, ssb,
 // cw, digital and carrier; for ssb-processed, a typical figure (50 %,
-// conservative) that is not taken from that table.
+// conservative) not checked against that table, whose secondary copies give
+// 40 % or 50 %.
 func (m TxMode) DutySource() string {
 	if m == ModeSSBProcessed {
-		return "typical figure for heavily processed speech, conservative; not from FCC OET Bulletin 65 Supplement B Table 2"
+		return "typical figure for heavily processed speech, the higher of the 40 % and 50 % that copies of FCC OET Bulletin 65 Supplement B Table 2 give; not checked against the published table"
 	}
 	return "FCC OET Bulletin 65 Supplement B (ed. 97-01), Table 2"
 }
