@@ -93,6 +93,13 @@ type CoverageRequest struct {
 	// differ); received level and margin take the lowest over them.
 	Budgets        []CoverageBudget
 	NeededMarginDB float64 // margin a covered cell needs, dB (with Budgets)
+	// SitePattern, when not nil, is the site antenna's gain toward an
+	// azimuth (degrees clockwise from true north, in the horizontal plane)
+	// relative to the gain the Budgets carry, dB (≤ 0 for a pattern
+	// relative to its peak). It is added to every direction of every cell,
+	// the site antenna taking part both ways. Nil means an antenna that is
+	// the same toward every cell (Antenna.CoveragePattern).
+	SitePattern func(azimuthDeg float64) float64
 	// ResolutionM is the cell size in metres; 0 takes the grid of the
 	// elevation file at the site (cell centres on its samples), or 3″
 	// where no file covers the site.
@@ -454,6 +461,10 @@ func (g *coverageGrid) walk(ws *coverageWorker, r int, h0 float64, cells []int32
 	lats, lons, hgts := ws.lats[:n], ws.lons[:n], ws.hgts[:n]
 	ws.sp.NoData = 0
 	azi := 360 * float64(r) / float64(g.radials)
+	patternDB := 0.0 // the site antenna's gain along this radial, relative
+	if req.SitePattern != nil {
+		patternDB = req.SitePattern(azi)
+	}
 	if err := ws.sp.Radial(g.siteLat, g.siteLon, azi, g.stepM, lats, lons, hgts); err != nil {
 		return 0, false, err
 	}
@@ -505,7 +516,7 @@ func (g *coverageGrid) walk(ws *coverageWorker, r int, h0 float64, cells []int32
 				}
 			} else {
 				l := w.Loss(dKM, hc)
-				val, ok := coverageValue(l, req)
+				val, ok := coverageValue(l, req, patternDB)
 				v = float32(val)
 				if ok {
 					covered++
@@ -519,14 +530,15 @@ func (g *coverageGrid) walk(ws *coverageWorker, r int, h0 float64, cells []int32
 }
 
 // coverageValue turns a cell's loss into the requested value, and says
-// whether the cell is covered.
-func coverageValue(l propagation.RadialLoss, req *CoverageRequest) (float64, bool) {
+// whether the cell is covered; patternDB is the site antenna's gain toward
+// the cell relative to the Budgets' (CoverageRequest.SitePattern).
+func coverageValue(l propagation.RadialLoss, req *CoverageRequest, patternDB float64) (float64, bool) {
 	if len(req.Budgets) == 0 {
 		return l.PathLossDB, l.LineOfSight
 	}
 	rx, margin := math.Inf(1), math.Inf(1)
 	for _, b := range req.Budgets {
-		p := b.EIRPDBm - l.PathLossDB + b.RxNetGainDB
+		p := b.EIRPDBm + patternDB - l.PathLossDB + b.RxNetGainDB
 		rx = math.Min(rx, p)
 		margin = math.Min(margin, p-b.RxSensitivityDBm)
 	}

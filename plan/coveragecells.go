@@ -114,7 +114,11 @@ func (e *Env) CoverageCells(ctx context.Context, req CoverageRequest, progress P
 				return fmt.Errorf("cell %.5f,%.5f: %w", to.Lat(), to.Lon(), err)
 			}
 			warns[i] = geo.modelWarn
-			v, ok := coverageValue(propagation.RadialLoss{PathLossDB: l.PathLossDB, LineOfSight: l.LineOfSight}, &req)
+			patternDB := 0.0
+			if req.SitePattern != nil {
+				patternDB = req.SitePattern(geo.Profile.AzimuthDeg)
+			}
+			v, ok := coverageValue(propagation.RadialLoss{PathLossDB: l.PathLossDB, LineOfSight: l.LineOfSight}, &req, patternDB)
 			res.Values[i] = float32(v)
 			if ok {
 				covered[r]++

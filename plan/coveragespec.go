@@ -156,3 +156,16 @@ func CoverageBudgets(site, cell End, freqMHz float64, dir CoverageDirection) ([]
 	}
 	return out, nil
 }
+
+// CoveragePattern returns the antenna's horizontal pattern for a coverage
+// map (CoverageRequest.SitePattern): its gain toward each azimuth relative
+// to its peak gain, dB (Antenna.GainTowardDBi at 0° elevation, the catalog
+// pattern aimed at BearingDeg). It is nil for an antenna without a
+// directional catalog type, and for a directional one given no bearing,
+// which a map takes as turned toward every cell.
+func (a Antenna) CoveragePattern() func(azimuthDeg float64) float64 {
+	if !a.Directional() || !a.Aimed {
+		return nil
+	}
+	return func(azimuthDeg float64) float64 { return a.GainTowardDBi(azimuthDeg, 0) - a.GainDBi }
+}

@@ -341,10 +341,12 @@ func (o *coverageOptions) fromFlags(g *globals, mode plan.CoverageMode, dir plan
 		return nil, err
 	}
 	req.SiteHeightM, req.TargetHeightM = site.Antenna.HeightM, cell.Antenna.HeightM
-	for _, a := range []plan.Antenna{site.Antenna, cell.Antenna} {
-		if a.Directional() {
-			fmt.Fprintf(g.stderr, "mastlink: note: the map takes the %s's peak gain toward every cell (as if turned to each); its pattern is not applied cell by cell\n", a.Name())
-		}
+	req.SitePattern = site.Antenna.CoveragePattern()
+	if a := site.Antenna; a.Directional() && !a.Aimed {
+		fmt.Fprintf(g.stderr, "mastlink: note: the map takes the site's %s at its peak gain toward every cell (as if turned to each); give --bearing to apply its pattern\n", a.Name())
+	}
+	if a := cell.Antenna; a.Directional() {
+		fmt.Fprintf(g.stderr, "mastlink: note: the %s in each cell is taken as turned toward the site (its peak gain)\n", a.Name())
 	}
 	if mode == plan.CoverageLoss {
 		if o.freq == "" {
@@ -465,6 +467,7 @@ func planCoverageSetup(p *plan.Plan, st plan.Station, cell plan.End, freqMHz flo
 		if su.req.Budgets, err = plan.CoverageBudgets(st.End, cell, freqMHz, dir); err != nil {
 			return nil, err
 		}
+		su.req.SitePattern = st.Antenna.CoveragePattern()
 		su.directions = coverageDirections(st.End, cell, dir)
 	}
 	for _, t := range p.Targets {
