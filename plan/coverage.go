@@ -5,11 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"strings"
-	"sync"
-	"sync/atomic"
-	"time"
 
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
@@ -563,70 +559,8 @@ func normLonDeg(lon float64) float64 {
 	return lon
 }
 
-// coverageParallel calls fn(ws, i) for every i in [0, n) on GOMAXPROCS
-// goroutines, each with its own worker storage; fn writes results by
-// index, so the output does not depend on the core count. progress, when
-// not nil, is called from the calling goroutine about every 100 ms and
-// once with (n, n) at the end. The first error (lowest index) or ctx's
-// error ends the run.
+// coverageParallel is the worker pool of runParallel (parallelWith) with
+// the coverage engine's own storage in each goroutine.
 func coverageParallel(ctx context.Context, n int, progress func(done, total int), fn func(ws *coverageWorker, i int) error) error {
-	ctx, cancel := context.WithCancel(ctx)
-	defer cancel()
-	var (
-		next, done atomic.Int64
-		mu         sync.Mutex
-		firstErr   error
-		errAt      = n
-		wg         sync.WaitGroup
-	)
-	for range min(runtime.GOMAXPROCS(0), max(n, 1)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var ws coverageWorker
-			for ctx.Err() == nil {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				if err := fn(&ws, i); err != nil {
-					mu.Lock()
-					if i < errAt {
-						errAt, firstErr = i, err
-					}
-					mu.Unlock()
-					cancel()
-					return
-				}
-				done.Add(1)
-			}
-		}()
-	}
-	finished := make(chan struct{})
-	go func() { wg.Wait(); close(finished) }()
-	if progress != nil {
-		tick := time.NewTicker(100 * time.Millisecond)
-	wait:
-		for {
-			select {
-			case <-finished:
-				break wait
-			case <-tick.C:
-				progress(int(done.Load()), n)
-			}
-		}
-		tick.Stop()
-	} else {
-		<-finished
-	}
-	if firstErr != nil {
-		return firstErr
-	}
-	if int(done.Load()) < n {
-		return context.Cause(ctx)
-	}
-	if progress != nil {
-		progress(n, n)
-	}
-	return nil
+	return parallelWith(ctx, n, progress, fn)
 }

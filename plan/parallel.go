@@ -23,6 +23,13 @@ const progressEvery = 100 * time.Millisecond
 // (returning ctx's error) or when fn fails; of the errors seen, the one of
 // the lowest index is returned.
 func runParallel(ctx context.Context, n int, progress Progress, fn func(g *Geometry, i int) error) error {
+	return parallelWith(ctx, n, progress, fn)
+}
+
+// parallelWith is runParallel with worker storage of any type W: each
+// goroutine owns one zero W, reused for every call it makes (a Geometry for
+// the profile jobs, the coverage engine's sample buffers for its radials).
+func parallelWith[W any](ctx context.Context, n int, progress func(done, total int), fn func(w *W, i int) error) error {
 	if n == 0 {
 		if progress != nil {
 			progress(0, 0)
@@ -43,13 +50,13 @@ func runParallel(ctx context.Context, n int, progress Progress, fn func(g *Geome
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var g Geometry
+			var w W
 			for ctx.Err() == nil {
 				i := int(next.Add(1) - 1)
 				if i >= n {
 					return
 				}
-				if err := fn(&g, i); err != nil {
+				if err := fn(&w, i); err != nil {
 					mu.Lock()
 					if i < errAt {
 						errAt, firstErr = i, err

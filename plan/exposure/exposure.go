@@ -63,7 +63,7 @@ const (
 	// 118(5):483–524), Table 5 whole-body reference levels averaged over
 	// 30 minutes. The values are from memory: neither the published table
 	// nor a faithful copy of it has been read yet (only secondary
-	// transcriptions, which agree); StandardSource says so for the output.
+	// copies, which agree); StandardSource says so for the output.
 	StandardICNIRP2020 Standard = "icnirp2020"
 	// StandardICNIRP1998 is the ICNIRP 1998 guidelines (Health Physics
 	// 74(4):494–522), Table 6 (occupational) and Table 7 (general public)

@@ -22,7 +22,7 @@ import (
 //     averaging, worked examples).
 //   - 47 CFR § 1.1307(b)(3)(i)(C) (exemption thresholds).
 //   - ICNIRP 2020 Table 5: FROM MEMORY. Neither the published table nor a
-//     faithful copy was found; secondary transcriptions agree with the values
+//     faithful copy was found; secondary copies agree with the values
 //     below (public 27.7 V/m, 0.073 A/m, 2 W/m² at 30–400 MHz; f/200 W/m² at
 //     400–2000 MHz; 10 and 50 W/m² above 2 GHz), and a sentence quoted from
 //     the guidelines' appendix says they "retain the ICNIRP (1998) reference
