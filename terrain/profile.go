@@ -257,19 +257,3 @@ func (g *gridCursor) at(y, x float64) float64 {
 	}
 	return voidMean(h00, h01, h10, h11)
 }
-
-// voidMean returns the mean of the valid (non-NaN) values among four, NaN
-// when all are voids: Tile.At's answer next to a void.
-func voidMean(h00, h01, h10, h11 float64) float64 {
-	sum, n := 0.0, 0
-	for _, v := range [4]float64{h00, h01, h10, h11} {
-		if v == v {
-			sum += v
-			n++
-		}
-	}
-	if n == 0 {
-		return math.NaN()
-	}
-	return sum / float64(n)
-}

@@ -104,18 +104,11 @@ func (p *Sampler) at(y, x float64) float64 {
 	if v := top + fy*(bottom-top); v == v {
 		return v
 	}
-	sum, n := 0.0, 0
-	for _, v := range [4]float64{h00, h01, h10, h11} {
-		if v == v {
-			sum += v
-			n++
-		}
+	if v := voidMean(h00, h01, h10, h11); v == v {
+		return v
 	}
-	if n == 0 {
-		p.NoData++
-		return 0
-	}
-	return sum / float64(n)
+	p.NoData++
+	return 0
 }
 
 // Radial fills lats, lons and heights (all the same length n) with the

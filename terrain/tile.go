@@ -89,6 +89,12 @@ func (t *Tile) At(lat, lon float64) float64 {
 	if v := top + fy*(bottom-top); v == v {
 		return v
 	}
+	return voidMean(h00, h01, h10, h11)
+}
+
+// voidMean returns the mean of the valid (non-NaN) values among four, NaN
+// when all are voids: Tile.At's answer next to a void.
+func voidMean(h00, h01, h10, h11 float64) float64 {
 	sum, n := 0.0, 0
 	for _, v := range [4]float64{h00, h01, h10, h11} {
 		if v == v {
