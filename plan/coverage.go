@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync/atomic"
 
 	"github.com/mastlink/mastlink/propagation"
 	"github.com/mastlink/mastlink/terrain"
@@ -226,10 +227,11 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 		}
 		return finishCoverage(ts, res), nil
 	}
-	g.bucket(ctx, res.Values)
-	if err := ctx.Err(); err != nil {
+	cellNoData, err := g.bucket(ctx, ts, res.Values)
+	if err != nil {
 		return nil, err
 	}
+	res.SmoothEarth = cellNoData
 
 	// Cells by radial (counting sort, in cell order within each radial).
 	start := make([]int32, g.radials+1)
@@ -411,20 +413,52 @@ func (g *coverageGrid) distance(r, c int) float64 {
 }
 
 // bucket sets the radial of every cell within the radius (−1 outside, and
-// those cells CoverageNoData), on every core.
-func (g *coverageGrid) bucket(ctx context.Context, values []float32) {
+// those cells CoverageNoData) and stores each such cell's own ground height
+// (m, float32) in values, where walk reads it back before it writes the
+// cell's answer; on every core. The azimuth is azimuthRad's (within 2e−8
+// rad of atan2).
+func (g *coverageGrid) bucket(ctx context.Context, ts *terrain.Set, values []float32) (noData bool, err error) {
 	g.radialOfCell = make([]int32, g.rows*g.cols)
 	perRad := float64(g.radials) / (2 * math.Pi)
-	_ = coverageParallel(ctx, g.rows, nil, func(_ *coverageWorker, r int) error {
+	r2 := g.radiusM * g.radiusM
+	var nd atomic.Bool
+	err = coverageParallel(ctx, g.rows, nil, func(ws *coverageWorker, r int) error {
+		if ws.sp == nil {
+			ws.sp = ts.NewSampler()
+		}
+		ws.sp.NoData = 0
+		defer func() {
+			if ws.sp.NoData > 0 {
+				nd.Store(true)
+			}
+		}()
 		row := g.radialOfCell[r*g.cols : (r+1)*g.cols]
+		vals := values[r*g.cols : (r+1)*g.cols]
+		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+		cLo, cHi := g.span(north, g.rowE[r], r2)
+		if err := ws.sp.Row(g.rowLat[r], g.lon0, g.dLon, vals, cLo, cHi); err != nil {
+			return err
+		}
 		for c := range row {
-			d, az := g.offset(r, c)
-			if d > g.radiusM {
-				row[c] = -1
-				values[r*g.cols+c] = CoverageNoData
+			if c < cLo || c >= cHi {
+				row[c], vals[c] = -1, CoverageNoData
 				continue
 			}
-			k := int(math.Round(az * perRad))
+			dLon := g.lon0 + float64(c)*g.dLon - g.siteLon
+			if dLon > 180 {
+				dLon -= 360
+			} else if dLon < -180 {
+				dLon += 360
+			}
+			e := dLon * g.rowE[r]
+			if e*e+north*north > r2 {
+				row[c], vals[c] = -1, CoverageNoData
+				continue
+			}
+			k := 0
+			if e != 0 || north != 0 {
+				k = int(math.Round(azimuthRad(e, north) * perRad))
+			}
 			if k < 0 {
 				k += g.radials
 			}
@@ -432,6 +466,26 @@ func (g *coverageGrid) bucket(ctx context.Context, values []float32) {
 		}
 		return nil
 	})
+	return nd.Load(), err
+}
+
+// span returns the columns [lo, hi) of a row north metres north of the
+// site (eScale metres per degree of longitude) that may lie within the
+// radius (r2 its square): |e| ≤ √(r2 − north²), a cell wider each side for
+// rounding; the distance test of each cell decides.
+func (g *coverageGrid) span(north, eScale, r2 float64) (lo, hi int) {
+	lo, hi = 0, g.cols
+	if rem := r2 - north*north; rem < 0 {
+		hi = 0
+	} else if eScale > 0 {
+		half := math.Sqrt(rem)/eScale/g.dLon + 1
+		mid := (g.siteLon - g.lon0) / g.dLon
+		if mid >= -1 && mid <= float64(g.cols) { // no wrap of the antimeridian between
+			lo = max(int(math.Floor(mid-half)), 0)
+			hi = min(int(math.Ceil(mid+half))+1, g.cols)
+		}
+	}
+	return min(lo, hi), hi
 }
 
 // coverageWorker is one goroutine's storage, reused for every radial.
@@ -498,11 +552,7 @@ func (g *coverageGrid) walk(ws *coverageWorker, r int, h0 float64, cells []int32
 		for ; next < len(order) && next < int(count[m]); next++ {
 			cell := cells[order[next]]
 			dM := dist[order[next]]
-			row, col := int(cell)/g.cols, int(cell)%g.cols
-			hc, err := ws.sp.Height(g.rowLat[row], normLonDeg(g.lon0+float64(col)*g.dLon))
-			if err != nil {
-				return 0, false, err
-			}
+			hc := float64(values[cell]) // the cell's ground, from bucket
 			dKM := math.Max(dM, 1) / 1000 // a cell at the site counts as 1 m away
 			var v float32
 			if los {

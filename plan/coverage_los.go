@@ -144,20 +144,12 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
 		eScale := g.rowE[r]
 		var nc, nv int64
-		// The columns within the radius: |e| ≤ √(R² − north²), a cell
-		// wider each side for rounding (the test below decides).
-		cLo, cHi := 0, len(row)
-		if rem := r2 - north*north; rem < 0 {
-			cHi = 0
-		} else if eScale > 0 {
-			half := math.Sqrt(rem)/eScale/g.dLon + 1
-			mid := (g.siteLon - g.lon0) / g.dLon
-			if mid >= -1 && mid <= float64(len(row)) { // no wrap of the antimeridian between
-				cLo = max(int(math.Floor(mid-half)), 0)
-				cHi = min(int(math.Ceil(mid+half))+1, len(row))
-			}
+		cLo, cHi := g.span(north, eScale, r2) // the columns within the radius
+		// The cells' own ground first, row-wise into the row itself (each
+		// cell's height is read back just before its answer replaces it).
+		if err := ws.sp.Row(g.rowLat[r], g.lon0, g.dLon, row, cLo, cHi); err != nil {
+			return err
 		}
-		cLo = min(cLo, cHi)
 		for c := range row[:cLo] {
 			row[c] = CoverageNoData
 		}
@@ -196,10 +188,7 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 				}
 			}
 			m := min(max(int(math.Ceil(d*invStep-0.5))-1, 0), n-2)
-			hc, err := ws.sp.Height(g.rowLat[r], normLonDeg(lon))
-			if err != nil {
-				return err
-			}
+			hc := float64(row[c])
 			dKM := math.Max(d, 1) / 1000 // a cell at the site counts as 1 m away
 			if hl.Visible(float64(table[at(k, m)]), dKM, hc) {
 				row[c] = 1

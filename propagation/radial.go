@@ -1,9 +1,6 @@
 package propagation
 
-import (
-	"math"
-	"sort"
-)
+import "math"
 
 // Radial computes line of sight and delta-Bullington diffraction (ITU-R
 // P.526-16 §4.5) for many receivers along one radial from a transmitter,
@@ -85,6 +82,8 @@ type Radial struct {
 	smax   []float64 // highest y_i of each block of radialSuper points
 	cd, cy []float64 // upper hull of (d_i, y_i)
 	rd, rh []float64 // upper hull of (d_i, h_i)
+
+	nuFrac float64 // smoothMaxima: where ν peaked last, as a fraction of the path (a search's first guess)
 }
 
 // RadialNuWindow is the number of hull vertices on either side of the one
@@ -134,6 +133,7 @@ func (w *Radial) Reset(siteGroundM float64) {
 	w.ys, w.bmax, w.smax = w.ys[:0], w.bmax[:0], w.smax[:0]
 	w.cd, w.cy = w.cd[:0], w.cy[:0]
 	w.rd, w.rh = w.rd[:0], w.rh[:0]
+	w.nuFrac = 0.5
 }
 
 // Len returns the number of intermediate points added since Reset.
@@ -380,24 +380,37 @@ func (w *Radial) nuMax(d, yr float64) (nu, atKM float64) {
 // faster. S_tim's bulge·(d − d_i) − h_ts/d_i is concave in d_i with its
 // peak at d_i = √(h_ts/bulge), and S_rim's bulge·d_i − h_rs/(d − d_i) at
 // d − d_i = √(h_rs/bulge), so each maximum over the points is at one of
-// the two points around the peak (a binary search over the distances,
-// no function evaluated on the way). ν_max (eq. 51) is needed only when
-// the smooth profile is line of sight (eq. 50) and is then searched as in
-// smoothProfileMaxima; otherwise it is returned as −∞.
+// the two points around the peak. ν_max (eq. 51) is needed only when the
+// smooth profile is line of sight (eq. 50); ν(x) = (bulge·u − h_ts −
+// slope·x)·√(kNu/u), u = x(d − x), rises then falls, and its derivative has
+// the sign of the polynomial H(x) = u′(bulge·u + h_ts + slope·x) − 2·slope·u
+// (u′ = d − 2x), so the first point where H ≤ 0 is the first past the
+// peak and the maximum over the points is there or at the point before.
+// Otherwise ν_max is returned as −∞.
+//
+// The three points are found by galloping searches (searchFrom) from a
+// guess: the index the peak would have if the points stood every
+// dist[1] km, as a coverage radial's do, and for ν the peak's fraction of
+// the path at the previous call. With evenly spaced points each search
+// costs a comparison or two instead of a binary search's ten mispredicted
+// branches; the answers are the binary search's whatever the spacing.
 func (w *Radial) smoothMaxima(d, hts, hrs float64) (stim, srim, nuMax float64) {
 	inf := math.Inf(-1)
 	pts := w.dist[1:] // the intermediate points
 	if len(pts) == 0 {
 		return inf, inf, inf
 	}
+	inv := 1 / pts[0] // points per km if evenly spaced
 	bulge := w.bulge
 	stim, srim, nuMax = inf, inf, inf
-	i := sort.SearchFloat64s(pts, math.Sqrt(hts/bulge))
+	x := math.Sqrt(hts / bulge)
+	i := searchFrom(len(pts), guessIndex(x, inv), func(j int) bool { return pts[j] >= x })
 	for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
 		di := pts[j]
 		stim = math.Max(stim, bulge*(d-di)-hts/di)
 	}
-	i = sort.SearchFloat64s(pts, d-math.Sqrt(hrs/bulge))
+	x = d - math.Sqrt(hrs/bulge)
+	i = searchFrom(len(pts), guessIndex(x, inv), func(j int) bool { return pts[j] >= x })
 	for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
 		di := pts[j]
 		srim = math.Max(srim, bulge*di-hrs/(d-di))
@@ -405,13 +418,74 @@ func (w *Radial) smoothMaxima(d, hts, hrs float64) (stim, srim, nuMax float64) {
 	if stim < (hrs-hts)/d {
 		kNu := 0.002 * d / w.rp.wavelengthM
 		slope := (hrs - hts) / d
-		nuMax = maxUnimodal(0, len(pts)-1, func(i int) float64 {
-			di := pts[i]
-			ddi := d - di
-			return (bulge*di*ddi - hts - slope*di) * math.Sqrt(kNu/(di*ddi))
+		i = searchFrom(len(pts), guessIndex(w.nuFrac*d, inv), func(j int) bool {
+			x := pts[j]
+			u := x * (d - x)
+			return (d-2*x)*(bulge*u+hts+slope*x)-2*slope*u <= 0
 		})
+		for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
+			di := pts[j]
+			ddi := d - di
+			if v := (bulge*di*ddi - hts - slope*di) * math.Sqrt(kNu/(di*ddi)); v > nuMax {
+				nuMax, w.nuFrac = v, di/d
+			}
+		}
 	}
 	return stim, srim, nuMax
+}
+
+// guessIndex returns the index of the first point at or beyond x km among
+// points every 1/inv km from 1/inv on, clamped to int's range.
+func guessIndex(x, inv float64) int {
+	g := math.Ceil(x*inv) - 1
+	if !(g > 0) {
+		return 0
+	}
+	return int(math.Min(g, 1<<40))
+}
+
+// searchFrom returns the smallest i in [0, n) with ok(i) true (n if none),
+// for ok false then true along the indices (as sort.Search), galloping out
+// from the guess g: O(log |answer − g|) calls.
+func searchFrom(n, g int, ok func(int) bool) int {
+	g = min(max(g, 0), n)
+	lo, hi := 0, n // ok is false below lo and true from hi on
+	if g < n && !ok(g) {
+		lo = g + 1
+		for s := 1; ; s *= 2 {
+			p := g + s
+			if p >= n {
+				break
+			}
+			if ok(p) {
+				hi = p
+				break
+			}
+			lo = p + 1
+		}
+	} else {
+		hi = g
+		for s := 1; ; s *= 2 {
+			p := g - s
+			if p < 0 {
+				break
+			}
+			if !ok(p) {
+				lo = p + 1
+				break
+			}
+			hi = p
+		}
+	}
+	for lo < hi {
+		m := int(uint(lo+hi) >> 1)
+		if ok(m) {
+			hi = m
+		} else {
+			lo = m + 1
+		}
+	}
+	return lo
 }
 
 // firstTermScale holds the parts of eqs. 11a, 12a, 14a and 15a that do not
