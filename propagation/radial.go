@@ -136,6 +136,24 @@ func (w *Radial) Reset(siteGroundM float64) {
 	w.nuFrac = 0.5
 }
 
+// CopyFrom makes w the radial src is: the same parameters, transmitter and
+// points added (copied into w's own storage, so that both can go on
+// independently). A radial can so branch: the points added so far shared,
+// the next ones each its own.
+func (w *Radial) CopyFrom(src *Radial) {
+	dist, ys, bmax, smax := w.dist, w.ys, w.bmax, w.smax
+	cd, cy, rd, rh := w.cd, w.cy, w.rd, w.rh
+	*w = *src
+	w.dist = append(dist[:0], src.dist...)
+	w.ys = append(ys[:0], src.ys...)
+	w.bmax = append(bmax[:0], src.bmax...)
+	w.smax = append(smax[:0], src.smax...)
+	w.cd = append(cd[:0], src.cd...)
+	w.cy = append(cy[:0], src.cy...)
+	w.rd = append(rd[:0], src.rd...)
+	w.rh = append(rh[:0], src.rh...)
+}
+
 // Len returns the number of intermediate points added since Reset.
 func (w *Radial) Len() int { return w.n }
 
@@ -255,7 +273,7 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	rp := &w.rp
 	d := distKM
 	hts, hrs := w.hts, groundM+rp.rxM
-	fs := FreeSpaceLossWavelengthDB(d, rp.wavelengthM)
+	fs := 20 * log10Fast(4*math.Pi*d*1000/rp.wavelengthM) // FreeSpaceLossWavelengthDB
 	out := RadialLoss{FreeSpaceDB: fs}
 	if !(d > w.dp) {
 		// The receiver does not lie beyond the points: treat it as free space.
@@ -265,18 +283,17 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	bulge := w.bulge
 	str := (hrs - hts) / d
 	stim, srim, nuMax := math.Inf(-1), math.Inf(-1), math.Inf(-1)
-	edge := math.NaN()
 	if w.n > 0 {
 		stim = w.timMax + bulge*d // eq. 49
 		yr := hrs - bulge*d*d
 		if stim < str {
-			nuMax, edge = w.nuMax(d, yr)
+			nuMax, _ = w.nuMax(d, yr)
 		} else {
 			k := hullTangent(w.cd, w.cy, d, yr)
 			srim = (w.cy[k]-yr)/(d-w.cd[k]) - bulge*d // eq. 53
 		}
 	}
-	_, _, _, lba := bullingtonLoss(stim, srim, nuMax, edge, hts, hrs, d, rp.wavelengthM)
+	lba := bullingtonLossTab(stim, srim, nuMax, hts, hrs, d, rp.wavelengthM)
 	out.LineOfSight = !(stim >= str)
 
 	// Smooth surface (eqs. 58–63), the receiver's segment added.
@@ -297,8 +314,8 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 			hsrp -= hobs * aobr / (aobt + aobr)
 		}
 	}
-	hst := math.Min(hstp, w.h0)    // eq. 63
-	hsr := math.Min(hsrp, groundM) // eq. 63
+	hst := min(hstp, w.h0)         // eq. 63
+	hsr := min(hsrp, groundM)      // eq. 63
 	htsS, hrsS := hts-hst, hrs-hsr // eq. 64
 
 	// Smooth spherical earth (eq. 65); where it gives no loss, eq. 66 needs
@@ -308,9 +325,9 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	if lsph > 0 {
 		// Bullington over the smooth profile (eq. 64) on the same distances.
 		st, sr, nu := w.smoothMaxima(d, htsS, hrsS)
-		_, _, _, lbs = bullingtonLoss(st, sr, nu, 0, htsS, hrsS, d, rp.wavelengthM)
+		lbs = bullingtonLossTab(st, sr, nu, htsS, hrsS, d, rp.wavelengthM)
 	}
-	out.ExcessDB = lba + math.Max(lsph-lbs, 0) // eq. 66
+	out.ExcessDB = lba + max(lsph-lbs, 0) // eq. 66
 	out.PathLossDB = fs + out.ExcessDB
 	return out
 }
@@ -407,13 +424,13 @@ func (w *Radial) smoothMaxima(d, hts, hrs float64) (stim, srim, nuMax float64) {
 	i := searchFrom(len(pts), guessIndex(x, inv), func(j int) bool { return pts[j] >= x })
 	for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
 		di := pts[j]
-		stim = math.Max(stim, bulge*(d-di)-hts/di)
+		stim = max(stim, bulge*(d-di)-hts/di)
 	}
 	x = d - math.Sqrt(hrs/bulge)
 	i = searchFrom(len(pts), guessIndex(x, inv), func(j int) bool { return pts[j] >= x })
 	for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
 		di := pts[j]
-		srim = math.Max(srim, bulge*di-hrs/(d-di))
+		srim = max(srim, bulge*di-hrs/(d-di))
 	}
 	if stim < (hrs-hts)/d {
 		kNu := 0.002 * d / w.rp.wavelengthM
@@ -441,7 +458,7 @@ func guessIndex(x, inv float64) int {
 	if !(g > 0) {
 		return 0
 	}
-	return int(math.Min(g, 1<<40))
+	return int(min(g, 1<<40))
 }
 
 // searchFrom returns the smallest i in [0, n) with ok(i) true (n if none),
@@ -516,7 +533,7 @@ func (c *firstTermScale) at(aeKM float64) firstTerm {
 	k := c.kc * u
 	k2 := k * k
 	beta := (1 + 1.6*k2 + 0.67*k2*k2) / (1 + 4.5*k2 + 1.53*k2*k2) // eq. 16
-	return firstTerm{xPerKM: c.xc * beta * u * u, yb: c.yc * beta * beta * u, floor: 2 + 20*math.Log10(k)}
+	return firstTerm{xPerKM: c.xc * beta * u * u, yb: c.yc * beta * beta * u, floor: 2 + 20*log10Fast(k)}
 }
 
 // smoothEarthLoss is smoothEarthLossC (ITU-R P.526-16 §3.2, eqs. 22–25)
@@ -528,10 +545,10 @@ func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
 	if !(dKM > 0) {
 		return 0
 	}
-	h1 = math.Max(h1, 0)
-	h2 = math.Max(h2, 0)
+	h1 = max(h1, 0)
+	h2 = max(h2, 0)
 	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
-		return math.Max(w.ft.loss(dKM, h1, h2), 0)
+		return max(w.ft.loss(dKM, h1, h2), 0)
 	}
 	d := dKM * 1000
 	ae := rp.aeKM * 1000
@@ -539,13 +556,13 @@ func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
 	m := d * d / (4 * ae * (h1 + h2))          // eq. 22e
 	m1 := m + 1                                //
 	arg := 1.5 * c * math.Sqrt(3*m/(m1*m1*m1)) // argument of arccos in eq. 22c
-	arg = math.Max(-1, math.Min(1, arg))
-	b := 2 * math.Sqrt(m1/(3*m)) * math.Cos(math.Pi/3+math.Acos(arg)/3) // eq. 22c
-	b = math.Max(-1, math.Min(1, b))
+	arg = max(-1, min(1, arg))
+	b := 2 * math.Sqrt(m1/(3*m)) * eq22cRoot(arg) // eq. 22c
+	b = max(-1, min(1, b))
 	d1 := d / 2 * (1 + b)                                  // eq. 22a
 	d2 := d - d1                                           // eq. 22b
 	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d // eq. 22
-	h = math.Max(h, 0)
+	h = max(h, 0)
 	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d) // eq. 23
 	if h > hreq {
 		return 0

@@ -326,3 +326,45 @@ func TestSearchFrom(t *testing.T) {
 		}
 	}
 }
+
+// TestRadialCopyFrom: a radial copied after some points and then fed the
+// same further points as the original answers exactly as the original,
+// and feeding the copy does not change the original.
+func TestRadialCopyFrom(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	a, err := NewRadial(Params{FreqMHz: 446, TxHeightM: 8, RxHeightM: 1.5}, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := NewRadial(Params{FreqMHz: 446, TxHeightM: 8, RxHeightM: 1.5}, true)
+	a.Reset(240)
+	h := func() float64 { return 200 + 150*rng.Float64() }
+	for i := 1; i <= 300; i++ {
+		a.Add(float64(i)*0.03, h())
+	}
+	b.CopyFrom(a)
+	before := a.Loss(9.2, 230)
+	for i := 301; i <= 320; i++ {
+		b.Add(float64(i)*0.03, 900) // a ridge only the copy sees
+	}
+	if got := a.Loss(9.2, 230); got != before || a.Len() != 300 {
+		t.Fatalf("feeding the copy changed the original: %+v, was %+v (%d points)", got, before, a.Len())
+	}
+	for i := 301; i <= 600; i++ {
+		x, y := float64(i)*0.03, h()
+		a.Add(x, y)
+		if i > 320 {
+			b.Add(x, y)
+		}
+	}
+	c, _ := NewRadial(Params{FreqMHz: 446, TxHeightM: 8, RxHeightM: 1.5}, true)
+	c.CopyFrom(a)
+	for _, d := range []float64{18.1, 18.5, 25} {
+		if x, y := a.Loss(d, 210), c.Loss(d, 210); x != y {
+			t.Errorf("%g km: copy %+v, original %+v", d, y, x)
+		}
+		if x, y := a.Loss(d, 210), b.Loss(d, 210); x == y {
+			t.Errorf("%g km: the ridge only the copy saw changed nothing (%+v)", d, x)
+		}
+	}
+}
