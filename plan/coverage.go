@@ -138,11 +138,13 @@ type coverageGrid struct {
 	rowLat       []float64 // centre latitude of each row
 	rowN, rowE   []float64 // metres per degree of latitude, longitude at the row's mid-latitude with the site
 	radiusM      float64
+	cellN, cellE float64 // a cell's sides at the site, m
 	radials      int
 	stepM        float64
-	samples      int // per radial, the site included
-	levels       int       // radial levels below the full set (see coverageLOS)
-	thresholds   []float64 // R/2^(j+1), m: level j serves distances in [R/2^(j+1), R/2^j)
+	samples      int       // per radial, the site included
+	levels       int       // radial levels below the full set (see walkTree, coverageLOS)
+	shift        int       // a level-t radial starts at R/2^(t+shift)
+	thresholds   []float64 // R/2^(j+shift), m: level j serves distances from there out
 	radialOfCell []int32
 }
 
@@ -366,7 +368,8 @@ func coverageGeometry(ts *terrain.Set, lat, lon float64, req CoverageRequest, re
 		g.rowLat[r] = g.lat0 - float64(r)*g.dLat
 		g.rowN[r], g.rowE[r] = metresPerDegreeWGS84((g.rowLat[r] + lat) / 2)
 	}
-	cell := math.Min(g.dLat*nM, g.dLon*eM)
+	g.cellN, g.cellE = g.dLat*nM, g.dLon*eM
+	cell := min(g.cellN, g.cellE)
 	g.stepM = cell
 	base := max(16, int(math.Ceil(density*2*math.Pi*req.RadiusM/cell)))
 	for g.levels < losMaxLevels && base>>(g.levels+1) >= 16 {
@@ -374,9 +377,16 @@ func coverageGeometry(ts *terrain.Set, lat, lon float64, req CoverageRequest, re
 	}
 	unit := 1 << g.levels
 	g.radials = (base + unit - 1) / unit * unit
+	// Line of sight branches a level-t radial off at R/2^(t+1), where it
+	// stands half a radial spacing at the radius from its parent; loss,
+	// more sensitive to the terrain beside the path, at R/2^(t+2).
+	g.shift = 2
+	if req.Mode == CoverageLOS {
+		g.shift = 1
+	}
 	g.thresholds = make([]float64, g.levels+1)
 	for j := range g.thresholds {
-		g.thresholds[j] = req.RadiusM / float64(int(1)<<(j+2))
+		g.thresholds[j] = req.RadiusM / float64(int(1)<<(j+g.shift))
 	}
 	g.samples = int(req.RadiusM/g.stepM) + 3
 	res.Radials, res.StepM = g.radials, g.stepM
@@ -473,7 +483,8 @@ func (g *coverageGrid) bucket(ctx context.Context, ts *terrain.Set, values []flo
 }
 
 // level returns the radial level that serves a cell dM metres from the
-// site: j such that dM lies in [R/2^(j+1), R/2^j), at most g.levels.
+// site: the finest j whose radials have started there (dM ≥ R/2^(j+shift)),
+// at most g.levels.
 func (g *coverageGrid) level(dM float64) int {
 	j := 0
 	for j < g.levels && dM < g.thresholds[j] {
@@ -486,11 +497,15 @@ func (g *coverageGrid) level(dM float64) int {
 // metres north of the site: the nearest in azimuth among those of its
 // distance's level and coarser (every 2^j-th radial).
 func (g *coverageGrid) radialOf(e, n float64) int {
-	d2 := e*e + n*n
-	if d2 == 0 {
+	return g.radialAt(e, n, math.Sqrt(e*e+n*n))
+}
+
+// radialAt is radialOf for a cell whose distance dM is known.
+func (g *coverageGrid) radialAt(e, n, dM float64) int {
+	if dM == 0 {
 		return 0
 	}
-	j := g.level(math.Sqrt(d2))
+	j := g.level(dM)
 	p := azimuthRad(e, n) * float64(g.radials) / (2 * math.Pi) / float64(int(1)<<j)
 	k := int(math.Round(p)) << j
 	if k < 0 {
@@ -502,14 +517,31 @@ func (g *coverageGrid) radialOf(e, n float64) int {
 	return k
 }
 
-// start returns the first sample a radial of level t computes: the
-// coarsest (t = g.levels) from the site, a finer one from a little short
-// of R/2^(t+1), where it branches off its parent.
-func (g *coverageGrid) start(t int) int {
+// start returns the first sample a radial of level t computes, for
+// samples every 1/invStep metres: the coarsest (t = g.levels) from the
+// site, a finer one from a little short of R/2^(t+shift), where it
+// branches off its parent.
+func (g *coverageGrid) start(t int, invStep float64) int {
 	if t >= g.levels {
 		return 1
 	}
-	return max(int(g.radiusM/float64(int(1)<<(t+2))/g.stepM)-2, 1)
+	return max(int(g.radiusM/float64(int(1)<<(t+g.shift))*invStep)-2, 1)
+}
+
+// radialStep returns the distance in metres along azimuth aziRad (from
+// north) between crossings of the DEM's rows or columns, whichever come
+// first: min(Δnorth/|cos α|, Δeast/|sin α|) with the cell's sides at the
+// site; never less than g.stepM (the smaller side).
+func (g *coverageGrid) radialStep(aziRad float64) float64 {
+	sin, cos := math.Sincos(aziRad)
+	s := math.Inf(1)
+	if c := math.Abs(cos); c > 1e-12 {
+		s = g.cellN / c
+	}
+	if e := math.Abs(sin); e > 1e-12 {
+		s = min(s, g.cellE/e)
+	}
+	return max(s, g.stepM)
 }
 
 // span returns the columns [lo, hi) of a row north metres north of the
@@ -545,7 +577,7 @@ type coverageWorker struct {
 // walkTree answers the cells of radial k of level t and of the finer
 // radials that branch off it: k + 2^c for every level c < t, each with
 // its own branches. ws.walker holds radial k's state after the samples
-// before g.start(t) (the parent's, or none for a coarsest radial). Radial
+// before g.start(t, ·) (the parent's, or none for a coarsest radial). Radial
 // k + 2^c lies 2^c radial steps from k: where it starts, R/2^(c+1), that is
 // at most half the radial spacing at the radius, as far as a cell lies from
 // its own radial; so it takes k's samples up to there (a copy of k's
@@ -567,7 +599,7 @@ func (g *coverageGrid) walkTree(ws *coverageWorker, k, t int, cellsOf func(int) 
 }
 
 // walk answers the cells (loss mode) of radial r, of level t, from ws.walker's state
-// (the samples before g.start(t)): it samples the rest of the radial, sorts
+// (the samples before g.start(t, ·)): it samples the rest of the radial, sorts
 // its cells by the number of samples before them, and feeds the samples to
 // the walker, answering each cell when its samples are in; on the way it
 // keeps the state where each finer level c < t branches off in ws.snaps[c].
@@ -578,7 +610,7 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 		ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
 		ws.count = make([]int32, n+1)
 	}
-	s := g.start(t)
+	s := g.start(t, 1/g.stepM)
 	lats, lons, hgts := ws.lats[:n-s], ws.lons[:n-s], ws.hgts[:n-s] // samples s … n−1
 	ws.sp.NoData = 0
 	azi := 360 * float64(r) / float64(g.radials)
@@ -619,7 +651,7 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 	var branch [losMaxLevels]int // sample where level c branches off
 	last := s - 1
 	for c := range t {
-		branch[c] = g.start(c)
+		branch[c] = g.start(c, 1/g.stepM)
 		last = max(last, branch[c]-1)
 	}
 	w := ws.walker
@@ -628,7 +660,7 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 		for ; next < len(order) && next < int(count[m]); next++ {
 			cell := cells[order[next]]
 			dM := dist[order[next]]
-			hc := float64(values[cell]) // the cell's ground, from bucket
+			hc := float64(values[cell])   // the cell's ground, from bucket
 			dKM := math.Max(dM, 1) / 1000 // a cell at the site counts as 1 m away
 			val, ok := coverageValue(w.Loss(dKM, hc), req, patternDB)
 			values[cell] = float32(val)

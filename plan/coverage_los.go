@@ -49,7 +49,6 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 	kb, mb := (nRad+15)/16, (n+15)/16
 	table := make([]float32, kb*mb*256)
 	at := func(k, m int) int { return ((m>>4)*kb+(k>>4))<<8 | (m&15)<<4 | (k & 15) }
-	stepKM := g.stepM / 1000
 	var noData atomic.Bool
 	total := nRad + g.rows
 	doneBefore := 0
@@ -59,23 +58,29 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		}
 	}
 
-	// Per-sample constants shared by every radial (they share the step):
-	// eq. 49's slope (h − bulge·d² − h_ts)/d as (h − c_m)·(1/d_m), one
-	// multiply instead of a division per sample.
-	sampC, sampInv := make([]float64, n), make([]float64, n)
+	// Each radial's own step: the DEM spacing in its direction (a row or a
+	// column crossed per sample, whichever comes first), never shorter
+	// than g.stepM, so the table's n samples cover every radial.
+	stepOf, invStepOf := make([]float64, nRad), make([]float64, nRad)
+	for k := range nRad {
+		stepOf[k] = g.radialStep(2 * math.Pi * float64(k) / float64(nRad))
+		invStepOf[k] = 1 / stepOf[k]
+	}
+	// samplesOf returns radial k's samples (the site included) and the first
+	// one a radial of level t computes.
+	samplesOf := func(k, t int) (nk, start int) {
+		return min(int(g.radiusM*invStepOf[k])+3, n), g.start(t, invStepOf[k])
+	}
+	// eq. 49's slope (h − bulge·d_m² − h_ts)/d_m with d_m = m·s as
+	// (h − h_ts − bulge·s²·m²)·(1/s)·(1/m): m² and 1/m shared by every
+	// radial, a multiply instead of a division per sample.
+	sq, inv := make([]float64, n), make([]float64, n)
 	for m := 1; m < n; m++ {
-		dm := float64(m) * stepKM
-		sampC[m] = hl.Bulge*dm*dm + hl.HtsM
-		sampInv[m] = 1 / dm
+		sq[m], inv[m] = float64(m)*float64(m), 1/float64(m)
 	}
 
 	// Pass 1, level by level from the coarsest.
 	for t := g.levels; t >= 0; t-- {
-		// start: the first sample a radial of this level computes.
-		start := 1
-		if t < g.levels {
-			start = max(int(g.radiusM/float64(int(1)<<(t+1))/g.stepM)-2, 1)
-		}
 		stride := 1 << t
 		var ks []int // radials of this level, grouped by block of 16
 		for k := 0; k < nRad; k += stride {
@@ -89,15 +94,16 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 			if ws.sp == nil {
 				ws.sp = ts.NewSampler()
 			}
-			cnt := n - start
-			if cap(ws.lats) < cnt {
-				ws.lats, ws.lons, ws.hgts = make([]float64, cnt), make([]float64, cnt), make([]float64, cnt)
+			if cap(ws.lats) < n {
+				ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
 			}
-			lats, lons, hgts := ws.lats[:cnt], ws.lons[:cnt], ws.hgts[:cnt]
 			for _, k := range ks[j*per : min((j+1)*per, len(ks))] {
+				nk, start := samplesOf(k, t)
+				lats, lons, hgts := ws.lats[:nk-start], ws.lons[:nk-start], ws.hgts[:nk-start]
 				ws.sp.NoData = 0
 				azi := 360 * float64(k) / float64(nRad)
-				if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, azi, float64(start)*g.stepM, g.stepM, lats, lons, hgts); err != nil {
+				step := stepOf[k]
+				if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, azi, float64(start)*step, step, lats, lons, hgts); err != nil {
 					return err
 				}
 				if ws.sp.NoData > 0 {
@@ -106,13 +112,21 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 				table[at(k, 0)] = float32(math.Inf(-1)) // no intermediate point yet
 				best := math.Inf(-1)
 				if t < g.levels {
-					best = float64(table[at(k-stride, start-1)])
+					// The parent's running maximum over its samples short of
+					// this radial's first one.
+					p := k - stride
+					if jp := int(float64(start-1) * step * invStepOf[p]); jp > 0 {
+						best = float64(table[at(p, jp)])
+					}
 				}
 				base := at(k, 0)
-				cs, inv := sampC[start:start+len(hgts)], sampInv[start:start+len(hgts)]
+				bs2 := hl.Bulge * step * step * 1e-6 // bulge·s², s in km
+				invS := 1000 / step
+				hts := hl.HtsM
+				sqs, invs := sq[start:start+len(hgts)], inv[start:start+len(hgts)]
 				for i, h := range hgts {
 					m := start + i
-					if v := (h - cs[i]) * inv[i]; v > best { // hl.Slope
+					if v := (h - hts - bs2*sqs[i]) * invS * invs[i]; v > best { // hl.Slope
 						best = v
 					}
 					table[base+(m>>4)*kb<<8|(m&15)<<4] = float32(best)
@@ -128,13 +142,7 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 
 	// Pass 2: the cells, row by row.
 	var cells, covered atomic.Int64
-	perRad := float64(nRad) / (2 * math.Pi)
-	invStep := 1 / g.stepM
 	r2 := g.radiusM * g.radiusM
-	var thresholds [losMaxLevels + 1]float64 // R/2^(j+1): level j serves d in [R/2^(j+1), R/2^j)
-	for j := range thresholds {
-		thresholds[j] = g.radiusM / float64(int(1)<<(j+1))
-	}
 	err = coverageParallel(ctx, g.rows, prog, func(ws *coverageWorker, r int) error {
 		if ws.sp == nil {
 			ws.sp = ts.NewSampler()
@@ -172,22 +180,8 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 			}
 			nc++
 			d := math.Sqrt(d2)
-			j := 0
-			for j < g.levels && d < thresholds[j] {
-				j++
-			}
-			k := 0
-			if d > 0 {
-				p := azimuthRad(e, north) * perRad / float64(int(1)<<j)
-				k = int(math.Round(p)) << j
-				if k < 0 {
-					k += nRad
-				}
-				if k >= nRad {
-					k -= nRad
-				}
-			}
-			m := min(max(int(math.Ceil(d*invStep-0.5))-1, 0), n-2)
+			k := g.radialAt(e, north, d)
+			m := min(max(int(math.Ceil(d*invStepOf[k]-0.5))-1, 0), int(g.radiusM*invStepOf[k])+1)
 			hc := float64(row[c])
 			dKM := math.Max(d, 1) / 1000 // a cell at the site counts as 1 m away
 			if hl.Visible(float64(table[at(k, m)]), dKM, hc) {
