@@ -634,7 +634,8 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 	}
 	order, dist, mOf := ws.order[:len(cells)], ws.dist[:len(cells)], ws.mOf[:len(cells)]
 	for i, cell := range cells {
-		d := g.distance(int(cell)/g.cols, int(cell)%g.cols)
+		r := int(cell) / g.cols
+		d := g.distance(r, int(cell)-r*g.cols)
 		m := min(max(int(math.Ceil(d/g.stepM-0.5))-1, s-1), n-2)
 		dist[i], mOf[i] = d, int32(m)
 		count[m+1]++
