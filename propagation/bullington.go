@@ -148,7 +148,7 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	nb := 0
 	var v1, v2 float64
 	hobs := math.Inf(-1)
-	amax := max(math.Abs(hgt[0]), math.Abs(hgt[n-1])) // largest |h_i|
+	hmin, hmax := min(hgt[0], hgt[n-1]), max(hgt[0], hgt[n-1]) // range of h_i
 	dp, hp := 0.0, hgt[0]
 	for lo := 1; lo < n; lo += blk {
 		hi := min(lo+blk, n-1)
@@ -172,8 +172,11 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 			if hob := h - hts - slope*di; hob > m {
 				m = hob
 			}
-			if a := math.Abs(h); a > amax {
-				amax = a
+			if h < hmin {
+				hmin = h
+			}
+			if h > hmax {
+				hmax = h
 			}
 		}
 		if hi == n {
@@ -205,7 +208,7 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	}
 
 	// The magnitudes every value is made of, metres: the margin's scale.
-	scale := amax + math.Abs(hts) + math.Abs(hrs) + bulge*d*d + cmax
+	scale := max(-hmin, hmax) + math.Abs(hts) + math.Abs(hrs) + bulge*d*d + cmax
 	sc := scanner{dist: dist, hgt: hgt, clut: clut, d0: d0, d: d, hts: hts, hrs: hrs, slope: slope, bulge: bulge,
 		aobt: math.Inf(-1), aobr: math.Inf(-1), stim: math.Inf(-1), srim: math.Inf(-1), qMax: math.Inf(-1), iMax: -1}
 	var ub [5][scanBlocks]float64 // bounds with their margins: a_obt, a_obr, S_tim, S_rim, e|e|/(d_i (d−d_i))
