@@ -52,7 +52,8 @@ type BullingtonTerms struct {
 // intermediate term. Clutter heights in p are part of the real profile
 // (L_ba, eqs. 49–57); the smooth surface (eqs. 58–63) is fitted to the
 // terrain alone, as in ITU-R P.1812-8 (its validation results confirm
-// this). It reads the profile two or three times and does not allocate.
+// this). It reads the profile once, then the parts of it that can hold
+// the maxima of eqs. 49–53 and 61 (see scanProfile), and does not allocate.
 func DeltaBullington(p Path, prm Params) (BullingtonTerms, error) {
 	rp, err := prm.resolve()
 	if err != nil {
