@@ -102,10 +102,11 @@ func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 	n := len(g.Profile.DistM)
 	if cap(g.path.DistKM) < n {
 		g.path.DistKM = make([]float64, n)
-		g.path.HeightM = make([]float64, n)
 	}
 	g.path.DistKM = g.path.DistKM[:n]
-	g.path.HeightM = append(g.path.HeightM[:0], g.Profile.ElevM...)
+	// The path's heights are the profile's, not a copy: neither is
+	// changed until the next Measure, which sets both.
+	g.path.HeightM = g.Profile.ElevM
 	g.path.ClutterM = nil
 	// Samples are equally spaced: i·step in km, a multiply per sample (no
 	// division), the last one the exact length.

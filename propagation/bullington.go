@@ -52,7 +52,8 @@ type BullingtonTerms struct {
 // intermediate term. Clutter heights in p are part of the real profile
 // (L_ba, eqs. 49–57); the smooth surface (eqs. 58–63) is fitted to the
 // terrain alone, as in ITU-R P.1812-8 (its validation results confirm
-// this). It reads the profile two or three times and does not allocate.
+// this). It reads the profile once, then the parts of it that can hold
+// the maxima of eqs. 49–53 and 61 (see scanProfile), and does not allocate.
 func DeltaBullington(p Path, prm Params) (BullingtonTerms, error) {
 	rp, err := prm.resolve()
 	if err != nil {
@@ -80,9 +81,33 @@ type profileScan struct {
 	aobt, aobr float64 // eqs. 61b, 61c
 }
 
-// scanProfile validates p and reads it: one pass for the checks and the
-// terrain sums, one for the real-profile maxima, and a third only when the
-// terrain rises above the antenna line (eqs. 61b, 61c).
+// scanBlocks is the most blocks scanProfile splits the intermediate
+// points of a profile into; minScanBlock is the fewest points in a block.
+const (
+	scanBlocks   = 64
+	minScanBlock = 16
+)
+
+// scanProfile validates p and reads it: one pass over every point for the
+// checks, the terrain sums of the smooth surface (eqs. 58, 59) and the
+// highest obstruction above the antenna line (eq. 61a), then the maxima
+// of eqs. 49, 51, 53, 61b and 61c block by block, reading only the blocks
+// that can hold them.
+//
+// Every value is computed by the same floating-point expressions as a
+// plain reading of the equations (each maximum over every point in
+// order), so the results are identical to the last bit
+// (TestScanProfileAgainstPlain). The first pass also keeps, for blocks of
+// consecutive points, the largest height of the terrain above the antenna
+// line; from it an upper bound of each quantity over the block follows
+// (the quantities are that height over d_i or d − d_i plus terms of the
+// ray, the bulge and the clutter, bounded over the block). The blocks
+// with the largest bounds are read first, then every block whose bound,
+// raised by a margin of 1e−9 of the magnitudes involved, reaches the
+// maximum found so far. The margin is far beyond the few roundings of
+// relative size 2⁻⁵³ in each value (IEEE 754 round to nearest; Higham,
+// "Accuracy and Stability of Numerical Algorithms", 2nd ed., §2.2), so a
+// block left out cannot hold a larger value.
 func scanProfile(p Path, rp params) (profileScan, error) {
 	if err := checkPath(p); err != nil {
 		return profileScan{}, err
@@ -107,7 +132,7 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	if !finite(hgt[0]) || !finite(hgt[n-1]) {
 		return s, fmt.Errorf("%w: terminal terrain heights %g and %g m must be numbers", ErrBadPath, hgt[0], hgt[n-1])
 	}
-	d := s.dKM
+	d, d0 := s.dKM, s.d0
 	s.htsM = hgt[0] + rp.txM
 	s.hrsM = hgt[n-1] + rp.rxM
 	hts, hrs := s.htsM, s.hrsM
@@ -115,66 +140,197 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	slope := s.str                    // the ray rises by (h_rs − h_ts)/d per km
 	bulge := 500 / rp.aeKM            // 500 C_e of eq. 49
 	kNu := 0.002 * d / rp.wavelengthM // eq. 51 factor without 1/(d_i (d−d_i))
+
 	// Pass over the terrain: checks, the smooth-surface sums of eqs. 58
 	// and 59 over every segment, and the highest obstruction of the
-	// terrain above the antenna line (eqs. 61a, 61d).
+	// terrain above the antenna line (eqs. 61a, 61d), per block and in all.
+	blk := max(minScanBlock, (n-2+scanBlocks-1)/scanBlocks)
+	var bm [scanBlocks]float64 // per block, the largest h_i − h_ts − slope·d_i
+	nb := 0
 	var v1, v2 float64
 	hobs := math.Inf(-1)
+	hmin, hmax := min(hgt[0], hgt[n-1]), max(hgt[0], hgt[n-1]) // range of h_i
 	dp, hp := 0.0, hgt[0]
-	for i := 1; i < n; i++ {
-		di := dist[i] - s.d0
-		hi := hgt[i]
-		if !(di > dp) {
-			return s, fmt.Errorf("%w: distance %g km at point %d does not increase from %g km at point %d", ErrBadPath, dist[i], i, dist[i-1], i-1)
+	for lo := 1; lo < n; lo += blk {
+		hi := min(lo+blk, n-1)
+		if lo == n-1 {
+			hi = n // the last point alone: the last segment of the sums
 		}
-		if hi-hi != 0 { // NaN or ±Inf
-			return s, fmt.Errorf("%w: terrain height %g m at point %d is not a number; fill voids before computing loss", ErrBadPath, hi, i)
+		m := math.Inf(-1)
+		for i := lo; i < hi; i++ {
+			di := dist[i] - d0
+			h := hgt[i]
+			if !(di > dp) {
+				return s, fmt.Errorf("%w: distance %g km at point %d does not increase from %g km at point %d", ErrBadPath, dist[i], i, dist[i-1], i-1)
+			}
+			if h-h != 0 { // NaN or ±Inf
+				return s, fmt.Errorf("%w: terrain height %g m at point %d is not a number; fill voids before computing loss", ErrBadPath, h, i)
+			}
+			dd := di - dp
+			v1 += dd * (h + hp)
+			v2 += dd * (h*(2*di+dp) + hp*(di+2*dp))
+			dp, hp = di, h
+			if hob := h - hts - slope*di; hob > m {
+				m = hob
+			}
+			if h < hmin {
+				hmin = h
+			}
+			if h > hmax {
+				hmax = h
+			}
 		}
-		dd := di - dp
-		v1 += dd * (hi + hp)
-		v2 += dd * (hi*(2*di+dp) + hp*(di+2*dp))
-		dp, hp = di, hi
-		if hob := hi - hts - slope*di; hob > hobs && i < n-1 {
-			hobs = hob
+		if hi == n {
+			break
+		}
+		bm[nb] = m
+		nb++
+		if m > hobs {
+			hobs = m
+		}
+		if hi == n-1 {
+			lo = n - 1 - blk // the last point next
 		}
 	}
+	cmax := 0.0
 	if clut != nil {
 		for i, c := range clut[1 : n-1] {
 			if !(c >= 0) || c-c != 0 {
 				return s, fmt.Errorf("%w: clutter height %g m at point %d must be zero or more", ErrBadPath, c, i+1)
 			}
+			if c > cmax {
+				cmax = c
+			}
 		}
 	}
 	s.v1, s.v2, s.hobs = v1, v2, hobs
+	if nb == 0 {
+		return s, nil // no intermediate points
+	}
 
-	// The obstruction slopes (eqs. 61b, 61c) matter only when the terrain
-	// rises above the antenna line (eq. 62).
-	aobt, aobr := s.aobt, s.aobr
-	if hobs > 0 {
-		for i := 1; i < n-1; i++ {
-			di := dist[i] - s.d0
-			ddi := d - di
-			hob := (hgt[i] - hts - slope*di) / (di * ddi)
-			if a := hob * ddi; a > aobt {
-				aobt = a
-			}
-			if a := hob * di; a > aobr {
-				aobr = a
+	// The magnitudes every value is made of, metres: the margin's scale.
+	scale := max(-hmin, hmax) + math.Abs(hts) + math.Abs(hrs) + bulge*d*d + cmax
+	sc := scanner{dist: dist, hgt: hgt, clut: clut, d0: d0, d: d, hts: hts, hrs: hrs, slope: slope, bulge: bulge,
+		aobt: math.Inf(-1), aobr: math.Inf(-1), stim: math.Inf(-1), srim: math.Inf(-1), qMax: math.Inf(-1), iMax: -1}
+	var ub [5][scanBlocks]float64 // bounds with their margins: a_obt, a_obr, S_tim, S_rim, e|e|/(d_i (d−d_i))
+	best := [5]int{-1, -1, -1, -1, -1}
+	for b := range nb {
+		lo := 1 + b*blk
+		hi := min(lo+blk, n-1)
+		da, db := dist[lo]-d0, dist[hi-1]-d0 // d_i over the block
+		ea, eb := d-da, d-db                 // d − d_i over the block
+		m := bm[b]
+		// Eqs. 61b, 61c: a_obt ≈ h_obi/d_i, a_obr ≈ h_obi/(d − d_i),
+		// needed only when some h_obi > 0, and then positive.
+		ub[0][b], ub[1][b] = math.Inf(-1), math.Inf(-1)
+		if hobs > 0 && m > 0 {
+			ub[0][b] = m / da * (1 + 1e-9)
+			ub[1][b] = m / eb * (1 + 1e-9)
+		}
+		// Eq. 49: (g − h_ts)/d_i = h_obi/d_i + slope + C d(−d_i) + c_i/d_i.
+		mt := m / da
+		if m < 0 {
+			mt = m / db
+		}
+		ut := mt + slope + bulge*ea + cmax/da
+		ub[2][b] = ut + 1e-9*(scale/da+math.Abs(ut))
+		// Eq. 53: (g − h_rs)/(d − d_i) = h_obi/(d − d_i) − slope + C d_i + c_i/(d − d_i).
+		mr := m / eb
+		if m < 0 {
+			mr = m / ea
+		}
+		ur := mr - slope + bulge*db + cmax/eb
+		ub[3][b] = ur + 1e-9*(scale/eb+math.Abs(ur))
+		// Eq. 51: e = g − ray = h_obi + C d_i (d − d_i) + c_i ≤ E.
+		e := m + bulge*db*ea + cmax + 1e-9*scale
+		uq := -e * e / (db * ea)
+		if e >= 0 {
+			uq = e * e / min(da*ea, db*eb)
+		}
+		ub[4][b] = uq + 1e-9*math.Abs(uq)
+		for k := range best {
+			if best[k] < 0 || ub[k][b] > ub[k][best[k]] {
+				best[k] = b
 			}
 		}
 	}
+	// Read the most promising blocks first, then every block that can
+	// still raise a maximum.
+	var done uint64
+	read := func(b int) {
+		if done&(1<<b) != 0 {
+			return
+		}
+		done |= 1 << b
+		lo := 1 + b*blk
+		hi := min(lo+blk, n-1)
+		if ub[0][b] > math.Inf(-1) && (ub[0][b] >= sc.aobt || ub[1][b] >= sc.aobr) {
+			sc.obstruction(lo, hi)
+		}
+		if ub[2][b] >= sc.stim || ub[3][b] >= sc.srim || ub[4][b] >= sc.qMax {
+			sc.real(lo, hi)
+		}
+	}
+	for _, b := range best {
+		read(b)
+	}
+	for b := range nb {
+		read(b)
+	}
+	if hobs > 0 {
+		s.aobt, s.aobr = sc.aobt, sc.aobr
+	}
+	nuMax := math.Inf(-1)
+	if sc.iMax >= 0 {
+		nuMax = math.Copysign(math.Sqrt(kNu*math.Abs(sc.qMax)), sc.qMax)
+	}
+	s.stim, s.srim, s.nuMax, s.iMax = sc.stim, sc.srim, nuMax, sc.iMax
+	return s, nil
+}
 
-	// Pass over the real profile of terrain, clutter and bulge: eqs. 49,
-	// 51 and 53. Inputs are finite here, so plain comparisons keep maxima.
-	stim, srim, iMax := s.stim, s.srim, s.iMax
-	qMax := math.Inf(-1)
-	for i := 1; i < n-1; i++ {
-		di := dist[i] - s.d0
+// scanner reads blocks of a profile for the maxima of scanProfile.
+type scanner struct {
+	dist, hgt, clut               []float64
+	d0, d, hts, hrs, slope, bulge float64
+	aobt, aobr, stim, srim, qMax  float64
+	iMax                          int
+}
+
+// obstruction updates a_obt and a_obr (eqs. 61b, 61c) with points lo to
+// hi−1.
+func (sc *scanner) obstruction(lo, hi int) {
+	dist, hgt := sc.dist[lo:hi], sc.hgt[lo:hi]
+	d0, d, hts, slope := sc.d0, sc.d, sc.hts, sc.slope
+	aobt, aobr := sc.aobt, sc.aobr
+	for i, h := range hgt {
+		di := dist[i] - d0
+		ddi := d - di
+		hob := (h - hts - slope*di) / (di * ddi)
+		if a := hob * ddi; a > aobt {
+			aobt = a
+		}
+		if a := hob * di; a > aobr {
+			aobr = a
+		}
+	}
+	sc.aobt, sc.aobr = aobt, aobr
+}
+
+// real updates S_tim, S_rim and the point of ν_max (eqs. 49, 51, 53) with
+// points lo to hi−1 of the real profile of terrain, clutter and bulge.
+// Inputs are finite here, so plain comparisons keep maxima; of equal
+// values of ν the first point is kept, as when reading in order.
+func (sc *scanner) real(lo, hi int) {
+	dist, hgt := sc.dist[:hi], sc.hgt[:hi]
+	d0, d, hts, hrs, slope, bulge := sc.d0, sc.d, sc.hts, sc.hrs, sc.slope, sc.bulge
+	stim, srim, qMax, iMax := sc.stim, sc.srim, sc.qMax, sc.iMax
+	for i := lo; i < hi; i++ {
+		di := dist[i] - d0
 		ddi := d - di
 		r := 1 / (di * ddi) // one division gives both reciprocals
 		g := hgt[i] + bulge*di*ddi
-		if clut != nil {
-			g += clut[i]
+		if sc.clut != nil {
+			g += sc.clut[i]
 		}
 		if v := (g - hts) * ddi * r; v > stim {
 			stim = v
@@ -183,18 +339,13 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 			srim = v
 		}
 		// ν = e √(kNu r) with e = g − ray; x ↦ sign(x) x² is increasing,
-		// so the largest e |e| r marks ν_max without a square root per point.
-		if e := g - hts - slope*di; e*math.Abs(e)*r > qMax {
+		// so the largest e |e| r marks ν_max without a square root per
+		// point.
+		if e := g - hts - slope*di; e*math.Abs(e)*r > qMax || (e*math.Abs(e)*r == qMax && i < iMax) {
 			qMax, iMax = e*math.Abs(e)*r, i
 		}
 	}
-	nuMax := math.Inf(-1)
-	if iMax >= 0 {
-		nuMax = math.Copysign(math.Sqrt(kNu*math.Abs(qMax)), qMax)
-	}
-	s.stim, s.srim, s.nuMax, s.iMax = stim, srim, nuMax, iMax
-	s.aobt, s.aobr = aobt, aobr
-	return s, nil
+	sc.stim, sc.srim, sc.qMax, sc.iMax = stim, srim, qMax, iMax
 }
 
 // clearance converts the scan into first-Fresnel-zone terms: with

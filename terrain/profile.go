@@ -48,6 +48,8 @@ type Profile struct {
 
 	Sources []string // base names of the elevation files used, in order of first use
 	NoData  int      // samples no file covers or in an unfillable void (ElevM 0 there)
+
+	hermite hermiteCache // interpolation weights kept for the next profile
 }
 
 // Len returns the number of samples.
@@ -122,8 +124,7 @@ func (s *Set) Profile(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
 	dst.Sources = dst.Sources[:0]
 	dst.NoData = 0
 
-	profilePositions(&line, lat1, lon1, lat2, lon2, step, dst)
-	return s.profileHeights(dst)
+	return s.profileSamples(&line, lat1, lon1, lat2, lon2, step, dst)
 }
 
 // profileLine solves the inverse geodesic problem once, sets line to the
@@ -159,51 +160,227 @@ func profilePositions(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Pro
 // Tile.At to rounding (about 1e−9 m). A sample outside the tile in use
 // (or any sample when GeoTIFFs may overlap the tiles) is looked up.
 func (s *Set) profileHeights(dst *Profile) error {
-	var (
-		g                      = noGrid
-		lastMissLa, lastMissLo = math.MaxInt, math.MaxInt
-	)
-	// With only HGT tiles, a point inside the tile in use needs no lookup;
-	// other files may overlap tiles, so then every sample is looked up.
-	fast := len(s.others) == 0
+	w := s.newHeightWalk(dst)
 	lats, lons, elev := dst.Lat, dst.Lon[:len(dst.Lat)], dst.ElevM[:len(dst.Lat)]
 	for i, lat := range lats {
-		lon := lons[i]
-		y := (g.lat0 - lat) * g.invDLat
-		x := (lon - g.lon0) * g.invDLon
-		if !fast || !(y >= 0 && y <= g.maxY && x >= 0 && x <= g.maxX) {
-			src := s.lookup(lat, lon)
-			if src == nil {
-				g = noGrid
-				elev[i] = 0
-				dst.NoData++
-				if la, lo := int(math.Floor(lat)), int(math.Floor(lon)); la != lastMissLa || lo != lastMissLo {
-					lastMissLa, lastMissLo = la, lo
-					s.noteMissing(lat, lon)
-				}
-				continue
-			}
-			if src != g.src {
-				t, err := s.tile(src)
-				if err != nil {
-					return err
-				}
-				g.use(t, src)
-				if !slices.Contains(dst.Sources, src.name) {
-					dst.Sources = append(dst.Sources, src.name)
-				}
-			}
-			y = min(max((g.lat0-lat)*g.invDLat, 0), g.maxY)
-			x = min(max((lon-g.lon0)*g.invDLon, 0), g.maxX)
-		}
-		h := g.at(y, x)
-		if h != h {
-			h = 0
-			dst.NoData++
+		h, err := w.height(lat, lons[i])
+		if err != nil {
+			return err
 		}
 		elev[i] = h
 	}
 	return nil
+}
+
+// heightWalk is the state of profileHeights between samples: the tile in
+// use and the last tile found missing.
+type heightWalk struct {
+	s                      *Set
+	dst                    *Profile
+	g                      gridCursor
+	lastMissLa, lastMissLo int
+	// fast: with only HGT tiles, a point inside the tile in use needs no
+	// lookup; other files may overlap tiles, so then every sample is
+	// looked up.
+	fast bool
+}
+
+func (s *Set) newHeightWalk(dst *Profile) heightWalk {
+	return heightWalk{s: s, dst: dst, g: noGrid, lastMissLa: math.MaxInt, lastMissLo: math.MaxInt, fast: len(s.others) == 0}
+}
+
+// height returns the ground height at (lat, lon), degrees, counting a
+// sample without data in dst.NoData.
+func (w *heightWalk) height(lat, lon float64) (float64, error) {
+	g := &w.g
+	y := (g.lat0 - lat) * g.invDLat
+	x := (lon - g.lon0) * g.invDLon
+	if !w.fast || !(y >= 0 && y <= g.maxY && x >= 0 && x <= g.maxX) {
+		s := w.s
+		src := s.lookup(lat, lon)
+		if src == nil {
+			*g = noGrid
+			w.dst.NoData++
+			if la, lo := int(math.Floor(lat)), int(math.Floor(lon)); la != w.lastMissLa || lo != w.lastMissLo {
+				w.lastMissLa, w.lastMissLo = la, lo
+				s.noteMissing(lat, lon)
+			}
+			return 0, nil
+		}
+		if src != g.src {
+			t, err := s.tile(src)
+			if err != nil {
+				return 0, err
+			}
+			g.use(t, src)
+			if !slices.Contains(w.dst.Sources, src.name) {
+				w.dst.Sources = append(w.dst.Sources, src.name)
+			}
+		}
+		y = min(max((g.lat0-lat)*g.invDLat, 0), g.maxY)
+		x = min(max((lon-g.lon0)*g.invDLon, 0), g.maxX)
+	}
+	h := g.at(y, x)
+	if h != h {
+		h = 0
+		w.dst.NoData++
+	}
+	return h, nil
+}
+
+// profileSamples is profilePositions followed by profileHeights in one
+// pass, with the same values to the last bit: Line.Positions' exact nodes
+// and cubic Hermite interpolation between them (its weights kept from one
+// profile to the next), each sample's height taken as soon as its
+// position is known, inside the tile in use without a call.
+func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Profile) error {
+	n := len(dst.DistM)
+	k := 1
+	if math.Abs(step) > 0 {
+		k = int(min(1024, 2000/math.Abs(step))) // as Line.Positions
+	}
+	if k <= 1 || n < 3 {
+		profilePositions(line, lat1, lon1, lat2, lon2, step, dst)
+		return s.profileHeights(dst)
+	}
+	dist, lats, lons, elev := dst.DistM[:n], dst.Lat[:n], dst.Lon[:n], dst.ElevM[:n]
+	w := s.newHeightWalk(dst)
+	// put stores sample i and its height.
+	put := func(i int, lat, lon float64) error {
+		if lon >= 180 {
+			lon -= 360
+		}
+		dist[i], lats[i], lons[i] = float64(i)*step, lat, lon
+		h, err := w.height(lat, lon)
+		elev[i] = h
+		return err
+	}
+	if err := put(0, lat1, normLon(lon1)); err != nil {
+		return err
+	}
+	lat0, lon0, dlat0, dlon0, ok0 := line.node(0)
+	for j := 0; j < n-1; {
+		if j > 0 {
+			if err := put(j, lat0, lon0); err != nil {
+				return err
+			}
+		}
+		end := min(j+k, n-1) // the next node
+		lat1, lon1, dlat1, dlon1, ok1 := line.node(float64(end) * step)
+		kk := end - j
+		if !ok0 || !ok1 {
+			for i := j + 1; i < end; i++ {
+				la, lo := line.Position(float64(i) * step)
+				if err := put(i, la, lo); err != nil {
+					return err
+				}
+			}
+		} else {
+			dl := lon1 - lon0
+			if dl > 180 {
+				dl -= 360
+			} else if dl < -180 {
+				dl += 360
+			}
+			h := float64(kk) * step
+			wt := dst.hermite.weights(kk)
+			dLat := lat1 - lat0
+			g := &w.g
+			inTile := w.fast && g.maxR >= 0 // the tile in use can be read here
+			for i := 1; i < kk; i++ {
+				c := wt[3*i : 3*i+3 : 3*i+3]
+				h01 := c[0]
+				h10 := c[1] * h
+				h11 := c[2] * h
+				lat := lat0 + h01*dLat + h10*dlat0 + h11*dlat1
+				lon := lon0 + h01*dl + h10*dlon0 + h11*dlon1
+				if lon > 180 {
+					lon -= 360
+				} else if lon < -180 {
+					lon += 360
+				}
+				if lon >= 180 {
+					lon -= 360
+				}
+				ix := j + i
+				dist[ix], lats[ix], lons[ix] = float64(ix)*step, lat, lon
+				// Inside the tile in use: gridCursor.at without the call.
+				y := (g.lat0 - lat) * g.invDLat
+				x := (lon - g.lon0) * g.invDLon
+				if inTile && y >= 0 && y <= g.maxY && x >= 0 && x <= g.maxX {
+					r := min(int(y), g.maxR)
+					c := min(int(x), g.maxC)
+					fy, fx := y-float64(r), x-float64(c)
+					cols := g.cols
+					o := r*cols + c
+					hs := g.h[o : o+cols+2 : o+cols+2]
+					z00, z01 := float64(hs[0]), float64(hs[1])
+					z10, z11 := float64(hs[cols]), float64(hs[cols+1])
+					top := z00 + fx*(z01-z00)
+					bottom := z10 + fx*(z11-z10)
+					v := top + fy*(bottom-top)
+					if v != v {
+						if v = voidMean(z00, z01, z10, z11); v != v {
+							v = 0
+							dst.NoData++
+						}
+					}
+					elev[ix] = v
+					continue
+				}
+				hv, err := w.height(lat, lon)
+				if err != nil {
+					return err
+				}
+				elev[ix] = hv
+				inTile = w.fast && g.maxR >= 0
+			}
+		}
+		lat0, lon0, dlat0, dlon0, ok0 = lat1, lon1, dlat1, dlon1, ok1
+		j = end
+	}
+	if err := put(n-1, lat2, normLon(lon2)); err != nil {
+		return err
+	}
+	dist[n-1] = dst.DistanceM
+	return nil
+}
+
+// hermiteCache keeps the cubic Hermite weights of Line.Positions for two
+// stretch lengths (the full stretch and the last, shorter one); the one
+// used less recently is replaced.
+type hermiteCache struct {
+	k    [2]int
+	w    [2][]float64
+	next int
+}
+
+// weights returns h01, and the slope weights of h10 and h11 before their
+// factor h, for the points i = 1 … kk−1 of a stretch of kk steps (3 per
+// point, from index 3), computed by the expressions of Line.Positions.
+func (c *hermiteCache) weights(kk int) []float64 {
+	for s := range c.k {
+		if c.k[s] == kk && c.w[s] != nil {
+			c.next = 1 - s // the other one goes first
+			return c.w[s]
+		}
+	}
+	s := c.next
+	c.next = 1 - s
+	w := c.w[s][:0]
+	if cap(w) < 3*kk {
+		w = make([]float64, 0, 3*kk)
+	}
+	w = append(w, 0, 0, 0)
+	inv := 1 / float64(kk)
+	for i := 1; i < kk; i++ {
+		t := float64(i) * inv
+		t2 := t * t
+		t3 := t2 * t
+		w = append(w, 3*t2-2*t3, t3-2*t2+t, t3-t2)
+	}
+	c.k[s], c.w[s] = kk, w
+	return w
 }
 
 // gridCursor is a tile in use and its grid constants.

@@ -225,7 +225,11 @@ func limitText(wm2 float64, im bool) string {
 func limitsText(r exposure.Report) string {
 	s := r.LimitsSource + " (public: general population/uncontrolled; operators: occupational/controlled)"
 	if r.LimitsFromMemory {
-		s += " (values from memory, not yet checked against the published table)"
+		note := r.LimitsNote
+		if note == "" {
+			note = "Values from memory, not yet checked against the published table"
+		}
+		s += ". " + note
 	}
 	return s
 }

@@ -247,9 +247,13 @@ func TestExposureICNIRP(t *testing.T) {
 		if strings.Contains(out, "1.1307") || strings.Contains(out, "exempt") {
 			t.Errorf("%s prints the US exemption:\n%s", std, out)
 		}
-		for _, want := range []string{"ICNIRP", "Table", "from memory"} {
+		wants := map[string][]string{
+			"icnirp2020": {"Both tiers of ICNIRP 2020 Table 5, public and operators, are from memory"},
+			"icnirp1998": {"ICNIRP 1998 Table 6 (occupational), are from memory", "the public limits, Table 7, are checked"},
+		}
+		for _, want := range append([]string{"ICNIRP", "Table"}, wants[std]...) {
 			if !strings.Contains(out, want) {
-				t.Errorf("%s text lacks %q", std, want)
+				t.Errorf("%s text lacks %q:\n%s", std, want, out)
 			}
 		}
 		out, _, _ = runCmd(t, "exposure", "--power", "50W", "--freq", "146", "--standard", std, "--format", "json")
@@ -259,6 +263,11 @@ func TestExposureICNIRP(t *testing.T) {
 		}
 		if m["limits_from_memory"] != true {
 			t.Errorf("%s JSON limits_from_memory %v", std, m["limits_from_memory"])
+		}
+		// Per tier: ICNIRP 2020 Table 5 is from memory for both; of ICNIRP
+		// 1998 only Table 6 (occupational), Table 7 (public) being checked.
+		if m["limits_from_memory_public"] != (std == "icnirp2020") || m["limits_from_memory_occupational"] != true || m["limits_note"] == nil {
+			t.Errorf("%s JSON per-tier marks: public %v, occupational %v, note %v", std, m["limits_from_memory_public"], m["limits_from_memory_occupational"], m["limits_note"])
 		}
 		if _, stderr, code := runCmd(t, "exposure", "--power", "50W", "--freq", "146", "--standard", std, "--distance", "5m"); code != 2 || !strings.Contains(stderr, "--distance") {
 			t.Errorf("%s --distance: code %d, %s", std, code, stderr)

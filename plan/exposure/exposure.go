@@ -63,7 +63,8 @@ const (
 	// 118(5):483–524), Table 5 whole-body reference levels averaged over
 	// 30 minutes. The values are from memory: neither the published table
 	// nor a faithful copy of it has been read yet (only secondary
-	// copies, which agree); StandardSource says so for the output.
+	// copies, which agree), for either tier; TierSource and LimitsNote say
+	// so for the output.
 	StandardICNIRP2020 Standard = "icnirp2020"
 	// StandardICNIRP1998 is the ICNIRP 1998 guidelines (Health Physics
 	// 74(4):494–522), Table 6 (occupational) and Table 7 (general public)
@@ -72,18 +73,20 @@ const (
 	// agree with the public reference levels of Council Recommendation
 	// 1999/519/EC, Annex III, which are taken from ICNIRP 1998 (read as
 	// reproduced in French Décret n° 2002-775, annex § 2.2 A); the occupational Table 6 has been checked only in part
-	// (see icnirp1998OccupationalBands), so the set as a whole stays marked
-	// from memory and StandardSource says so for the output.
+	// (see icnirp1998OccupationalBands), so the occupational tier stays
+	// marked from memory; TierSource and LimitsNote say so for the output.
 	StandardICNIRP1998 Standard = "icnirp1998"
 )
 
 var exposureStandards = []Standard{StandardFCC, StandardICNIRP2020, StandardICNIRP1998}
 
 // StandardSource returns the published table a standard's limits come from
-// and whether the values in this package are from memory, not yet checked
-// against that table or a faithful copy of it in full (true for both ICNIRP
-// sets: ICNIRP 2020 Table 5 is unread, ICNIRP 1998 Table 6 is checked only
-// in part). An unknown standard gives an empty source.
+// and whether any of the values in this package (either tier) is from
+// memory, not yet checked against that table or a faithful copy of it
+// (true for both ICNIRP sets: ICNIRP 2020 Table 5 is unread for both tiers;
+// of ICNIRP 1998, Table 7 (public) is checked, Table 6 (occupational) only
+// in part). TierSource tells the tiers apart. An unknown standard gives an
+// empty source.
 func StandardSource(std Standard) (source string, fromMemory bool) {
 	switch std {
 	case StandardFCC, "":
@@ -94,6 +97,62 @@ func StandardSource(std Standard) (source string, fromMemory bool) {
 		return "ICNIRP 1998 guidelines (Health Physics 74(4):494–522), Tables 6 and 7", true
 	}
 	return "", false
+}
+
+// TierSource returns the published table behind one tier's limits of a
+// standard and whether the values in this package for that tier are from
+// memory, not yet checked against the table or a faithful copy of it:
+//
+//   - StandardFCC: 47 CFR § 1.1310(e)(1) Table 1, (A) occupational/controlled
+//     and (B) general population/uncontrolled; checked.
+//   - StandardICNIRP2020: Table 5, both tiers from memory.
+//   - StandardICNIRP1998: Table 7 (general public) checked against the
+//     public reference levels of Council Recommendation 1999/519/EC,
+//     Annex III, which are taken from it; Table 6 (occupational) from
+//     memory, checked only in part (see icnirp1998OccupationalBands).
+//
+// An unknown standard or tier gives an empty source.
+func TierSource(std Standard, tier Tier) (source string, fromMemory bool) {
+	occ := tier == TierOccupational
+	if !occ && tier != TierPublic {
+		return "", false
+	}
+	switch std {
+	case StandardFCC, "":
+		if occ {
+			return "US 47 CFR § 1.1310(e)(1) Table 1 (A), occupational/controlled", false
+		}
+		return "US 47 CFR § 1.1310(e)(1) Table 1 (B), general population/uncontrolled", false
+	case StandardICNIRP2020:
+		if occ {
+			return "ICNIRP 2020 guidelines (Health Physics 118(5):483–524), Table 5, occupational, whole body, 30 min average", true
+		}
+		return "ICNIRP 2020 guidelines (Health Physics 118(5):483–524), Table 5, general public, whole body, 30 min average", true
+	case StandardICNIRP1998:
+		if occ {
+			return "ICNIRP 1998 guidelines (Health Physics 74(4):494–522), Table 6, occupational", true
+		}
+		return "ICNIRP 1998 guidelines (Health Physics 74(4):494–522), Table 7, general public", false
+	}
+	return "", false
+}
+
+// LimitsNote returns, for the output, one sentence (capitalised, without
+// the final full stop) saying which of a standard's limits are from memory
+// (TierSource) and which are checked, or "" when none is from memory
+// (StandardFCC) or the standard is unknown.
+func LimitsNote(std Standard) string {
+	_, pubMem := TierSource(std, TierPublic)
+	_, occMem := TierSource(std, TierOccupational)
+	switch {
+	case std == StandardICNIRP2020 && pubMem && occMem:
+		return "Both tiers of ICNIRP 2020 Table 5, public and operators, are from memory: neither the published table nor a verbatim copy of it has been checked"
+	case std == StandardICNIRP1998 && occMem && !pubMem:
+		return "The operators' limits, ICNIRP 1998 Table 6 (occupational), are from memory, checked only in part; the public limits, Table 7, are checked against the reference levels of Council Recommendation 1999/519/EC, Annex III, which are taken from that table"
+	case pubMem || occMem:
+		return "Some of these limits are from memory, not yet checked against the published table"
+	}
+	return ""
 }
 
 // ParseStandard returns the standard named by s ("fcc",
@@ -629,10 +688,16 @@ type Report struct {
 	// Standard is the limit set used.
 	Standard Standard `json:"standard"`
 	// LimitsSource names the published table of the limits
-	// (StandardSource); LimitsFromMemory is true while the values are from
-	// memory and not yet checked against it.
-	LimitsSource     string `json:"limits_source"`
-	LimitsFromMemory bool   `json:"limits_from_memory"`
+	// (StandardSource). LimitsFromMemory is true when any limit used in
+	// this report (either tier) is from memory and not yet checked against
+	// it; LimitsFromMemoryPublic and LimitsFromMemoryOccupational say it
+	// per tier (TierSource), and LimitsNote says it in a sentence for the
+	// output ("" when nothing is from memory).
+	LimitsSource                 string `json:"limits_source"`
+	LimitsFromMemory             bool   `json:"limits_from_memory"`
+	LimitsFromMemoryPublic       bool   `json:"limits_from_memory_public"`
+	LimitsFromMemoryOccupational bool   `json:"limits_from_memory_occupational"`
+	LimitsNote                   string `json:"limits_note,omitempty"`
 	// Mode is the emission mode used.
 	Mode TxMode `json:"mode"`
 	// FreqMHz is the transmit frequency in MHz.
@@ -855,36 +920,41 @@ func Evaluate(in Input) (Report, error) {
 			return rep, err
 		}
 	}
-	source, fromMemory := StandardSource(std)
+	source, _ := StandardSource(std)
+	_, pubMem := TierSource(std, TierPublic)
+	_, occMem := TierSource(std, TierOccupational)
 
 	rep = Report{
-		Standard:               std,
-		LimitsSource:           source,
-		LimitsFromMemory:       fromMemory,
-		Mode:                   mode,
-		FreqMHz:                in.FreqMHz,
-		EIRPW:                  eirp,
-		DutyFactor:             duty,
-		DutySource:             dutySource,
-		TxFractionPublic:       pub.fraction,
-		TxFractionOccupational: occ.fraction,
-		AveragingPublicS:       pub.limit.Averaging.Seconds(),
-		AveragingOccupationalS: occ.limit.Averaging.Seconds(),
-		AvgPowerPublicW:        pub.avgW,
-		AvgPowerOccupationalW:  occ.avgW,
-		LimitPublicWM2:         pub.limit.PowerDensityWM2,
-		LimitOccupationalWM2:   occ.limit.PowerDensityWM2,
-		ReflectionFactor:       refl,
-		DistancePublicM:        clean(pub.distM),
-		DistanceOccupationalM:  clean(occ.distM),
-		AntennaHeightM:         in.AntennaHeightM,
-		HeadHeightM:            head,
-		KeepoutPublicM:         clean(pub.k),
-		KeepoutOccupationalM:   clean(occ.k),
-		NearFieldM:             NearFieldBoundaryM(in.FreqMHz),
-		ERPW:                   clean(erp),
-		ExemptBeyondM:          clean(exemptM),
-		Cautions:               Cautions(),
+		Standard:                     std,
+		LimitsSource:                 source,
+		LimitsFromMemory:             pubMem || occMem,
+		LimitsFromMemoryPublic:       pubMem,
+		LimitsFromMemoryOccupational: occMem,
+		LimitsNote:                   LimitsNote(std),
+		Mode:                         mode,
+		FreqMHz:                      in.FreqMHz,
+		EIRPW:                        eirp,
+		DutyFactor:                   duty,
+		DutySource:                   dutySource,
+		TxFractionPublic:             pub.fraction,
+		TxFractionOccupational:       occ.fraction,
+		AveragingPublicS:             pub.limit.Averaging.Seconds(),
+		AveragingOccupationalS:       occ.limit.Averaging.Seconds(),
+		AvgPowerPublicW:              pub.avgW,
+		AvgPowerOccupationalW:        occ.avgW,
+		LimitPublicWM2:               pub.limit.PowerDensityWM2,
+		LimitOccupationalWM2:         occ.limit.PowerDensityWM2,
+		ReflectionFactor:             refl,
+		DistancePublicM:              clean(pub.distM),
+		DistanceOccupationalM:        clean(occ.distM),
+		AntennaHeightM:               in.AntennaHeightM,
+		HeadHeightM:                  head,
+		KeepoutPublicM:               clean(pub.k),
+		KeepoutOccupationalM:         clean(occ.k),
+		NearFieldM:                   NearFieldBoundaryM(in.FreqMHz),
+		ERPW:                         clean(erp),
+		ExemptBeyondM:                clean(exemptM),
+		Cautions:                     Cautions(),
 	}
 	return rep, nil
 }

@@ -41,6 +41,12 @@ import (
 //     2013/35/EU Annex III as published by the Norwegian Labour Inspection
 //     Authority (arbeidstilsynet.no, action-value regulations § 12-1). The
 //     H-field 1.6/f A/m (which sets the 1–10 MHz limit) was not read.
+//   - A later search of stored public copies (the guidelines themselves,
+//     ARPANSA RPS S-1 (2021), national texts, ITU-T material) found no
+//     verbatim copy of ICNIRP 2020 Table 5 or ICNIRP 1998 Table 6, nor a
+//     readable FCC OET Bulletin 65 Supplement B Table 2; only ICNIRP 2020
+//     Table 6 (local exposure, not used here) turned up reproduced in a
+//     textbook. So the marks stay, now per tier (TierSource).
 // [calc] marks a figure computed by hand from the cited formula.
 
 func TestExposureLimitFor(t *testing.T) {
@@ -959,6 +965,9 @@ func TestSources(t *testing.T) {
 		if !strings.Contains(rep.LimitsSource, tc.want) || rep.LimitsFromMemory != tc.fromMem {
 			t.Errorf("%s: source %q from memory %v; want %q, %v", tc.std, rep.LimitsSource, rep.LimitsFromMemory, tc.want, tc.fromMem)
 		}
+		if rep.LimitsFromMemory != (rep.LimitsFromMemoryPublic || rep.LimitsFromMemoryOccupational) || (rep.LimitsNote != "") != rep.LimitsFromMemory {
+			t.Errorf("%s: from memory %v, public %v, occupational %v, note %q", tc.std, rep.LimitsFromMemory, rep.LimitsFromMemoryPublic, rep.LimitsFromMemoryOccupational, rep.LimitsNote)
+		}
 		if rep.DutyFactor != 0.5 || !strings.Contains(rep.DutySource, "typical") {
 			t.Errorf("ssb-processed: duty %g from %q; want 0.5, typical", rep.DutyFactor, rep.DutySource)
 		}
@@ -972,5 +981,72 @@ func TestSources(t *testing.T) {
 	}
 	if len(MastCautions()) == 0 || len(Cautions()) <= len(MastCautions()) {
 		t.Error("cautions missing")
+	}
+}
+
+// TestTierSource checks the table and from-memory mark of each tier: the
+// US Table 1 and ICNIRP 1998 Table 7 (public) are checked (Table 7 against
+// the public reference levels of Council Recommendation 1999/519/EC,
+// Annex III, taken from it); ICNIRP 2020 Table 5 (both tiers) and ICNIRP
+// 1998 Table 6 (occupational) are from memory, and the report and its
+// note say so for exactly those tiers.
+func TestTierSource(t *testing.T) {
+	pub, occ := TierPublic, TierOccupational
+	for _, tc := range []struct {
+		std     Standard
+		tier    Tier
+		want    string
+		fromMem bool
+	}{
+		{StandardFCC, pub, "Table 1 (B)", false},
+		{StandardFCC, occ, "Table 1 (A)", false},
+		{StandardICNIRP2020, pub, "Table 5, general public", true},
+		{StandardICNIRP2020, occ, "Table 5, occupational", true},
+		{StandardICNIRP1998, pub, "Table 7, general public", false},
+		{StandardICNIRP1998, occ, "Table 6, occupational", true},
+		{"nosuch", pub, "", false},
+		{StandardFCC, Tier(7), "", false},
+	} {
+		src, mem := TierSource(tc.std, tc.tier)
+		if (tc.want == "" && src != "") || !strings.Contains(src, tc.want) || mem != tc.fromMem {
+			t.Errorf("TierSource(%s, %v) = %q, %v; want %q, %v", tc.std, tc.tier, src, mem, tc.want, tc.fromMem)
+		}
+		if tc.want == "" || tc.std == "nosuch" {
+			continue
+		}
+		rep, err := Evaluate(Input{PowerW: 5, FreqMHz: 446, Standard: tc.std})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := rep.LimitsFromMemoryPublic
+		if tc.tier == occ {
+			got = rep.LimitsFromMemoryOccupational
+		}
+		if got != tc.fromMem {
+			t.Errorf("%s %v: report from memory %v, want %v", tc.std, tc.tier, got, tc.fromMem)
+		}
+	}
+	for _, tc := range []struct {
+		std       Standard
+		want, not []string
+	}{
+		{StandardFCC, nil, nil},
+		{StandardICNIRP2020, []string{"Both tiers", "Table 5", "from memory"}, nil},
+		{StandardICNIRP1998, []string{"Table 6 (occupational), are from memory", "Table 7, are checked", "1999/519/EC"}, []string{"Table 7, are from memory"}},
+	} {
+		note := LimitsNote(tc.std)
+		if (len(tc.want) == 0) != (note == "") {
+			t.Errorf("LimitsNote(%s) = %q", tc.std, note)
+		}
+		for _, w := range tc.want {
+			if !strings.Contains(note, w) {
+				t.Errorf("LimitsNote(%s) = %q, lacks %q", tc.std, note, w)
+			}
+		}
+		for _, w := range tc.not {
+			if strings.Contains(note, w) {
+				t.Errorf("LimitsNote(%s) = %q, has %q", tc.std, note, w)
+			}
+		}
 	}
 }

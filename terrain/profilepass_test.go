@@ -1,0 +1,85 @@
+package terrain
+
+import (
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"slices"
+	"testing"
+)
+
+// TestProfileOnePass: Profile places the samples and takes their heights
+// in one pass (profileSamples); it must give to the last bit what the two
+// separate steps give, Line.Positions (Karney 2013 nodes, cubic Hermite
+// between them; checked against Line.Position in TestProfileGridSampling)
+// then the height of every sample (profileHeights): distances, positions,
+// heights, the files used in their order, NoData and the missing tiles.
+// Profiles run over a 2×2 mosaic of 3″ tiles with voids, off it (missing
+// tiles), across the antimeridian, and beyond 75° where every position is
+// exact.
+func TestProfileOnePass(t *testing.T) {
+	dir := t.TempDir()
+	for _, ll := range [][2]int{{45, 7}, {45, 8}, {46, 7}, {46, 8}} {
+		g := htGrid(HGTSamples3, ll[0], ll[1], true)
+		raw := htRaw(HGTSamples3, func(r, c int) int16 { return g[r*HGTSamples3+c] })
+		if err := os.WriteFile(filepath.Join(dir, HGTName(ll[0], ll[1])), raw, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	open := func() *Set {
+		s, err := Open(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return s
+	}
+	got, want := open(), open()
+	type path struct{ lat1, lon1, lat2, lon2, step float64 }
+	paths := []path{
+		{45.2, 8, 46.8, 8, 0},
+		{45, 7, 47, 9, 0},
+		{45.5, 7.5, 45.5001, 7.5, 0},
+		{44.5, 6.5, 47.5, 9.5, 0},       // off the mosaic at both ends
+		{10, 179.9, 10.3, -179.8, 90},   // across the antimeridian
+		{74.5, 20, 76.5, 21, 30},        // nodes beyond 75°
+		{-80, 10, -79, 170, 500},        // far south, long
+		{45.5, 7.5, 46.5, 8.5, 3000},    // a step over 2 km: every point exact
+		{45.5, 7.5, 46.5, 8.5, 1000},    // two steps per node
+		{45.95, 7.95, 46.05, 8.05, 0.5}, // half-metre step
+	}
+	rng := rand.New(rand.NewPCG(5, 8))
+	for range 80 {
+		paths = append(paths, path{44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, 44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, []float64{0, 7.5, 30, 90}[rng.IntN(4)]})
+	}
+	var p, q Profile
+	for k, c := range paths {
+		if err := got.Profile(c.lat1, c.lon1, c.lat2, c.lon2, c.step, &p); err != nil {
+			t.Fatal(err)
+		}
+		// The two steps, as Profile did them before.
+		var line Line
+		distM, _, _ := profileLine(&line, c.lat1, c.lon1, c.lat2, c.lon2)
+		n := p.Len()
+		q.DistanceM, q.StepM = distM, p.StepM
+		q.DistM, q.Lat, q.Lon, q.ElevM = grow(q.DistM, n), grow(q.Lat, n), grow(q.Lon, n), grow(q.ElevM, n)
+		q.Sources, q.NoData = q.Sources[:0], 0
+		profilePositions(&line, c.lat1, c.lon1, c.lat2, c.lon2, p.StepM, &q)
+		if err := want.profileHeights(&q); err != nil {
+			t.Fatal(err)
+		}
+		for i := range n {
+			for _, v := range [][2]float64{{p.DistM[i], q.DistM[i]}, {p.Lat[i], q.Lat[i]}, {p.Lon[i], q.Lon[i]}, {p.ElevM[i], q.ElevM[i]}} {
+				if math.Float64bits(v[0]) != math.Float64bits(v[1]) {
+					t.Fatalf("path %d sample %d of %d: %v, two steps give %v", k, i, n, v[0], v[1])
+				}
+			}
+		}
+		if p.NoData != q.NoData || !slices.Equal(p.Sources, q.Sources) {
+			t.Fatalf("path %d: NoData %d, sources %v; two steps give %d, %v", k, p.NoData, p.Sources, q.NoData, q.Sources)
+		}
+	}
+	if g, w := got.Missing(), want.Missing(); !slices.Equal(g, w) {
+		t.Errorf("missing tiles %v, two steps give %v", g, w)
+	}
+}
