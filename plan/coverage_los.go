@@ -51,12 +51,6 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 	at := func(k, m int) int { return ((m>>4)*kb+(k>>4))<<8 | (m&15)<<4 | (k & 15) }
 	var noData atomic.Bool
 	total := nRad + g.rows
-	doneBefore := 0
-	prog := func(done, _ int) {
-		if progress != nil {
-			progress(doneBefore+done, total)
-		}
-	}
 
 	// Each radial's own step: the DEM spacing in its direction (a row or a
 	// column crossed per sample, whichever comes first), never shorter
@@ -79,65 +73,79 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		sq[m], inv[m] = float64(m)*float64(m), 1/float64(m)
 	}
 
-	// Pass 1, level by level from the coarsest.
+	// Pass 1, in units of 2^levels neighbouring radials (each unit's own
+	// coarsest radial first, then its finer ones, every parent before its
+	// children), so that the table's lines stay in cache while all 16
+	// radials of a block write them.
+	unit := 1 << g.levels
+	order := make([]int, 0, unit) // offsets within a unit, coarsest level first
 	for t := g.levels; t >= 0; t-- {
-		stride := 1 << t
-		var ks []int // radials of this level, grouped by block of 16
-		for k := 0; k < nRad; k += stride {
-			if t == g.levels || bits.TrailingZeros(uint(k)) == t {
-				ks = append(ks, k)
+		for o := range unit {
+			if (o == 0 && t == g.levels) || (o != 0 && bits.TrailingZeros(uint(o)) == t) {
+				order = append(order, o)
 			}
 		}
-		per := max(1, 16/stride) // radials of the level in one block
-		jobs := (len(ks) + per - 1) / per
-		err := coverageParallel(ctx, jobs, prog, func(ws *coverageWorker, j int) error {
-			if ws.sp == nil {
-				ws.sp = ts.NewSampler()
-			}
-			if cap(ws.lats) < n {
-				ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
-			}
-			for _, k := range ks[j*per : min((j+1)*per, len(ks))] {
-				nk, start := samplesOf(k, t)
-				lats, lons, hgts := ws.lats[:nk-start], ws.lons[:nk-start], ws.hgts[:nk-start]
-				ws.sp.NoData = 0
-				azi := 360 * float64(k) / float64(nRad)
-				step := stepOf[k]
-				if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, azi, float64(start)*step, step, lats, lons, hgts); err != nil {
-					return err
-				}
-				if ws.sp.NoData > 0 {
-					noData.Store(true)
-				}
-				table[at(k, 0)] = float32(math.Inf(-1)) // no intermediate point yet
-				best := math.Inf(-1)
-				if t < g.levels {
-					// The parent's running maximum over its samples short of
-					// this radial's first one.
-					p := k - stride
-					if jp := int(float64(start-1) * step * invStepOf[p]); jp > 0 {
-						best = float64(table[at(p, jp)])
-					}
-				}
-				base := at(k, 0)
-				bs2 := hl.Bulge * step * step * 1e-6 // bulge·s², s in km
-				invS := 1000 / step
-				hts := hl.HtsM
-				sqs, invs := sq[start:start+len(hgts)], inv[start:start+len(hgts)]
-				for i, h := range hgts {
-					m := start + i
-					if v := (h - hts - bs2*sqs[i]) * invS * invs[i]; v > best { // hl.Slope
-						best = v
-					}
-					table[base+(m>>4)*kb<<8|(m&15)<<4] = float32(best)
-				}
-			}
-			return nil
-		})
-		if err != nil {
-			return err
+	}
+	err = coverageParallel(ctx, nRad/unit, func(done, _ int) {
+		if progress != nil {
+			progress(done*unit, total)
 		}
-		doneBefore += len(ks)
+	}, func(ws *coverageWorker, u int) error {
+		if ws.sp == nil {
+			ws.sp = ts.NewSampler()
+		}
+		if cap(ws.lats) < n {
+			ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
+		}
+		for _, o := range order {
+			k := u*unit + o
+			t := g.levels
+			if o != 0 {
+				t = bits.TrailingZeros(uint(o))
+			}
+			nk, start := samplesOf(k, t)
+			lats, lons, hgts := ws.lats[:nk-start], ws.lons[:nk-start], ws.hgts[:nk-start]
+			ws.sp.NoData = 0
+			azi := 360 * float64(k) / float64(nRad)
+			step := stepOf[k]
+			if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, azi, float64(start)*step, step, lats, lons, hgts); err != nil {
+				return err
+			}
+			if ws.sp.NoData > 0 {
+				noData.Store(true)
+			}
+			table[at(k, 0)] = float32(math.Inf(-1)) // no intermediate point yet
+			best := math.Inf(-1)
+			if t < g.levels {
+				// The parent's running maximum over its samples short of
+				// this radial's first one.
+				p := k - 1<<t
+				if jp := int(float64(start-1) * step * invStepOf[p]); jp > 0 {
+					best = float64(table[at(p, jp)])
+				}
+			}
+			base := at(k, 0)
+			bs2 := hl.Bulge * step * step * 1e-6 // bulge·s², s in km
+			invS := 1000 / step
+			hts := hl.HtsM
+			sqs, invs := sq[start:start+len(hgts)], inv[start:start+len(hgts)]
+			for i, h := range hgts {
+				m := start + i
+				if v := (h - hts - bs2*sqs[i]) * invS * invs[i]; v > best { // hl.Slope
+					best = v
+				}
+				table[base+(m>>4)*kb<<8|(m&15)<<4] = float32(best)
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		return err
+	}
+	prog := func(done, _ int) {
+		if progress != nil {
+			progress(nRad+done, total)
+		}
 	}
 
 	// Pass 2: the cells, row by row.

@@ -141,6 +141,25 @@ func (p *Sampler) RadialFrom(lat, lon, aziDeg, startM, stepM float64, lats, lons
 			lo -= 360
 			lons[i] = lo
 		}
+		// Inside the tile in use (HGT only): Height's bilinear, inline.
+		if t := p.cur; p.fast && t != nil && t.Rows >= 2 && t.Cols >= 2 {
+			y := (p.lat0 - la) * p.invDLat
+			x := (lo - p.lon0) * p.invDLon
+			if y >= 0 && y <= p.maxY && x >= 0 && x <= p.maxX {
+				r := min(int(y), t.Rows-2)
+				c := min(int(x), t.Cols-2)
+				fy, fx := y-float64(r), x-float64(c)
+				j := r*t.Cols + c
+				h := t.H[j : j+t.Cols+2 : j+t.Cols+2]
+				h00, h01 := float64(h[0]), float64(h[1])
+				h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
+				top := h00 + fx*(h01-h00)
+				if v := top + fy*(h10+fx*(h11-h10)-top); v == v {
+					heights[i] = v
+					continue
+				}
+			}
+		}
 		h, err := p.Height(la, lo)
 		if err != nil {
 			return err
