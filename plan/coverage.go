@@ -544,6 +544,89 @@ func (g *coverageGrid) radialStep(aziRad float64) float64 {
 	return max(s, g.stepM)
 }
 
+// east returns the distance in metres east of the site of the centre of
+// cell (r, c) (mid-latitude plane, as offset).
+func (g *coverageGrid) east(r, c int) float64 {
+	dLon := g.lon0 + float64(c)*g.dLon - g.siteLon
+	if dLon > 180 {
+		dLon -= 360
+	} else if dLon < -180 {
+		dLon += 360
+	}
+	return dLon * g.rowE[r]
+}
+
+// sectorRows calls fn(r, cLo, cHi) for the rows of the grid and, in each,
+// the columns [cLo, cHi) that hold every cell centre within the radius
+// whose azimuth (radians clockwise from north, as azimuthRad; a1 < a2,
+// a2 − a1 < π/2) lies between a1 and a2, with a cell of slack each side;
+// the caller tests each cell. The wedge is bounded by a convex polygon —
+// the site and three points on its rays and bisector at R/cos((a2 − a1)/4),
+// so that its edges pass outside the arc — cut by each row's line. A wider
+// wedge, or a grid that wraps the antimeridian near the site, gets the
+// whole of every row within the radius.
+func (g *coverageGrid) sectorRows(a1, a2 float64, fn func(r, cLo, cHi int)) {
+	r2 := g.radiusM * g.radiusM
+	if !(a2-a1 < math.Pi/2) {
+		for r := range g.rows {
+			north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+			if lo, hi := g.span(north, g.rowE[r], r2); lo < hi {
+				fn(r, lo, hi)
+			}
+		}
+		return
+	}
+	rr := g.radiusM / math.Cos((a2-a1)/4)
+	var pe, pn [4]float64 // the polygon: site, ray a1, bisector, ray a2
+	for i, a := range [3]float64{a1, (a1 + a2) / 2, a2} {
+		sin, cos := math.Sincos(a)
+		pe[i+1], pn[i+1] = rr*sin, rr*cos
+	}
+	nLo, nHi := math.Inf(1), math.Inf(-1)
+	for i := range pn {
+		nLo, nHi = min(nLo, pn[i]), max(nHi, pn[i])
+	}
+	mid := (g.siteLon - g.lon0) / g.dLon
+	wraps := !(mid >= -1 && mid <= float64(g.cols))
+	// Rows whose line may cross the polygon (two rows of slack).
+	nM, _ := metresPerDegreeWGS84(g.siteLat)
+	rFirst := max(int(math.Floor((g.lat0-g.siteLat-nHi/nM)/g.dLat))-2, 0)
+	rLast := min(int(math.Ceil((g.lat0-g.siteLat-nLo/nM)/g.dLat))+2, g.rows-1)
+	for r := rFirst; r <= rLast; r++ {
+		y := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+		lo, hi := g.span(y, g.rowE[r], r2)
+		if lo >= hi {
+			continue
+		}
+		if !wraps {
+			eLo, eHi := math.Inf(1), math.Inf(-1)
+			for i := range pn {
+				j := (i + 1) % len(pn)
+				if (pn[i]-y)*(pn[j]-y) > 0 || pn[i] == pn[j] && pn[i] != y {
+					continue
+				}
+				var e float64
+				if pn[i] == pn[j] {
+					eLo, eHi = min(eLo, pe[i], pe[j]), max(eHi, pe[i], pe[j])
+					continue
+				}
+				e = pe[i] + (y-pn[i])*(pe[j]-pe[i])/(pn[j]-pn[i])
+				eLo, eHi = min(eLo, e), max(eHi, e)
+			}
+			if eLo > eHi {
+				continue
+			}
+			per := 1 / (g.rowE[r] * g.dLon) // columns per metre east
+			lo = max(lo, int(math.Floor(mid+eLo*per))-1)
+			hi = min(hi, int(math.Ceil(mid+eHi*per))+2)
+			if lo >= hi {
+				continue
+			}
+		}
+		fn(r, lo, hi)
+	}
+}
+
 // span returns the columns [lo, hi) of a row north metres north of the
 // site (eScale metres per degree of longitude) that may lie within the
 // radius (r2 its square): |e| ≤ √(r2 − north²), a cell wider each side for
@@ -572,6 +655,7 @@ type coverageWorker struct {
 	count, order     []int32
 	dist             []float64 // of each cell of the radial, m
 	mOf              []int32   // samples before each cell of the radial
+	horizon          []float32 // coverageLOS: running maxima of a unit's radials
 }
 
 // walkTree answers the cells of radial k of level t and of the finer

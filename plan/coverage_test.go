@@ -150,6 +150,9 @@ func TestCoverageLOSAgainstGDALViewshed(t *testing.T) {
 			continue
 		}
 		n++
+		if v != 0 && v != 1 {
+			t.Fatalf("cell %d: %v, want 0 or 1", i, v)
+		}
 		if v == 1 {
 			visible++
 		}
