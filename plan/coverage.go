@@ -145,31 +145,36 @@ type coverageGrid struct {
 	levels       int       // radial levels below the full set (see walkTree, coverageLOS)
 	shift        int       // a level-t radial starts at R/2^(t+shift)
 	thresholds   []float64 // R/2^(j+shift), m: level j serves distances from there out
-	radialOfCell []int32
 }
 
 // CoverageMap computes a coverage map around req.Site over the elevation
 // data ts (nil or empty: a smooth earth at sea level).
 //
-// Method (loss; line of sight works cell by cell from a table of the
-// radials' horizons, see coverageLOS): radials leave the site along WGS84 geodesics (Karney) at equal
+// Method: radials leave the site along WGS84 geodesics (Karney) at equal
 // azimuth steps, enough that neighbouring radials lie at most one cell
-// apart at the radius (half a cell for loss); each is sampled every cell size (the smaller side)
-// with bilinear heights. Every cell within the radius is answered by the
-// radial nearest its azimuth, with the cell's centre as the receiver (its
-// own distance and ground height) and the radial's samples short of it by
-// more than half a step as the intermediate profile points, by
+// apart at the radius (half a cell for loss), sampled with bilinear
+// heights every cell size (line of sight: the DEM spacing in the radial's
+// own direction). They come in units of 2^levels neighbours: a unit's
+// coarsest radial runs from the site, the finer ones branch off a coarser
+// neighbour where the radials of the coarser levels stand too far apart
+// for the cells (R/2^(t+1) for level t in line of sight, R/2^(t+2) in
+// loss), taking its samples up to there. Every cell within the radius is
+// answered by the nearest radial of its distance's level, with the cell's
+// centre as the receiver (its own distance and ground height) and the
+// radial's samples short of it by more than half a step as the
+// intermediate profile points, by propagation.HorizonLOS or
 // propagation.Radial: line of sight by ITU-R P.526-16 eqs. 49–50 (earth
 // curvature of the chosen k), loss by §4.5 (delta-Bullington) plus free
-// space (ITU-R P.525-4). Cell distance and azimuth come from the
-// mid-latitude plane approximation (metres per degree at the mean latitude
-// of site and cell; Snyder, USGS PP 1395, eqs. 4-18, 4-20), within a few
-// metres of the geodesic at 40 km.
+// space (ITU-R P.525-4). A unit finds its cells in the wedge of azimuths
+// it serves (sectorRows), so no list of every cell is kept. Cell distance
+// and azimuth come from the mid-latitude plane approximation (metres per
+// degree at the mean latitude of site and cell; Snyder, USGS PP 1395, eqs.
+// 4-18, 4-20), within a few metres of the geodesic at 40 km.
 //
 // It uses every core (results by index: the same bytes whatever the core
 // count) and calls progress, when not nil, from the calling goroutine with
-// the work done (radials; for line of sight radials, then rows of
-// the grid), about every 100 ms and once at the end. Errors: bad
+// the work done (rows of the grid for the cells' ground, then radials;
+// total rows + radials), about every 100 ms and once at the end. Errors: bad
 // request (wrapping ErrCoverage; a grid over MaxCells names its cells and
 // memory), an unreadable elevation file, or ctx's error.
 func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, progress func(done, total int)) (*CoverageResult, error) {
@@ -230,42 +235,27 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 		}
 		return finishCoverage(ts, res), nil
 	}
-	cellNoData, err := g.bucket(ctx, ts, res.Values)
+	unit := 1 << g.levels
+	total := g.rows + g.radials
+	cellNoData, cells, err := g.fillGround(ctx, ts, res.Values, func(done, _ int) {
+		if progress != nil {
+			progress(done, total)
+		}
+	})
 	if err != nil {
 		return nil, err
 	}
-	res.SmoothEarth = cellNoData
-
-	// Cells by radial (counting sort, in cell order within each radial).
-	start := make([]int32, g.radials+1)
-	for _, r := range g.radialOfCell {
-		if r >= 0 {
-			start[r+1]++
-		}
-	}
-	for r := range g.radials {
-		start[r+1] += start[r]
-	}
-	res.Cells = int(start[g.radials])
-	cellsOf := make([]int32, res.Cells)
-	fill := append([]int32(nil), start[:g.radials]...)
-	for i, r := range g.radialOfCell {
-		if r >= 0 {
-			cellsOf[fill[r]] = int32(i)
-			fill[r]++
-		}
-	}
-	g.radialOfCell, fill = nil, nil
+	res.SmoothEarth, res.Cells = cellNoData, cells
 
 	covered := make([]int32, g.radials)
 	noData := make([]bool, g.radials)
-	unit := 1 << g.levels
-	prog := progress
-	if progress != nil {
-		prog = func(done, total int) { progress(done*unit, total*unit) } // in radials
-	}
-	// Blocks of 2^levels radials, each from its coarsest radial (see walkTree).
-	err = coverageParallel(ctx, g.radials/unit, prog, func(ws *coverageWorker, b int) error {
+	// Units of 2^levels radials, each from its coarsest radial (walkTree),
+	// with the cells they answer (unitCells).
+	err = coverageParallel(ctx, g.radials/unit, func(done, _ int) {
+		if progress != nil {
+			progress(g.rows+done*unit, total)
+		}
+	}, func(ws *coverageWorker, u int) error {
 		if ws.walker == nil {
 			var err error
 			if ws.walker, err = propagation.NewRadial(prm, true); err != nil {
@@ -277,8 +267,12 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 			}
 			ws.sp = ts.NewSampler()
 		}
+		k0 := u * unit
+		g.unitCells(ws, k0, unit)
 		ws.walker.Reset(h0)
-		return g.walkTree(ws, b*unit, g.levels, func(k int) []int32 { return cellsOf[start[k]:start[k+1]] }, &req, res.Values, covered, noData)
+		return g.walkTree(ws, k0, g.levels, func(k int) []int32 {
+			return ws.byRadial[ws.radStart[k-k0]:ws.radStart[k-k0+1]]
+		}, &req, res.Values, covered, noData)
 	})
 	if err != nil {
 		return nil, err
@@ -433,53 +427,101 @@ func (g *coverageGrid) distance(r, c int) float64 {
 	return math.Sqrt(e*e + n*n)
 }
 
-// bucket sets the radial of every cell within the radius (−1 outside, and
-// those cells CoverageNoData) and stores each such cell's own ground height
-// (m, float32) in values, where walk reads it back before it writes the
-// cell's answer; on every core. The azimuth is azimuthRad's (within 2e−8
-// rad of atan2).
-func (g *coverageGrid) bucket(ctx context.Context, ts *terrain.Set, values []float32) (noData bool, err error) {
-	g.radialOfCell = make([]int32, g.rows*g.cols)
+// fillGround stores in values, row by row on every core, each cell's own
+// ground height (m, float32; terrain.Sampler.Row) within the radius, where
+// the engines read it back before they write the cell's answer, and
+// CoverageNoData outside. It returns whether some cell had no elevation
+// data and the cells within the radius; progress counts rows.
+func (g *coverageGrid) fillGround(ctx context.Context, ts *terrain.Set, values []float32, progress func(done, total int)) (noData bool, cells int, err error) {
 	r2 := g.radiusM * g.radiusM
 	var nd atomic.Bool
-	err = coverageParallel(ctx, g.rows, nil, func(ws *coverageWorker, r int) error {
+	var nCells atomic.Int64
+	err = coverageParallel(ctx, g.rows, progress, func(ws *coverageWorker, r int) error {
 		if ws.sp == nil {
 			ws.sp = ts.NewSampler()
 		}
 		ws.sp.NoData = 0
-		defer func() {
-			if ws.sp.NoData > 0 {
-				nd.Store(true)
-			}
-		}()
-		row := g.radialOfCell[r*g.cols : (r+1)*g.cols]
-		vals := values[r*g.cols : (r+1)*g.cols]
+		row := values[r*g.cols : (r+1)*g.cols]
 		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
 		cLo, cHi := g.span(north, g.rowE[r], r2)
-		if err := ws.sp.Row(g.rowLat[r], g.lon0, g.dLon, vals, cLo, cHi); err != nil {
+		if err := ws.sp.Row(g.rowLat[r], g.lon0, g.dLon, row, cLo, cHi); err != nil {
 			return err
 		}
+		if ws.sp.NoData > 0 {
+			nd.Store(true)
+		}
+		nc := 0
 		for c := range row {
 			if c < cLo || c >= cHi {
-				row[c], vals[c] = -1, CoverageNoData
+				row[c] = CoverageNoData
 				continue
 			}
-			dLon := g.lon0 + float64(c)*g.dLon - g.siteLon
-			if dLon > 180 {
-				dLon -= 360
-			} else if dLon < -180 {
-				dLon += 360
-			}
-			e := dLon * g.rowE[r]
-			if e*e+north*north > r2 {
-				row[c], vals[c] = -1, CoverageNoData
+			if e := g.east(r, c); e*e+north*north > r2 {
+				row[c] = CoverageNoData
 				continue
 			}
-			row[c] = int32(g.radialOf(e, north))
+			nc++
 		}
+		nCells.Add(int64(nc))
 		return nil
 	})
-	return nd.Load(), err
+	return nd.Load(), int(nCells.Load()), err
+}
+
+// unitAzimuths returns the wedge of azimuths (radians) holding every cell
+// that radials k0 … k0+unit−1 may answer: half a coarsest spacing before
+// the first (a cell rounds to the nearest radial of its level) to half a
+// spacing past the last, a radial spacing more each side for rounding.
+func (g *coverageGrid) unitAzimuths(k0, unit int) (a1, a2 float64) {
+	per := float64(g.radials) / (2 * math.Pi)
+	return (float64(k0) - float64(unit)/2 - 1) / per, (float64(k0+unit) - 0.5 + 1) / per
+}
+
+// unitCells gathers the cells within the radius that radials k0 …
+// k0+unit−1 answer (their nearest radial of their level, radialAt) into
+// ws.byRadial, grouped by radial in cell order: radial k0+o's are
+// ws.byRadial[ws.radStart[o]:ws.radStart[o+1]].
+func (g *coverageGrid) unitCells(ws *coverageWorker, k0, unit int) {
+	r2 := g.radiusM * g.radiusM
+	ws.found, ws.foundOff = ws.found[:0], ws.foundOff[:0]
+	a1, a2 := g.unitAzimuths(k0, unit)
+	g.sectorRows(a1, a2, func(r, cLo, cHi int) {
+		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+		for c := cLo; c < cHi; c++ {
+			e := g.east(r, c)
+			d2 := e*e + north*north
+			if d2 > r2 {
+				continue
+			}
+			if k := g.radialAt(e, north, math.Sqrt(d2)); k >= k0 && k < k0+unit {
+				ws.found = append(ws.found, int32(r*g.cols+c))
+				ws.foundOff = append(ws.foundOff, int32(k-k0))
+			}
+		}
+	})
+	if cap(ws.radStart) < unit+1 {
+		ws.radStart = make([]int32, unit+1)
+	}
+	start := ws.radStart[:unit+1]
+	clear(start)
+	for _, o := range ws.foundOff {
+		start[o+1]++
+	}
+	for o := range unit {
+		start[o+1] += start[o]
+	}
+	if cap(ws.byRadial) < len(ws.found) {
+		ws.byRadial = make([]int32, len(ws.found))
+	}
+	ws.byRadial = ws.byRadial[:len(ws.found)]
+	if cap(ws.fill) < unit {
+		ws.fill = make([]int32, unit)
+	}
+	fill := append(ws.fill[:0], start[:unit]...)
+	for i, o := range ws.foundOff {
+		ws.byRadial[fill[o]] = ws.found[i]
+		fill[o]++
+	}
 }
 
 // level returns the radial level that serves a cell dM metres from the
@@ -656,6 +698,9 @@ type coverageWorker struct {
 	dist             []float64 // of each cell of the radial, m
 	mOf              []int32   // samples before each cell of the radial
 	horizon          []float32 // coverageLOS: running maxima of a unit's radials
+	found, foundOff  []int32   // unitCells: cells found, their radial in the unit
+	byRadial         []int32   // unitCells: the unit's cells grouped by radial
+	radStart, fill   []int32   // unitCells: where each radial's cells start
 }
 
 // walkTree answers the cells of radial k of level t and of the finer
@@ -745,7 +790,7 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 		for ; next < len(order) && next < int(count[m]); next++ {
 			cell := cells[order[next]]
 			dM := dist[order[next]]
-			hc := float64(values[cell])   // the cell's ground, from bucket
+			hc := float64(values[cell])   // the cell's ground, from fillGround
 			dKM := math.Max(dM, 1) / 1000 // a cell at the site counts as 1 m away
 			val, ok := coverageValue(w.Loss(dKM, hc), req, patternDB)
 			values[cell] = float32(val)

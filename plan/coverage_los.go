@@ -52,44 +52,16 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 	r2 := g.radiusM * g.radiusM
 
 	// Pass 1: the cells' ground.
-	var noData atomic.Bool
-	var cells atomic.Int64
-	err = coverageParallel(ctx, g.rows, func(done, _ int) {
+	noDataGround, nCells, err := g.fillGround(ctx, ts, res.Values, func(done, _ int) {
 		if progress != nil {
 			progress(done, total)
 		}
-	}, func(ws *coverageWorker, r int) error {
-		if ws.sp == nil {
-			ws.sp = ts.NewSampler()
-		}
-		ws.sp.NoData = 0
-		row := res.Values[r*g.cols : (r+1)*g.cols]
-		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
-		cLo, cHi := g.span(north, g.rowE[r], r2) // the columns within the radius
-		if err := ws.sp.Row(g.rowLat[r], g.lon0, g.dLon, row, cLo, cHi); err != nil {
-			return err
-		}
-		if ws.sp.NoData > 0 {
-			noData.Store(true)
-		}
-		nc := 0
-		for c := range row {
-			if c < cLo || c >= cHi {
-				row[c] = CoverageNoData
-				continue
-			}
-			if e := g.east(r, c); e*e+north*north > r2 {
-				row[c] = CoverageNoData
-				continue
-			}
-			nc++
-		}
-		cells.Add(int64(nc))
-		return nil
 	})
 	if err != nil {
 		return err
 	}
+	var noData atomic.Bool
+	noData.Store(noDataGround)
 
 	// Each radial's own step: the DEM spacing in its direction (a row or a
 	// column crossed per sample, whichever comes first), never shorter
@@ -115,7 +87,6 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 			}
 		}
 	}
-	radPerRad := float64(nRad) / (2 * math.Pi)
 
 	// Pass 2: units of radials, then their cells.
 	var covered atomic.Int64
@@ -174,11 +145,8 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 				out[i] = float32(best)
 			}
 		}
-		// The unit's cells: within half a coarsest spacing before its first
-		// radial to half a spacing past its last (a cell rounds to the
-		// nearest radial of its level), a little more for rounding.
-		a1 := (float64(k0) - float64(unit)/2 - 1) / radPerRad
-		a2 := (float64(k0+unit) - 0.5 + 1) / radPerRad
+		// The unit's cells.
+		a1, a2 := g.unitAzimuths(k0, unit)
 		nv := 0
 		g.sectorRows(a1, a2, func(r, cLo, cHi int) {
 			north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
@@ -210,7 +178,7 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 	if err != nil {
 		return err
 	}
-	res.Cells, res.Covered = int(cells.Load()), int(covered.Load())
+	res.Cells, res.Covered = nCells, int(covered.Load())
 	res.SmoothEarth = noData.Load()
 	return nil
 }

@@ -335,8 +335,8 @@ func TestCoverageDeterministic(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if last[0] != res.Radials || last[1] != res.Radials {
-			t.Errorf("last progress %v, want (%d, %d)", last, res.Radials, res.Radials)
+		if want := res.Rows + res.Radials; last[0] != want || last[1] != want { // rows of ground, then radials
+			t.Errorf("last progress %v, want (%d, %d)", last, want, want)
 		}
 		maps[i] = res.Values
 	}
