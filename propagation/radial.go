@@ -84,6 +84,8 @@ type Radial struct {
 	rd, rh []float64 // upper hull of (d_i, h_i)
 
 	nuFrac float64 // smoothMaxima: where ν peaked last, as a fraction of the path (a search's first guess)
+
+	horizonPerRootM float64 // √(2 a_e/1000): eq. 21's horizon in km per √m of antenna height
 }
 
 // RadialNuWindow is the number of hull vertices on either side of the one
@@ -114,7 +116,8 @@ func NewRadial(prm Params, needLoss bool) (*Radial, error) {
 	if err != nil {
 		return nil, err
 	}
-	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp), fc: newFirstTermScale(rp)}
+	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp), fc: newFirstTermScale(rp),
+		horizonPerRootM: math.Sqrt(2 * rp.aeKM / 1000)}
 	w.Reset(0)
 	return w, nil
 }
@@ -547,17 +550,19 @@ func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
 	}
 	h1 = max(h1, 0)
 	h2 = max(h2, 0)
-	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
+	sh := math.Sqrt(h1) + math.Sqrt(h2)
+	if dKM >= w.horizonPerRootM*sh { // RadioHorizonKM (eq. 21)
 		return max(w.ft.loss(dKM, h1, h2), 0)
 	}
 	d := dKM * 1000
 	ae := rp.aeKM * 1000
-	c := (h1 - h2) / (h1 + h2)                 // eq. 22d
-	m := d * d / (4 * ae * (h1 + h2))          // eq. 22e
-	m1 := m + 1                                //
-	arg := 1.5 * c * math.Sqrt(3*m/(m1*m1*m1)) // argument of arccos in eq. 22c
+	c := (h1 - h2) / (h1 + h2)        // eq. 22d
+	m := d * d / (4 * ae * (h1 + h2)) // eq. 22e
+	m1 := m + 1                       //
+	q := math.Sqrt(3 * m / m1)        // √(3m/(m+1)): eq. 22c's two roots from one
+	arg := 1.5 * c * q / m1           // argument of arccos in eq. 22c, 1.5c√(3m/(m+1)³)
 	arg = max(-1, min(1, arg))
-	b := 2 * math.Sqrt(m1/(3*m)) * eq22cRoot(arg) // eq. 22c
+	b := 2 / q * eq22cRoot(arg) // eq. 22c, 2√((m+1)/(3m))·cos(π/3 + arccos(arg)/3)
 	b = max(-1, min(1, b))
 	d1 := d / 2 * (1 + b)                                  // eq. 22a
 	d2 := d - d1                                           // eq. 22b
@@ -567,8 +572,7 @@ func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
 	if h > hreq {
 		return 0
 	}
-	s := math.Sqrt(h1) + math.Sqrt(h2)
-	aem := 0.5 * (d / s) * (d / s) // eq. 24, metres
+	aem := 0.5 * (d / sh) * (d / sh) // eq. 24, metres
 	ft := w.fc.at(aem / 1000)
 	ah := ft.loss(dKM, h1, h2)
 	if ah < 0 {
