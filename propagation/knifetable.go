@@ -64,15 +64,15 @@ func bullingtonLossTab(stim, srim, nuMax, hts, hrs, d, wavelengthM float64) floa
 // every 1/perUnit from x0 to x1 and interpolates them by cubic Hermite
 // polynomials (exact at the nodes, with continuous first derivatives).
 type hermite2 struct {
-	x0, x1, perUnit float64
-	nodes           []hermiteNode
+	x0, x1, perUnit, h float64 // h = 1/perUnit
+	nodes              []hermiteNode
 }
 
 type hermiteNode struct{ f, df, g, dg float64 }
 
 func newHermite2(x0, x1, perUnit float64, fn func(x float64) (f, df, g, dg float64)) *hermite2 {
 	n := int(math.Round((x1-x0)*perUnit)) + 1
-	t := &hermite2{x0: x0, x1: x1, perUnit: perUnit, nodes: make([]hermiteNode, n)}
+	t := &hermite2{x0: x0, x1: x1, perUnit: perUnit, h: 1 / perUnit, nodes: make([]hermiteNode, n)}
 	for i := range t.nodes {
 		f, df, g, dg := fn(x0 + float64(i)/perUnit)
 		t.nodes[i] = hermiteNode{f, df, g, dg}
@@ -86,7 +86,7 @@ func (t *hermite2) at(x float64) (f, g float64) {
 	i := min(int(u), len(t.nodes)-2)
 	s := u - float64(i)
 	a, b := &t.nodes[i], &t.nodes[i+1]
-	h := 1 / t.perUnit
+	h := t.h
 	s2 := s * s
 	s3 := s2 * s
 	h00, h10, h01, h11 := 2*s3-3*s2+1, (s3-2*s2+s)*h, -2*s3+3*s2, (s3-s2)*h

@@ -86,6 +86,7 @@ type Radial struct {
 	nuFrac float64 // smoothMaxima: where ν peaked last, as a fraction of the path (a search's first guess)
 
 	horizonPerRootM float64 // √(2 a_e/1000): eq. 21's horizon in km per √m of antenna height
+	inv2aeM         float64 // 1/(2 a_e), a_e in metres
 }
 
 // RadialNuWindow is the number of hull vertices on either side of the one
@@ -117,7 +118,7 @@ func NewRadial(prm Params, needLoss bool) (*Radial, error) {
 		return nil, err
 	}
 	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp), fc: newFirstTermScale(rp),
-		horizonPerRootM: math.Sqrt(2 * rp.aeKM / 1000)}
+		horizonPerRootM: math.Sqrt(2 * rp.aeKM / 1000), inv2aeM: 1 / (2 * rp.aeKM * 1000)}
 	w.Reset(0)
 	return w, nil
 }
@@ -554,21 +555,25 @@ func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
 	if dKM >= w.horizonPerRootM*sh { // RadioHorizonKM (eq. 21)
 		return max(w.ft.loss(dKM, h1, h2), 0)
 	}
+	// In metres; four divisions (1/(h1+h2), 1/(m+1), 2/q, 1/d) serve the
+	// eight of eqs. 22–23.
 	d := dKM * 1000
-	ae := rp.aeKM * 1000
-	c := (h1 - h2) / (h1 + h2)        // eq. 22d
-	m := d * d / (4 * ae * (h1 + h2)) // eq. 22e
-	m1 := m + 1                       //
-	q := math.Sqrt(3 * m / m1)        // √(3m/(m+1)): eq. 22c's two roots from one
-	arg := 1.5 * c * q / m1           // argument of arccos in eq. 22c, 1.5c√(3m/(m+1)³)
+	inv2ae := w.inv2aeM
+	invHs := 1 / (h1 + h2)
+	c := (h1 - h2) * invHs            // eq. 22d
+	m := d * d * invHs * 0.5 * inv2ae // eq. 22e, d²/(4 a_e (h1 + h2))
+	invM1 := 1 / (m + 1)              //
+	q := math.Sqrt(3 * m * invM1)     // √(3m/(m+1)): eq. 22c's two roots from one
+	arg := 1.5 * c * q * invM1        // argument of arccos in eq. 22c, 1.5c√(3m/(m+1)³)
 	arg = max(-1, min(1, arg))
 	b := 2 / q * eq22cRoot(arg) // eq. 22c, 2√((m+1)/(3m))·cos(π/3 + arccos(arg)/3)
 	b = max(-1, min(1, b))
-	d1 := d / 2 * (1 + b)                                  // eq. 22a
-	d2 := d - d1                                           // eq. 22b
-	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d // eq. 22
+	invD := 1 / d
+	d1 := d / 2 * (1 + b)                                     // eq. 22a
+	d2 := d - d1                                              // eq. 22b
+	h := ((h1-d1*d1*inv2ae)*d2 + (h2-d2*d2*inv2ae)*d1) * invD // eq. 22
 	h = max(h, 0)
-	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d) // eq. 23
+	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM*invD) // eq. 23
 	if h > hreq {
 		return 0
 	}
