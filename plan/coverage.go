@@ -268,10 +268,11 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 			ws.sp = ts.NewSampler()
 		}
 		k0 := u * unit
-		g.unitCells(ws, k0, unit)
+		g.unitCells(ws, k0, unit, res.Values)
 		ws.walker.Reset(h0)
-		return g.walkTree(ws, k0, g.levels, func(k int) []int32 {
-			return ws.byRadial[ws.radStart[k-k0]:ws.radStart[k-k0+1]]
+		return g.walkTree(ws, k0, g.levels, func(k int) radialCells {
+			a, b := ws.radStart[k-k0], ws.radStart[k-k0+1]
+			return radialCells{ws.byRadial[a:b], ws.byRadialD[a:b], ws.byRadialH[a:b]}
 		}, &req, res.Values, covered, noData)
 	})
 	if err != nil {
@@ -479,23 +480,29 @@ func (g *coverageGrid) unitAzimuths(k0, unit int) (a1, a2 float64) {
 
 // unitCells gathers the cells within the radius that radials k0 …
 // k0+unit−1 answer (their nearest radial of their level, radialAt) into
-// ws.byRadial, grouped by radial in cell order: radial k0+o's are
-// ws.byRadial[ws.radStart[o]:ws.radStart[o+1]].
-func (g *coverageGrid) unitCells(ws *coverageWorker, k0, unit int) {
+// ws.byRadial, grouped by radial in cell order, with their distances (m,
+// ws.byRadialD) and ground heights (from values, ws.byRadialH; read here,
+// row by row, rather than cell by cell along the radials): radial k0+o's
+// are at [ws.radStart[o], ws.radStart[o+1]).
+func (g *coverageGrid) unitCells(ws *coverageWorker, k0, unit int, values []float32) {
 	r2 := g.radiusM * g.radiusM
-	ws.found, ws.foundOff = ws.found[:0], ws.foundOff[:0]
+	ws.found, ws.foundOff, ws.foundD, ws.foundH = ws.found[:0], ws.foundOff[:0], ws.foundD[:0], ws.foundH[:0]
 	a1, a2 := g.unitAzimuths(k0, unit)
 	g.sectorRows(a1, a2, func(r, cLo, cHi int) {
 		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+		ground := values[r*g.cols : (r+1)*g.cols]
 		for c := cLo; c < cHi; c++ {
 			e := g.east(r, c)
 			d2 := e*e + north*north
 			if d2 > r2 {
 				continue
 			}
-			if k := g.radialAt(e, north, math.Sqrt(d2)); k >= k0 && k < k0+unit {
+			d := math.Sqrt(d2)
+			if k := g.radialAt(e, north, d); k >= k0 && k < k0+unit {
 				ws.found = append(ws.found, int32(r*g.cols+c))
 				ws.foundOff = append(ws.foundOff, int32(k-k0))
+				ws.foundD = append(ws.foundD, d)
+				ws.foundH = append(ws.foundH, ground[c])
 			}
 		}
 	})
@@ -512,14 +519,17 @@ func (g *coverageGrid) unitCells(ws *coverageWorker, k0, unit int) {
 	}
 	if cap(ws.byRadial) < len(ws.found) {
 		ws.byRadial = make([]int32, len(ws.found))
+		ws.byRadialD = make([]float64, len(ws.found))
+		ws.byRadialH = make([]float32, len(ws.found))
 	}
-	ws.byRadial = ws.byRadial[:len(ws.found)]
+	ws.byRadial, ws.byRadialD, ws.byRadialH = ws.byRadial[:len(ws.found)], ws.byRadialD[:len(ws.found)], ws.byRadialH[:len(ws.found)]
 	if cap(ws.fill) < unit {
 		ws.fill = make([]int32, unit)
 	}
 	fill := append(ws.fill[:0], start[:unit]...)
 	for i, o := range ws.foundOff {
-		ws.byRadial[fill[o]] = ws.found[i]
+		j := fill[o]
+		ws.byRadial[j], ws.byRadialD[j], ws.byRadialH[j] = ws.found[i], ws.foundD[i], ws.foundH[i]
 		fill[o]++
 	}
 }
@@ -695,12 +705,23 @@ type coverageWorker struct {
 	sp               *terrain.Sampler
 	lats, lons, hgts []float64
 	count, order     []int32
-	dist             []float64 // of each cell of the radial, m
 	mOf              []int32   // samples before each cell of the radial
 	horizon          []float32 // coverageLOS: running maxima of a unit's radials
 	found, foundOff  []int32   // unitCells: cells found, their radial in the unit
+	foundD           []float64 // unitCells: their distances, m
+	foundH           []float32 // unitCells: their ground, m
 	byRadial         []int32   // unitCells: the unit's cells grouped by radial
+	byRadialD        []float64 // with their distances
+	byRadialH        []float32 // and ground heights
 	radStart, fill   []int32   // unitCells: where each radial's cells start
+}
+
+// radialCells are the cells one radial answers: their indices in the map,
+// distances from the site (m) and ground heights (m).
+type radialCells struct {
+	cells  []int32
+	dist   []float64
+	ground []float32
 }
 
 // walkTree answers the cells of radial k of level t and of the finer
@@ -712,7 +733,7 @@ type coverageWorker struct {
 // its own radial; so it takes k's samples up to there (a copy of k's
 // state, ws.snaps[c]) and samples only the rest. About a third fewer
 // samples than every radial at full length.
-func (g *coverageGrid) walkTree(ws *coverageWorker, k, t int, cellsOf func(int) []int32, req *CoverageRequest, values []float32, covered []int32, noData []bool) error {
+func (g *coverageGrid) walkTree(ws *coverageWorker, k, t int, cellsOf func(int) radialCells, req *CoverageRequest, values []float32, covered []int32, noData []bool) error {
 	c, nd, err := g.walk(ws, k, t, cellsOf(k), req, values)
 	if err != nil {
 		return err
@@ -733,7 +754,8 @@ func (g *coverageGrid) walkTree(ws *coverageWorker, k, t int, cellsOf func(int) 
 // the walker, answering each cell when its samples are in; on the way it
 // keeps the state where each finer level c < t branches off in ws.snaps[c].
 // It returns the cells covered and whether any sample had no elevation data.
-func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *CoverageRequest, values []float32) (covered int, noData bool, err error) {
+func (g *coverageGrid) walk(ws *coverageWorker, r, t int, rc radialCells, req *CoverageRequest, values []float32) (covered int, noData bool, err error) {
+	cells := rc.cells
 	n := g.samples
 	if cap(ws.lats) < n {
 		ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
@@ -758,15 +780,13 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 	clear(count)
 	if cap(ws.order) < len(cells) {
 		ws.order = make([]int32, len(cells))
-		ws.dist = make([]float64, len(cells))
 		ws.mOf = make([]int32, len(cells))
 	}
-	order, dist, mOf := ws.order[:len(cells)], ws.dist[:len(cells)], ws.mOf[:len(cells)]
-	for i, cell := range cells {
-		r := int(cell) / g.cols
-		d := g.distance(r, int(cell)-r*g.cols)
-		m := min(max(int(math.Ceil(d/g.stepM-0.5))-1, s-1), n-2)
-		dist[i], mOf[i] = d, int32(m)
+	order, mOf := ws.order[:len(cells)], ws.mOf[:len(cells)]
+	invStep := 1 / g.stepM
+	for i, d := range rc.dist {
+		m := min(max(int(math.Ceil(d*invStep-0.5))-1, s-1), n-2)
+		mOf[i] = int32(m)
 		count[m+1]++
 	}
 	for i := 1; i <= n; i++ {
@@ -789,8 +809,8 @@ func (g *coverageGrid) walk(ws *coverageWorker, r, t int, cells []int32, req *Co
 	for m := s - 1; m < n-1 && (next < len(order) || m <= last); m++ {
 		for ; next < len(order) && next < int(count[m]); next++ {
 			cell := cells[order[next]]
-			dM := dist[order[next]]
-			hc := float64(values[cell])   // the cell's ground, from fillGround
+			dM := rc.dist[order[next]]
+			hc := float64(rc.ground[order[next]])
 			dKM := math.Max(dM, 1) / 1000 // a cell at the site counts as 1 m away
 			val, ok := coverageValue(w.Loss(dKM, hc), req, patternDB)
 			values[cell] = float32(val)
