@@ -16,209 +16,169 @@ import (
 const losMaxLevels = 6
 
 // coverageLOS fills res.Values with line of sight (1 visible, 0 hidden,
-// CoverageNoData outside the radius) in two passes, neither of which
-// needs a list of cells per radial:
+// CoverageNoData outside the radius) without a list of cells per radial
+// and without a table of every radial:
 //
-//  1. Radials. Radial k is sampled every step along its geodesic and the
-//     running maximum of the slope (ITU-R P.526-16 eq. 49, tangent-plane
-//     frame; propagation.HorizonLOS) after each sample is stored, a float32
-//     per radial and sample, in 16 × 16 blocks (so that both passes read
-//     and write whole cache lines). Radials come in levels, as the cells
-//     they must reach: radial k with t trailing zero bits (t < levels) is
-//     needed only beyond R/2^(t+1), where the radials of the coarser levels
-//     stand more than a cell apart; it starts there, from the running
-//     maximum of the coarser radial k − 2^t beside it (at most half a cell
-//     away, as the cells are from their own radial), and samples only the
-//     rest. About a third of the samples of one full-length radial per
-//     azimuth step.
-//  2. Cells, row by row: the cell's distance and azimuth (mid-latitude
-//     plane, as for loss; the azimuth from a polynomial arctangent within
-//     2e−8 rad, a thousandth of the radial spacing), the level of its
-//     distance, the nearest radial of that level, the number m of samples
-//     more than half a step short of the cell, and eq. 50 against the
-//     stored maximum after m samples with the cell's own ground and
-//     distance.
+//  1. Ground. Row by row, every cell within the radius gets its own ground
+//     height (terrain.Sampler.Row), stored in the map until its answer
+//     replaces it; the cells are counted.
+//  2. Units of 2^levels neighbouring radials, on every core. Each radial of
+//     the unit is sampled along its geodesic at the DEM spacing in its own
+//     direction (coverageGrid.radialStep) and the running maximum of the
+//     slope (ITU-R P.526-16 eq. 49, tangent-plane frame;
+//     propagation.HorizonLOS) after each sample is kept, a float32 per
+//     sample in the worker's table of the unit (a few hundred kB, so it
+//     stays in cache). Radials come in levels, as the cells they must
+//     reach: radial k with t trailing zero bits (t < levels) is needed only
+//     beyond R/2^(t+1), where the coarser radials stand more than a cell
+//     apart; it starts there, from the running maximum of the coarser
+//     radial k − 2^t beside it (at most half a cell away, as the cells are
+//     from their own radial), and samples only the rest.
+//     Then the unit answers its cells: those of the wedge of azimuths it
+//     can serve (coverageGrid.sectorRows) whose nearest radial of their
+//     distance's level (coverageGrid.radialAt; the azimuth from a
+//     polynomial arctangent within 2e−8 rad) is one of the unit's: eq. 50
+//     against the running maximum after the m samples more than half a
+//     step short of the cell, with the cell's own ground and distance.
 //
-// Progress counts radials, then rows: total radials + rows.
+// Progress counts rows, then radials: total rows + radials.
 func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm propagation.Params, h0 float64, res *CoverageResult, progress func(done, total int)) error {
 	hl, err := propagation.NewHorizonLOS(prm, h0)
 	if err != nil {
 		return err
 	}
 	nRad, n := g.radials, g.samples
-	kb, mb := (nRad+15)/16, (n+15)/16
-	table := make([]float32, kb*mb*256)
-	at := func(k, m int) int { return ((m>>4)*kb+(k>>4))<<8 | (m&15)<<4 | (k & 15) }
-	stepKM := g.stepM / 1000
-	var noData atomic.Bool
-	total := nRad + g.rows
-	doneBefore := 0
-	prog := func(done, _ int) {
-		if progress != nil {
-			progress(doneBefore+done, total)
-		}
-	}
-
-	// Per-sample constants shared by every radial (they share the step):
-	// eq. 49's slope (h − bulge·d² − h_ts)/d as (h − c_m)·(1/d_m), one
-	// multiply instead of a division per sample.
-	sampC, sampInv := make([]float64, n), make([]float64, n)
-	for m := 1; m < n; m++ {
-		dm := float64(m) * stepKM
-		sampC[m] = hl.Bulge*dm*dm + hl.HtsM
-		sampInv[m] = 1 / dm
-	}
-
-	// Pass 1, level by level from the coarsest.
-	for t := g.levels; t >= 0; t-- {
-		// start: the first sample a radial of this level computes.
-		start := 1
-		if t < g.levels {
-			start = max(int(g.radiusM/float64(int(1)<<(t+1))/g.stepM)-2, 1)
-		}
-		stride := 1 << t
-		var ks []int // radials of this level, grouped by block of 16
-		for k := 0; k < nRad; k += stride {
-			if t == g.levels || bits.TrailingZeros(uint(k)) == t {
-				ks = append(ks, k)
-			}
-		}
-		per := max(1, 16/stride) // radials of the level in one block
-		jobs := (len(ks) + per - 1) / per
-		err := coverageParallel(ctx, jobs, prog, func(ws *coverageWorker, j int) error {
-			if ws.sp == nil {
-				ws.sp = ts.NewSampler()
-			}
-			cnt := n - start
-			if cap(ws.lats) < cnt {
-				ws.lats, ws.lons, ws.hgts = make([]float64, cnt), make([]float64, cnt), make([]float64, cnt)
-			}
-			lats, lons, hgts := ws.lats[:cnt], ws.lons[:cnt], ws.hgts[:cnt]
-			for _, k := range ks[j*per : min((j+1)*per, len(ks))] {
-				ws.sp.NoData = 0
-				azi := 360 * float64(k) / float64(nRad)
-				if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, azi, float64(start)*g.stepM, g.stepM, lats, lons, hgts); err != nil {
-					return err
-				}
-				if ws.sp.NoData > 0 {
-					noData.Store(true)
-				}
-				table[at(k, 0)] = float32(math.Inf(-1)) // no intermediate point yet
-				best := math.Inf(-1)
-				if t < g.levels {
-					best = float64(table[at(k-stride, start-1)])
-				}
-				base := at(k, 0)
-				cs, inv := sampC[start:start+len(hgts)], sampInv[start:start+len(hgts)]
-				for i, h := range hgts {
-					m := start + i
-					if v := (h - cs[i]) * inv[i]; v > best { // hl.Slope
-						best = v
-					}
-					table[base+(m>>4)*kb<<8|(m&15)<<4] = float32(best)
-				}
-			}
-			return nil
-		})
-		if err != nil {
-			return err
-		}
-		doneBefore += len(ks)
-	}
-
-	// Pass 2: the cells, row by row.
-	var cells, covered atomic.Int64
-	perRad := float64(nRad) / (2 * math.Pi)
-	invStep := 1 / g.stepM
+	total := g.rows + nRad
 	r2 := g.radiusM * g.radiusM
-	var thresholds [losMaxLevels + 1]float64 // R/2^(j+1): level j serves d in [R/2^(j+1), R/2^j)
-	for j := range thresholds {
-		thresholds[j] = g.radiusM / float64(int(1)<<(j+1))
+
+	// Pass 1: the cells' ground.
+	noDataGround, nCells, err := g.fillGround(ctx, ts, res.Values, func(done, _ int) {
+		if progress != nil {
+			progress(done, total)
+		}
+	})
+	if err != nil {
+		return err
 	}
-	err = coverageParallel(ctx, g.rows, prog, func(ws *coverageWorker, r int) error {
+	var noData atomic.Bool
+	noData.Store(noDataGround)
+
+	// Each radial's own step: the DEM spacing in its direction (a row or a
+	// column crossed per sample, whichever comes first), never shorter
+	// than g.stepM, so n samples cover every radial.
+	stepOf, invStepOf := make([]float64, nRad), make([]float64, nRad)
+	for k := range nRad {
+		stepOf[k] = g.radialStep(2 * math.Pi * float64(k) / float64(nRad))
+		invStepOf[k] = 1 / stepOf[k]
+	}
+	// eq. 49's slope (h − bulge·d_m² − h_ts)/d_m with d_m = m·s as
+	// (h − h_ts − bulge·s²·m²)·(1/s)·(1/m): m² and 1/m shared by every
+	// radial, a multiply instead of a division per sample.
+	sq, inv := make([]float64, n), make([]float64, n)
+	for m := 1; m < n; m++ {
+		sq[m], inv[m] = float64(m)*float64(m), 1/float64(m)
+	}
+	unit := 1 << g.levels
+	order := make([]int, 0, unit) // offsets within a unit, coarsest level first
+	for t := g.levels; t >= 0; t-- {
+		for o := range unit {
+			if (o == 0 && t == g.levels) || (o != 0 && bits.TrailingZeros(uint(o)) == t) {
+				order = append(order, o)
+			}
+		}
+	}
+
+	// Pass 2: units of radials, then their cells.
+	var covered atomic.Int64
+	err = coverageParallel(ctx, nRad/unit, func(done, _ int) {
+		if progress != nil {
+			progress(g.rows+done*unit, total)
+		}
+	}, func(ws *coverageWorker, u int) error {
 		if ws.sp == nil {
 			ws.sp = ts.NewSampler()
 		}
-		ws.sp.NoData = 0
-		row := res.Values[r*g.cols : (r+1)*g.cols]
-		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
-		eScale := g.rowE[r]
-		var nc, nv int64
-		// The columns within the radius: |e| ≤ √(R² − north²), a cell
-		// wider each side for rounding (the test below decides).
-		cLo, cHi := 0, len(row)
-		if rem := r2 - north*north; rem < 0 {
-			cHi = 0
-		} else if eScale > 0 {
-			half := math.Sqrt(rem)/eScale/g.dLon + 1
-			mid := (g.siteLon - g.lon0) / g.dLon
-			if mid >= -1 && mid <= float64(len(row)) { // no wrap of the antimeridian between
-				cLo = max(int(math.Floor(mid-half)), 0)
-				cHi = min(int(math.Ceil(mid+half))+1, len(row))
-			}
+		if cap(ws.lats) < n {
+			ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
 		}
-		cLo = min(cLo, cHi)
-		for c := range row[:cLo] {
-			row[c] = CoverageNoData
+		if len(ws.horizon) < unit*n {
+			ws.horizon = make([]float32, unit*n)
 		}
-		for c := cHi; c < len(row); c++ {
-			row[c] = CoverageNoData
-		}
-		for c := cLo; c < cHi; c++ {
-			lon := g.lon0 + float64(c)*g.dLon
-			dLon := lon - g.siteLon
-			if dLon > 180 {
-				dLon -= 360
-			} else if dLon < -180 {
-				dLon += 360
+		tab := ws.horizon[:unit*n]
+		k0 := u * unit
+		for _, o := range order {
+			k := k0 + o
+			t := g.levels
+			if o != 0 {
+				t = bits.TrailingZeros(uint(o))
 			}
-			e := dLon * eScale
-			d2 := e*e + north*north
-			if d2 > r2 {
-				row[c] = CoverageNoData
-				continue
-			}
-			nc++
-			d := math.Sqrt(d2)
-			j := 0
-			for j < g.levels && d < thresholds[j] {
-				j++
-			}
-			k := 0
-			if d > 0 {
-				p := azimuthRad(e, north) * perRad / float64(int(1)<<j)
-				k = int(math.Round(p)) << j
-				if k < 0 {
-					k += nRad
-				}
-				if k >= nRad {
-					k -= nRad
-				}
-			}
-			m := min(max(int(math.Ceil(d*invStep-0.5))-1, 0), n-2)
-			hc, err := ws.sp.Height(g.rowLat[r], normLonDeg(lon))
-			if err != nil {
+			nk, start := min(int(g.radiusM*invStepOf[k])+3, n), g.start(t, invStepOf[k])
+			lats, lons, hgts := ws.lats[:nk-start], ws.lons[:nk-start], ws.hgts[:nk-start]
+			ws.sp.NoData = 0
+			step := stepOf[k]
+			if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, 360*float64(k)/float64(nRad), float64(start)*step, step, lats, lons, hgts); err != nil {
 				return err
 			}
-			dKM := math.Max(d, 1) / 1000 // a cell at the site counts as 1 m away
-			if hl.Visible(float64(table[at(k, m)]), dKM, hc) {
-				row[c] = 1
-				nv++
-			} else {
-				row[c] = 0
+			if ws.sp.NoData > 0 {
+				noData.Store(true)
+			}
+			row := tab[o*n : (o+1)*n]
+			row[0] = float32(math.Inf(-1)) // no intermediate point yet
+			best := math.Inf(-1)
+			if t < g.levels {
+				// The parent's running maximum over its samples short of
+				// this radial's first one.
+				p := k - 1<<t
+				if jp := int(float64(start-1) * step * invStepOf[p]); jp > 0 {
+					best = float64(tab[(p-k0)*n+jp])
+				}
+			}
+			bs2 := hl.Bulge * step * step * 1e-6 // bulge·s², s in km
+			invS := 1000 / step
+			hts := hl.HtsM
+			out := row[start : start+len(hgts)]
+			sqs, invs := sq[start:start+len(hgts)], inv[start:start+len(hgts)]
+			for i, h := range hgts {
+				if v := (h - hts - bs2*sqs[i]) * invS * invs[i]; v > best { // hl.Slope
+					best = v
+				}
+				out[i] = float32(best)
 			}
 		}
-		cells.Add(nc)
-		covered.Add(nv)
-		if ws.sp.NoData > 0 {
-			noData.Store(true)
-		}
+		// The unit's cells.
+		a1, a2 := g.unitAzimuths(k0, unit)
+		nv := 0
+		g.sectorRows(a1, a2, func(r, cLo, cHi int) {
+			north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+			vals := res.Values[r*g.cols : (r+1)*g.cols]
+			for c := cLo; c < cHi; c++ {
+				e := g.east(r, c)
+				d2 := e*e + north*north
+				if d2 > r2 {
+					continue
+				}
+				d := math.Sqrt(d2)
+				k := g.radialAt(e, north, d)
+				if k < k0 || k >= k0+unit {
+					continue // another unit's
+				}
+				m := min(max(int(math.Ceil(d*invStepOf[k]-0.5))-1, 0), int(g.radiusM*invStepOf[k])+1)
+				dKM := max(d, 1) / 1000 // a cell at the site counts as 1 m away
+				if hl.Visible(float64(tab[(k-k0)*n+m]), dKM, float64(vals[c])) {
+					vals[c] = 1
+					nv++
+				} else {
+					vals[c] = 0
+				}
+			}
+		})
+		covered.Add(int64(nv))
 		return nil
 	})
 	if err != nil {
 		return err
 	}
-	res.Cells, res.Covered = int(cells.Load()), int(covered.Load())
+	res.Cells, res.Covered = nCells, int(covered.Load())
 	res.SmoothEarth = noData.Load()
 	return nil
 }

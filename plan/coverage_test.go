@@ -150,6 +150,9 @@ func TestCoverageLOSAgainstGDALViewshed(t *testing.T) {
 			continue
 		}
 		n++
+		if v != 0 && v != 1 {
+			t.Fatalf("cell %d: %v, want 0 or 1", i, v)
+		}
 		if v == 1 {
 			visible++
 		}
@@ -332,8 +335,8 @@ func TestCoverageDeterministic(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if last[0] != res.Radials || last[1] != res.Radials {
-			t.Errorf("last progress %v, want (%d, %d)", last, res.Radials, res.Radials)
+		if want := res.Rows + res.Radials; last[0] != want || last[1] != want { // rows of ground, then radials
+			t.Errorf("last progress %v, want (%d, %d)", last, want, want)
 		}
 		maps[i] = res.Values
 	}

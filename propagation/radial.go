@@ -1,9 +1,6 @@
 package propagation
 
-import (
-	"math"
-	"sort"
-)
+import "math"
 
 // Radial computes line of sight and delta-Bullington diffraction (ITU-R
 // P.526-16 §4.5) for many receivers along one radial from a transmitter,
@@ -85,6 +82,11 @@ type Radial struct {
 	smax   []float64 // highest y_i of each block of radialSuper points
 	cd, cy []float64 // upper hull of (d_i, y_i)
 	rd, rh []float64 // upper hull of (d_i, h_i)
+
+	nuFrac float64 // smoothMaxima: where ν peaked last, as a fraction of the path (a search's first guess)
+
+	horizonPerRootM float64 // √(2 a_e/1000): eq. 21's horizon in km per √m of antenna height
+	inv2aeM         float64 // 1/(2 a_e), a_e in metres
 }
 
 // RadialNuWindow is the number of hull vertices on either side of the one
@@ -115,7 +117,8 @@ func NewRadial(prm Params, needLoss bool) (*Radial, error) {
 	if err != nil {
 		return nil, err
 	}
-	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp), fc: newFirstTermScale(rp)}
+	w := &Radial{rp: rp, needLoss: needLoss, bulge: 500 / rp.aeKM, ft: newFirstTerm(rp.aeKM, rp), fc: newFirstTermScale(rp),
+		horizonPerRootM: math.Sqrt(2 * rp.aeKM / 1000), inv2aeM: 1 / (2 * rp.aeKM * 1000)}
 	w.Reset(0)
 	return w, nil
 }
@@ -134,6 +137,25 @@ func (w *Radial) Reset(siteGroundM float64) {
 	w.ys, w.bmax, w.smax = w.ys[:0], w.bmax[:0], w.smax[:0]
 	w.cd, w.cy = w.cd[:0], w.cy[:0]
 	w.rd, w.rh = w.rd[:0], w.rh[:0]
+	w.nuFrac = 0.5
+}
+
+// CopyFrom makes w the radial src is: the same parameters, transmitter and
+// points added (copied into w's own storage, so that both can go on
+// independently). A radial can so branch: the points added so far shared,
+// the next ones each its own.
+func (w *Radial) CopyFrom(src *Radial) {
+	dist, ys, bmax, smax := w.dist, w.ys, w.bmax, w.smax
+	cd, cy, rd, rh := w.cd, w.cy, w.rd, w.rh
+	*w = *src
+	w.dist = append(dist[:0], src.dist...)
+	w.ys = append(ys[:0], src.ys...)
+	w.bmax = append(bmax[:0], src.bmax...)
+	w.smax = append(smax[:0], src.smax...)
+	w.cd = append(cd[:0], src.cd...)
+	w.cy = append(cy[:0], src.cy...)
+	w.rd = append(rd[:0], src.rd...)
+	w.rh = append(rh[:0], src.rh...)
 }
 
 // Len returns the number of intermediate points added since Reset.
@@ -255,7 +277,7 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	rp := &w.rp
 	d := distKM
 	hts, hrs := w.hts, groundM+rp.rxM
-	fs := FreeSpaceLossWavelengthDB(d, rp.wavelengthM)
+	fs := 20 * log10Fast(4*math.Pi*d*1000/rp.wavelengthM) // FreeSpaceLossWavelengthDB
 	out := RadialLoss{FreeSpaceDB: fs}
 	if !(d > w.dp) {
 		// The receiver does not lie beyond the points: treat it as free space.
@@ -265,18 +287,17 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	bulge := w.bulge
 	str := (hrs - hts) / d
 	stim, srim, nuMax := math.Inf(-1), math.Inf(-1), math.Inf(-1)
-	edge := math.NaN()
 	if w.n > 0 {
 		stim = w.timMax + bulge*d // eq. 49
 		yr := hrs - bulge*d*d
 		if stim < str {
-			nuMax, edge = w.nuMax(d, yr)
+			nuMax, _ = w.nuMax(d, yr)
 		} else {
 			k := hullTangent(w.cd, w.cy, d, yr)
 			srim = (w.cy[k]-yr)/(d-w.cd[k]) - bulge*d // eq. 53
 		}
 	}
-	_, _, _, lba := bullingtonLoss(stim, srim, nuMax, edge, hts, hrs, d, rp.wavelengthM)
+	lba := bullingtonLossTab(stim, srim, nuMax, hts, hrs, d, rp.wavelengthM)
 	out.LineOfSight = !(stim >= str)
 
 	// Smooth surface (eqs. 58–63), the receiver's segment added.
@@ -297,8 +318,8 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 			hsrp -= hobs * aobr / (aobt + aobr)
 		}
 	}
-	hst := math.Min(hstp, w.h0)    // eq. 63
-	hsr := math.Min(hsrp, groundM) // eq. 63
+	hst := min(hstp, w.h0)         // eq. 63
+	hsr := min(hsrp, groundM)      // eq. 63
 	htsS, hrsS := hts-hst, hrs-hsr // eq. 64
 
 	// Smooth spherical earth (eq. 65); where it gives no loss, eq. 66 needs
@@ -308,9 +329,9 @@ func (w *Radial) Loss(distKM, groundM float64) RadialLoss {
 	if lsph > 0 {
 		// Bullington over the smooth profile (eq. 64) on the same distances.
 		st, sr, nu := w.smoothMaxima(d, htsS, hrsS)
-		_, _, _, lbs = bullingtonLoss(st, sr, nu, 0, htsS, hrsS, d, rp.wavelengthM)
+		lbs = bullingtonLossTab(st, sr, nu, htsS, hrsS, d, rp.wavelengthM)
 	}
-	out.ExcessDB = lba + math.Max(lsph-lbs, 0) // eq. 66
+	out.ExcessDB = lba + max(lsph-lbs, 0) // eq. 66
 	out.PathLossDB = fs + out.ExcessDB
 	return out
 }
@@ -380,38 +401,112 @@ func (w *Radial) nuMax(d, yr float64) (nu, atKM float64) {
 // faster. S_tim's bulge·(d − d_i) − h_ts/d_i is concave in d_i with its
 // peak at d_i = √(h_ts/bulge), and S_rim's bulge·d_i − h_rs/(d − d_i) at
 // d − d_i = √(h_rs/bulge), so each maximum over the points is at one of
-// the two points around the peak (a binary search over the distances,
-// no function evaluated on the way). ν_max (eq. 51) is needed only when
-// the smooth profile is line of sight (eq. 50) and is then searched as in
-// smoothProfileMaxima; otherwise it is returned as −∞.
+// the two points around the peak. ν_max (eq. 51) is needed only when the
+// smooth profile is line of sight (eq. 50); ν(x) = (bulge·u − h_ts −
+// slope·x)·√(kNu/u), u = x(d − x), rises then falls, and its derivative has
+// the sign of the polynomial H(x) = u′(bulge·u + h_ts + slope·x) − 2·slope·u
+// (u′ = d − 2x), so the first point where H ≤ 0 is the first past the
+// peak and the maximum over the points is there or at the point before.
+// Otherwise ν_max is returned as −∞.
+//
+// The three points are found by galloping searches (searchFrom) from a
+// guess: the index the peak would have if the points stood every
+// dist[1] km, as a coverage radial's do, and for ν the peak's fraction of
+// the path at the previous call. With evenly spaced points each search
+// costs a comparison or two instead of a binary search's ten mispredicted
+// branches; the answers are the binary search's whatever the spacing.
 func (w *Radial) smoothMaxima(d, hts, hrs float64) (stim, srim, nuMax float64) {
 	inf := math.Inf(-1)
 	pts := w.dist[1:] // the intermediate points
 	if len(pts) == 0 {
 		return inf, inf, inf
 	}
+	inv := 1 / pts[0] // points per km if evenly spaced
 	bulge := w.bulge
 	stim, srim, nuMax = inf, inf, inf
-	i := sort.SearchFloat64s(pts, math.Sqrt(hts/bulge))
+	x := math.Sqrt(hts / bulge)
+	i := searchFrom(len(pts), guessIndex(x, inv), func(j int) bool { return pts[j] >= x })
 	for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
 		di := pts[j]
-		stim = math.Max(stim, bulge*(d-di)-hts/di)
+		stim = max(stim, bulge*(d-di)-hts/di)
 	}
-	i = sort.SearchFloat64s(pts, d-math.Sqrt(hrs/bulge))
+	x = d - math.Sqrt(hrs/bulge)
+	i = searchFrom(len(pts), guessIndex(x, inv), func(j int) bool { return pts[j] >= x })
 	for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
 		di := pts[j]
-		srim = math.Max(srim, bulge*di-hrs/(d-di))
+		srim = max(srim, bulge*di-hrs/(d-di))
 	}
 	if stim < (hrs-hts)/d {
 		kNu := 0.002 * d / w.rp.wavelengthM
 		slope := (hrs - hts) / d
-		nuMax = maxUnimodal(0, len(pts)-1, func(i int) float64 {
-			di := pts[i]
-			ddi := d - di
-			return (bulge*di*ddi - hts - slope*di) * math.Sqrt(kNu/(di*ddi))
+		i = searchFrom(len(pts), guessIndex(w.nuFrac*d, inv), func(j int) bool {
+			x := pts[j]
+			u := x * (d - x)
+			return (d-2*x)*(bulge*u+hts+slope*x)-2*slope*u <= 0
 		})
+		for j := max(i-1, 0); j <= min(i, len(pts)-1); j++ {
+			di := pts[j]
+			ddi := d - di
+			if v := (bulge*di*ddi - hts - slope*di) * math.Sqrt(kNu/(di*ddi)); v > nuMax {
+				nuMax, w.nuFrac = v, di/d
+			}
+		}
 	}
 	return stim, srim, nuMax
+}
+
+// guessIndex returns the index of the first point at or beyond x km among
+// points every 1/inv km from 1/inv on, clamped to int's range.
+func guessIndex(x, inv float64) int {
+	g := math.Ceil(x*inv) - 1
+	if !(g > 0) {
+		return 0
+	}
+	return int(min(g, 1<<40))
+}
+
+// searchFrom returns the smallest i in [0, n) with ok(i) true (n if none),
+// for ok false then true along the indices (as sort.Search), galloping out
+// from the guess g: O(log |answer − g|) calls.
+func searchFrom(n, g int, ok func(int) bool) int {
+	g = min(max(g, 0), n)
+	lo, hi := 0, n // ok is false below lo and true from hi on
+	if g < n && !ok(g) {
+		lo = g + 1
+		for s := 1; ; s *= 2 {
+			p := g + s
+			if p >= n {
+				break
+			}
+			if ok(p) {
+				hi = p
+				break
+			}
+			lo = p + 1
+		}
+	} else {
+		hi = g
+		for s := 1; ; s *= 2 {
+			p := g - s
+			if p < 0 {
+				break
+			}
+			if !ok(p) {
+				lo = p + 1
+				break
+			}
+			hi = p
+		}
+	}
+	for lo < hi {
+		m := int(uint(lo+hi) >> 1)
+		if ok(m) {
+			hi = m
+		} else {
+			lo = m + 1
+		}
+	}
+	return lo
 }
 
 // firstTermScale holds the parts of eqs. 11a, 12a, 14a and 15a that do not
@@ -442,7 +537,7 @@ func (c *firstTermScale) at(aeKM float64) firstTerm {
 	k := c.kc * u
 	k2 := k * k
 	beta := (1 + 1.6*k2 + 0.67*k2*k2) / (1 + 4.5*k2 + 1.53*k2*k2) // eq. 16
-	return firstTerm{xPerKM: c.xc * beta * u * u, yb: c.yc * beta * beta * u, floor: 2 + 20*math.Log10(k)}
+	return firstTerm{xPerKM: c.xc * beta * u * u, yb: c.yc * beta * beta * u, floor: 2 + 20*log10Fast(k)}
 }
 
 // smoothEarthLoss is smoothEarthLossC (ITU-R P.526-16 §3.2, eqs. 22–25)
@@ -454,30 +549,35 @@ func (w *Radial) smoothEarthLoss(dKM, h1, h2 float64) float64 {
 	if !(dKM > 0) {
 		return 0
 	}
-	h1 = math.Max(h1, 0)
-	h2 = math.Max(h2, 0)
-	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
-		return math.Max(w.ft.loss(dKM, h1, h2), 0)
+	h1 = max(h1, 0)
+	h2 = max(h2, 0)
+	sh := math.Sqrt(h1) + math.Sqrt(h2)
+	if dKM >= w.horizonPerRootM*sh { // RadioHorizonKM (eq. 21)
+		return max(w.ft.loss(dKM, h1, h2), 0)
 	}
+	// In metres; four divisions (1/(h1+h2), 1/(m+1), 2/q, 1/d) serve the
+	// eight of eqs. 22–23.
 	d := dKM * 1000
-	ae := rp.aeKM * 1000
-	c := (h1 - h2) / (h1 + h2)                 // eq. 22d
-	m := d * d / (4 * ae * (h1 + h2))          // eq. 22e
-	m1 := m + 1                                //
-	arg := 1.5 * c * math.Sqrt(3*m/(m1*m1*m1)) // argument of arccos in eq. 22c
-	arg = math.Max(-1, math.Min(1, arg))
-	b := 2 * math.Sqrt(m1/(3*m)) * math.Cos(math.Pi/3+math.Acos(arg)/3) // eq. 22c
-	b = math.Max(-1, math.Min(1, b))
-	d1 := d / 2 * (1 + b)                                  // eq. 22a
-	d2 := d - d1                                           // eq. 22b
-	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d // eq. 22
-	h = math.Max(h, 0)
-	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d) // eq. 23
+	inv2ae := w.inv2aeM
+	invHs := 1 / (h1 + h2)
+	c := (h1 - h2) * invHs            // eq. 22d
+	m := d * d * invHs * 0.5 * inv2ae // eq. 22e, d²/(4 a_e (h1 + h2))
+	invM1 := 1 / (m + 1)              //
+	q := math.Sqrt(3 * m * invM1)     // √(3m/(m+1)): eq. 22c's two roots from one
+	arg := 1.5 * c * q * invM1        // argument of arccos in eq. 22c, 1.5c√(3m/(m+1)³)
+	arg = max(-1, min(1, arg))
+	b := 2 / q * eq22cRoot(arg) // eq. 22c, 2√((m+1)/(3m))·cos(π/3 + arccos(arg)/3)
+	b = max(-1, min(1, b))
+	invD := 1 / d
+	d1 := d / 2 * (1 + b)                                     // eq. 22a
+	d2 := d - d1                                              // eq. 22b
+	h := ((h1-d1*d1*inv2ae)*d2 + (h2-d2*d2*inv2ae)*d1) * invD // eq. 22
+	h = max(h, 0)
+	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM*invD) // eq. 23
 	if h > hreq {
 		return 0
 	}
-	s := math.Sqrt(h1) + math.Sqrt(h2)
-	aem := 0.5 * (d / s) * (d / s) // eq. 24, metres
+	aem := 0.5 * (d / sh) * (d / sh) // eq. 24, metres
 	ft := w.fc.at(aem / 1000)
 	ah := ft.loss(dKM, h1, h2)
 	if ah < 0 {

@@ -2,6 +2,7 @@ package propagation
 
 import (
 	"math"
+	"math/bits"
 	"math/rand/v2"
 	"sort"
 	"testing"
@@ -220,7 +221,8 @@ func TestHorizonLOSMatchesRadial(t *testing.T) {
 // give the same S_tim and S_rim (eqs. 49, 53 on the zero profile of
 // eq. 64) as the binary searches of smoothProfileMaxima, and the same ν_max
 // (eq. 51) wherever the smooth profile is line of sight, on random
-// distances, heights and path lengths.
+// distances (evenly spaced, and uneven so that the galloping searches start
+// from wrong guesses), heights and path lengths.
 func TestRadialSmoothMaxima(t *testing.T) {
 	rng := rand.New(rand.NewPCG(17, 4))
 	w, err := NewRadial(Params{FreqMHz: 146}, true)
@@ -232,10 +234,16 @@ func TestRadialSmoothMaxima(t *testing.T) {
 		w.Reset(0)
 		n := 1 + rng.IntN(400)
 		step := 0.01 + 0.1*rng.Float64()
+		x := 0.0
 		for i := 1; i <= n; i++ {
-			w.Add(float64(i)*step, 0)
+			if trial%2 == 0 {
+				x = float64(i) * step // evenly spaced, as a coverage radial
+			} else {
+				x += step * (0.05 + 2*rng.Float64()) // uneven: the searches' guesses are off
+			}
+			w.Add(x, 0)
 		}
-		d := (float64(n) + 0.5 + rng.Float64()) * step
+		d := x + (0.5+rng.Float64())*step
 		hts, hrs := 200*rng.Float64()*rng.Float64(), 50*rng.Float64()*rng.Float64()
 		if trial%7 == 0 {
 			hts = 0
@@ -292,4 +300,71 @@ func TestRadialSmoothEarthLoss(t *testing.T) {
 		t.Errorf("only %d paths within the horizon with a loss", within)
 	}
 	t.Logf("%d paths with a loss within the horizon; worst difference %.2g dB", within, worst)
+}
+
+// TestSearchFrom: the galloping search gives sort.Search's answer from any
+// guess, on any monotone predicate.
+func TestSearchFrom(t *testing.T) {
+	for n := range 40 {
+		for ans := 0; ans <= n; ans++ {
+			for g := -3; g <= n+3; g++ {
+				calls := 0
+				got := searchFrom(n, g, func(i int) bool {
+					calls++
+					if i < 0 || i >= n {
+						t.Fatalf("n %d: ok(%d) called out of range", n, i)
+					}
+					return i >= ans
+				})
+				if got != ans {
+					t.Fatalf("n %d, answer %d, guess %d: got %d", n, ans, g, got)
+				}
+				if calls > 2*bits.Len(uint(n))+2 {
+					t.Errorf("n %d, answer %d, guess %d: %d calls", n, ans, g, calls)
+				}
+			}
+		}
+	}
+}
+
+// TestRadialCopyFrom: a radial copied after some points and then fed the
+// same further points as the original answers exactly as the original,
+// and feeding the copy does not change the original.
+func TestRadialCopyFrom(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	a, err := NewRadial(Params{FreqMHz: 446, TxHeightM: 8, RxHeightM: 1.5}, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := NewRadial(Params{FreqMHz: 446, TxHeightM: 8, RxHeightM: 1.5}, true)
+	a.Reset(240)
+	h := func() float64 { return 200 + 150*rng.Float64() }
+	for i := 1; i <= 300; i++ {
+		a.Add(float64(i)*0.03, h())
+	}
+	b.CopyFrom(a)
+	before := a.Loss(9.2, 230)
+	for i := 301; i <= 320; i++ {
+		b.Add(float64(i)*0.03, 900) // a ridge only the copy sees
+	}
+	if got := a.Loss(9.2, 230); got != before || a.Len() != 300 {
+		t.Fatalf("feeding the copy changed the original: %+v, was %+v (%d points)", got, before, a.Len())
+	}
+	for i := 301; i <= 600; i++ {
+		x, y := float64(i)*0.03, h()
+		a.Add(x, y)
+		if i > 320 {
+			b.Add(x, y)
+		}
+	}
+	c, _ := NewRadial(Params{FreqMHz: 446, TxHeightM: 8, RxHeightM: 1.5}, true)
+	c.CopyFrom(a)
+	for _, d := range []float64{18.1, 18.5, 25} {
+		if x, y := a.Loss(d, 210), c.Loss(d, 210); x != y {
+			t.Errorf("%g km: copy %+v, original %+v", d, y, x)
+		}
+		if x, y := a.Loss(d, 210), b.Loss(d, 210); x == y {
+			t.Errorf("%g km: the ridge only the copy saw changed nothing (%+v)", d, x)
+		}
+	}
 }

@@ -33,14 +33,14 @@ func smoothEarthLossC(dKM, h1, h2 float64, rp params, ft *firstTerm) float64 {
 	if !(dKM > 0) {
 		return 0
 	}
-	h1 = math.Max(h1, 0)
-	h2 = math.Max(h2, 0)
+	h1 = max(h1, 0)
+	h2 = max(h2, 0)
 	if dKM >= RadioHorizonKM(h1, h2, rp.aeKM) {
 		// Very short paths between antennas on the surface give X so small
 		// that the first term predicts a field above free space; like
 		// eq. 25's negative A_h, that counts as no loss. In eq. 66 it makes
 		// no difference (max(L_sph − L_bs, 0) with L_bs ≥ 0).
-		return math.Max(ft.loss(dKM, h1, h2), 0)
+		return max(ft.loss(dKM, h1, h2), 0)
 	}
 	// Within the horizon: work in metres.
 	d := dKM * 1000
@@ -48,13 +48,13 @@ func smoothEarthLossC(dKM, h1, h2 float64, rp params, ft *firstTerm) float64 {
 	c := (h1 - h2) / (h1 + h2)                       // eq. 22d
 	m := d * d / (4 * ae * (h1 + h2))                // eq. 22e
 	arg := 1.5 * c * math.Sqrt(3*m/math.Pow(m+1, 3)) // argument of arccos in eq. 22c
-	arg = math.Max(-1, math.Min(1, arg))
+	arg = max(-1, min(1, arg))
 	b := 2 * math.Sqrt((m+1)/(3*m)) * math.Cos(math.Pi/3+math.Acos(arg)/3) // eq. 22c
-	b = math.Max(-1, math.Min(1, b))                                       // |b| ≤ 1; rounding can step past it when an antenna is on the surface
+	b = max(-1, min(1, b))                                                 // |b| ≤ 1; rounding can step past it when an antenna is on the surface
 	d1 := d / 2 * (1 + b)                                                  // eq. 22a
 	d2 := d - d1                                                           // eq. 22b
 	h := ((h1-d1*d1/(2*ae))*d2 + (h2-d2*d2/(2*ae))*d1) / d                 // eq. 22
-	h = math.Max(h, 0)                                                     // within the horizon the ray clears the surface
+	h = max(h, 0)                                                          // within the horizon the ray clears the surface
 	hreq := 0.552 * math.Sqrt(d1*d2*rp.wavelengthM/d)                      // eq. 23
 	if h > hreq {
 		return 0
@@ -111,10 +111,11 @@ func newFirstTerm(aeKM float64, rp params) firstTerm {
 func (c *firstTerm) loss(dKM, h1, h2 float64) float64 {
 	x := c.xPerKM * dKM
 	var fx float64 // eq. 17
+	lx := lnFast(x)
 	if x >= 1.6 {
-		fx = 11 + 10*math.Log10(x) - 17.6*x
+		fx = 11 + 10/math.Ln10*lx - 17.6*x
 	} else {
-		fx = -20*math.Log10(x) - 5.6488*math.Pow(x, 1.425)
+		fx = -20/math.Ln10*lx - 5.6488*math.Exp(1.425*lx) // x^1.425
 	}
 	return -(fx + heightGain(c.yb*h1, c.floor) + heightGain(c.yb*h2, c.floor))
 }
@@ -124,9 +125,9 @@ func (c *firstTerm) loss(dKM, h1, h2 float64) float64 {
 func heightGain(b, floor float64) float64 {
 	var g float64
 	if b > 2 {
-		g = 17.6*math.Sqrt(b-1.1) - 5*math.Log10(b-1.1) - 8
+		g = 17.6*math.Sqrt(b-1.1) - 5*log10Fast(b-1.1) - 8
 	} else {
-		g = 20 * math.Log10(b+0.1*b*b*b)
+		g = 20 * log10Fast(b+0.1*b*b*b)
 	}
 	if !(g >= floor) {
 		return floor

@@ -141,6 +141,25 @@ func (p *Sampler) RadialFrom(lat, lon, aziDeg, startM, stepM float64, lats, lons
 			lo -= 360
 			lons[i] = lo
 		}
+		// Inside the tile in use (HGT only): Height's bilinear, inline.
+		if t := p.cur; p.fast && t != nil && t.Rows >= 2 && t.Cols >= 2 {
+			y := (p.lat0 - la) * p.invDLat
+			x := (lo - p.lon0) * p.invDLon
+			if y >= 0 && y <= p.maxY && x >= 0 && x <= p.maxX {
+				r := min(int(y), t.Rows-2)
+				c := min(int(x), t.Cols-2)
+				fy, fx := y-float64(r), x-float64(c)
+				j := r*t.Cols + c
+				h := t.H[j : j+t.Cols+2 : j+t.Cols+2]
+				h00, h01 := float64(h[0]), float64(h[1])
+				h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
+				top := h00 + fx*(h01-h00)
+				if v := top + fy*(h10+fx*(h11-h10)-top); v == v {
+					heights[i] = v
+					continue
+				}
+			}
+		}
 		h, err := p.Height(la, lo)
 		if err != nil {
 			return err
@@ -172,4 +191,55 @@ func (s *Set) GridAt(lat, lon float64) (g Grid, ok bool) {
 		return Grid{}, false
 	}
 	return Grid{DLatDeg: src.dLatDeg, DLonDeg: src.dLonDeg, Lat0: src.north, Lon0: src.west, Source: src.name}, true
+}
+
+// Row fills out[c], for lo ≤ c < hi, with the ground height in metres at
+// latitude lat and longitude lon0 + c·dLon (degrees; brought into
+// [−180, 180)), as Height would one point at a time (bilinear
+// interpolation, 0 m and NoData counted where there is no data), stored as
+// float32. Along a row of a tile in use it keeps the tile row and the
+// row weight, so a point costs one multiply-add for its column and four
+// loads. Errors: a file that cannot be read.
+func (p *Sampler) Row(lat, lon0, dLon float64, out []float32, lo, hi int) error {
+	for c := lo; c < hi; {
+		h, err := p.Height(lat, normLon(lon0+float64(c)*dLon))
+		if err != nil {
+			return err
+		}
+		out[c] = float32(h)
+		c++
+		t := p.cur
+		if !p.fast || t == nil || t.Rows < 2 || t.Cols < 2 {
+			continue
+		}
+		y := (p.lat0 - lat) * p.invDLat
+		if !(y >= 0 && y <= p.maxY) {
+			continue
+		}
+		r := min(int(y), t.Rows-2)
+		fy := y - float64(r)
+		top := t.H[r*t.Cols : (r+1)*t.Cols]
+		bot := t.H[(r+1)*t.Cols : (r+2)*t.Cols]
+		for ; c < hi; c++ {
+			x := (normLon(lon0+float64(c)*dLon) - p.lon0) * p.invDLon
+			if !(x >= 0 && x <= p.maxX) {
+				break
+			}
+			j := min(int(x), t.Cols-2)
+			fx := x - float64(j)
+			h00, h01 := float64(top[j]), float64(top[j+1])
+			h10, h11 := float64(bot[j]), float64(bot[j+1])
+			tp := h00 + fx*(h01-h00)
+			bt := h10 + fx*(h11-h10)
+			v := tp + fy*(bt-tp)
+			if v != v {
+				if v = voidMean(h00, h01, h10, h11); v != v {
+					p.NoData++
+					v = 0
+				}
+			}
+			out[c] = float32(v)
+		}
+	}
+	return nil
 }

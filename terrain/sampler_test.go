@@ -84,3 +84,52 @@ func TestSamplerRadial(t *testing.T) {
 		t.Error("negative start accepted")
 	}
 }
+
+// TestSamplerRow: Row gives, cell for cell, what Height gives (as float32)
+// along rows of a 2×2 mosaic of 3″ tiles with voids, across its seams, on
+// and off the sample grid, and past its edge (no data: 0 m, counted).
+func TestSamplerRow(t *testing.T) {
+	dir := htMosaic(t)
+	set, err := Open(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name            string
+		lat, lon0, dLon float64
+		n               int
+	}{
+		{"on the grid across the seam", 46.0 + 1.0/1200*7, 7.5, 1.0 / 1200, 1300},
+		{"on the seam row", 46.0, 7.9, 1.0 / 1200, 400},
+		{"off the grid", 45.77777, 7.41234, 0.00071, 1700},
+		{"past the east edge", 46.3, 8.9, 1.0 / 1200, 300},
+		{"from no data into the mosaic", 45.6, 6.9, 1.0 / 3600, 2000},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			ref, row := set.NewSampler(), set.NewSampler()
+			out := make([]float32, tc.n)
+			lo, hi := 3, tc.n-5
+			if err := row.Row(tc.lat, tc.lon0, tc.dLon, out, lo, hi); err != nil {
+				t.Fatal(err)
+			}
+			for c := range out {
+				if c < lo || c >= hi {
+					if out[c] != 0 {
+						t.Errorf("column %d outside [%d, %d) written: %v", c, lo, hi, out[c])
+					}
+					continue
+				}
+				want, err := ref.Height(tc.lat, normLon(tc.lon0+float64(c)*tc.dLon))
+				if err != nil {
+					t.Fatal(err)
+				}
+				if out[c] != float32(want) {
+					t.Fatalf("column %d: Row %v m, Height %v m", c, out[c], want)
+				}
+			}
+			if row.NoData != ref.NoData {
+				t.Errorf("NoData %d, Height's %d", row.NoData, ref.NoData)
+			}
+		})
+	}
+}

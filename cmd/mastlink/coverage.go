@@ -633,7 +633,7 @@ func coverageCompute(ctx context.Context, g *globals, ts *terrain.Set, m propaga
 		res, err = env.CoverageCells(ctx, *req, bar.update)
 		bar.done()
 	} else {
-		bar := newProgress(g, what+"radials")
+		bar := newProgress(g, what+"ground rows, then radials")
 		res, err = plan.CoverageMap(ctx, ts, *req, bar.update)
 		bar.done()
 	}

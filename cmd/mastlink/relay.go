@@ -197,7 +197,7 @@ func runRelay(ctx context.Context, g *globals, o *relayOptions, args []string) e
 			return fmt.Errorf("%s: roads: %w", o.planFile, err)
 		}
 	}
-	bar := newProgress(g, "radials")
+	bar := newProgress(g, "coverage maps (thousandths)")
 	res, err := env.FindRelay(ctx, req, bar.update)
 	bar.done()
 	if err != nil {
