@@ -316,9 +316,7 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 					hs := g.h[o : o+cols+2 : o+cols+2]
 					z00, z01 := float64(hs[0]), float64(hs[1])
 					z10, z11 := float64(hs[cols]), float64(hs[cols+1])
-					top := z00 + fx*(z01-z00)
-					bottom := z10 + fx*(z11-z10)
-					v := top + fy*(bottom-top)
+					v := bilinear(z00, z01, z10, z11, fy, fx)
 					if v != v {
 						if v = voidMean(z00, z01, z10, z11); v != v {
 							v = 0
@@ -427,9 +425,7 @@ func (g *gridCursor) at(y, x float64) float64 {
 	h := g.h[i : i+g.cols+2 : i+g.cols+2] // one bounds check for the four samples
 	h00, h01 := float64(h[0]), float64(h[1])
 	h10, h11 := float64(h[g.cols]), float64(h[g.cols+1])
-	top := h00 + fx*(h01-h00)
-	bottom := h10 + fx*(h11-h10)
-	if v := top + fy*(bottom-top); v == v {
+	if v := bilinear(h00, h01, h10, h11, fy, fx); v == v {
 		return v
 	}
 	return voidMean(h00, h01, h10, h11)

@@ -99,9 +99,7 @@ func (p *Sampler) at(y, x float64) float64 {
 	h := t.H[i : i+t.Cols+2 : i+t.Cols+2]
 	h00, h01 := float64(h[0]), float64(h[1])
 	h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
-	top := h00 + fx*(h01-h00)
-	bottom := h10 + fx*(h11-h10)
-	if v := top + fy*(bottom-top); v == v {
+	if v := bilinear(h00, h01, h10, h11, fy, fx); v == v {
 		return v
 	}
 	if v := voidMean(h00, h01, h10, h11); v == v {
@@ -153,8 +151,7 @@ func (p *Sampler) RadialFrom(lat, lon, aziDeg, startM, stepM float64, lats, lons
 				h := t.H[j : j+t.Cols+2 : j+t.Cols+2]
 				h00, h01 := float64(h[0]), float64(h[1])
 				h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
-				top := h00 + fx*(h01-h00)
-				if v := top + fy*(h10+fx*(h11-h10)-top); v == v {
+				if v := bilinear(h00, h01, h10, h11, fy, fx); v == v {
 					heights[i] = v
 					continue
 				}
@@ -229,9 +226,7 @@ func (p *Sampler) Row(lat, lon0, dLon float64, out []float32, lo, hi int) error 
 			fx := x - float64(j)
 			h00, h01 := float64(top[j]), float64(top[j+1])
 			h10, h11 := float64(bot[j]), float64(bot[j+1])
-			tp := h00 + fx*(h01-h00)
-			bt := h10 + fx*(h11-h10)
-			v := tp + fy*(bt-tp)
+			v := bilinear(h00, h01, h10, h11, fy, fx)
 			if v != v {
 				if v = voidMean(h00, h01, h10, h11); v != v {
 					p.NoData++

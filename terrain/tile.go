@@ -84,12 +84,19 @@ func (t *Tile) At(lat, lon float64) float64 {
 	h := t.H[i : i+t.Cols+2 : i+t.Cols+2] // one bounds check for the four samples
 	h00, h01 := float64(h[0]), float64(h[1])
 	h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
-	top := h00 + fx*(h01-h00)
-	bottom := h10 + fx*(h11-h10)
-	if v := top + fy*(bottom-top); v == v {
+	if v := bilinear(h00, h01, h10, h11, fy, fx); v == v {
 		return v
 	}
 	return voidMean(h00, h01, h10, h11)
+}
+
+// bilinear interpolates between four samples, z00 north-west, z01
+// north-east, z10 south-west and z11 south-east, at fractions fy south and
+// fx east of z00 (common practice): NaN when any of them is a void. Every
+// height the package reads goes through it, so all agree to the bit.
+func bilinear(z00, z01, z10, z11, fy, fx float64) float64 {
+	top := z00 + fx*(z01-z00)
+	return top + fy*(z10+fx*(z11-z10)-top)
 }
 
 // voidMean returns the mean of the valid (non-NaN) values among four, NaN
