@@ -268,7 +268,7 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 			ws.sp = ts.NewSampler()
 		}
 		k0 := u * unit
-		g.unitCells(ws, k0, unit, res.Values)
+		g.unitCells(ws, k0, unit, res.Values, true)
 		ws.walker.Reset(h0)
 		return g.walkTree(ws, k0, g.levels, func(k int) radialCells {
 			a, b := ws.radStart[k-k0], ws.radStart[k-k0+1]
@@ -469,43 +469,58 @@ func (g *coverageGrid) fillGround(ctx context.Context, ts *terrain.Set, values [
 	return nd.Load(), int(nCells.Load()), err
 }
 
-// unitAzimuths returns the wedge of azimuths (radians) holding every cell
-// that radials k0 … k0+unit−1 may answer: half a coarsest spacing before
-// the first (a cell rounds to the nearest radial of its level) to half a
-// spacing past the last, a radial spacing more each side for rounding.
-func (g *coverageGrid) unitAzimuths(k0, unit int) (a1, a2 float64) {
-	per := float64(g.radials) / (2 * math.Pi)
-	return (float64(k0) - float64(unit)/2 - 1) / per, (float64(k0+unit) - 0.5 + 1) / per
-}
-
 // unitCells gathers the cells within the radius that radials k0 …
-// k0+unit−1 answer (their nearest radial of their level, radialAt) into
-// ws.byRadial, grouped by radial in cell order, with their distances (m,
-// ws.byRadialD) and ground heights (from values, ws.byRadialH; read here,
-// row by row, rather than cell by cell along the radials): radial k0+o's
-// are at [ws.radStart[o], ws.radStart[o+1]).
-func (g *coverageGrid) unitCells(ws *coverageWorker, k0, unit int, values []float32) {
+// k0+unit−1 answer (the nearest radial of their distance's level) into
+// ws.found, in row order, with the unit's radial of each (ws.foundOff,
+// 0 … unit−1), its distance (m, ws.foundD) and its ground height (from
+// values, ws.foundH). It scans level band by level band: the cells at
+// level j round to every 2^j-th radial, so those of the unit lie in the
+// wedge from half a spacing 2^j before its first radial to half a spacing
+// 2^j before the next unit's, within the band's annulus (sectorRows); a
+// radial spacing more each side covers rounding. With group, it also
+// sorts them by radial (counting sort, row order kept within a radial)
+// into ws.byRadial, ws.byRadialD and ws.byRadialH: radial k0+o's are at
+// [ws.radStart[o], ws.radStart[o+1]).
+func (g *coverageGrid) unitCells(ws *coverageWorker, k0, unit int, values []float32, group bool) {
 	r2 := g.radiusM * g.radiusM
+	per := float64(g.radials) / (2 * math.Pi)
 	ws.found, ws.foundOff, ws.foundD, ws.foundH = ws.found[:0], ws.foundOff[:0], ws.foundD[:0], ws.foundH[:0]
-	a1, a2 := g.unitAzimuths(k0, unit)
-	g.sectorRows(a1, a2, func(r, cLo, cHi int) {
-		north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
-		ground := values[r*g.cols : (r+1)*g.cols]
-		for c := cLo; c < cHi; c++ {
-			e := g.east(r, c)
-			d2 := e*e + north*north
-			if d2 > r2 {
-				continue
-			}
-			d := math.Sqrt(d2)
-			if k := g.radialAt(e, north, d); k >= k0 && k < k0+unit {
-				ws.found = append(ws.found, int32(r*g.cols+c))
-				ws.foundOff = append(ws.foundOff, int32(k-k0))
-				ws.foundD = append(ws.foundD, d)
-				ws.foundH = append(ws.foundH, ground[c])
-			}
+	for j := 0; j <= g.levels; j++ {
+		dLo, dHi := 0.0, g.radiusM
+		if j < g.levels {
+			dLo = g.thresholds[j]
 		}
-	})
+		if j > 0 {
+			dHi = g.thresholds[j-1]
+		}
+		half := float64(int(1)<<j) / 2
+		a1 := (float64(k0) - half - 1) / per
+		a2 := (float64(k0+unit) - half + 1) / per
+		g.sectorRows(a1, a2, dLo, dHi, func(r, cLo, cHi int) {
+			north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
+			ground := values[r*g.cols : (r+1)*g.cols]
+			for c := cLo; c < cHi; c++ {
+				e := g.east(r, c)
+				d2 := e*e + north*north
+				if d2 > r2 {
+					continue
+				}
+				d := math.Sqrt(d2)
+				if g.level(d) != j {
+					continue // another band's
+				}
+				if k := g.radialAtLevel(e, north, d, j); k >= k0 && k < k0+unit {
+					ws.found = append(ws.found, int32(r*g.cols+c))
+					ws.foundOff = append(ws.foundOff, int32(k-k0))
+					ws.foundD = append(ws.foundD, d)
+					ws.foundH = append(ws.foundH, ground[c])
+				}
+			}
+		})
+	}
+	if !group {
+		return
+	}
 	if cap(ws.radStart) < unit+1 {
 		ws.radStart = make([]int32, unit+1)
 	}
@@ -554,10 +569,14 @@ func (g *coverageGrid) radialOf(e, n float64) int {
 
 // radialAt is radialOf for a cell whose distance dM is known.
 func (g *coverageGrid) radialAt(e, n, dM float64) int {
+	return g.radialAtLevel(e, n, dM, g.level(dM))
+}
+
+// radialAtLevel is radialAt for a cell whose level j is known.
+func (g *coverageGrid) radialAtLevel(e, n, dM float64, j int) int {
 	if dM == 0 {
 		return 0
 	}
-	j := g.level(dM)
 	p := azimuthRad(e, n) * float64(g.radials) / (2 * math.Pi) / float64(int(1)<<j)
 	k := int(math.Round(p)) << j
 	if k < 0 {
@@ -609,16 +628,18 @@ func (g *coverageGrid) east(r, c int) float64 {
 }
 
 // sectorRows calls fn(r, cLo, cHi) for the rows of the grid and, in each,
-// the columns [cLo, cHi) that hold every cell centre within the radius
-// whose azimuth (radians clockwise from north, as azimuthRad; a1 < a2,
-// a2 − a1 < π/2) lies between a1 and a2, with a cell of slack each side;
-// the caller tests each cell. The wedge is bounded by a convex polygon —
-// the site and three points on its rays and bisector at R/cos((a2 − a1)/4),
-// so that its edges pass outside the arc — cut by each row's line. A wider
-// wedge, or a grid that wraps the antimeridian near the site, gets the
-// whole of every row within the radius.
-func (g *coverageGrid) sectorRows(a1, a2 float64, fn func(r, cLo, cHi int)) {
-	r2 := g.radiusM * g.radiusM
+// the columns [cLo, cHi) that hold every cell centre at distances from dLo
+// to dHi metres (dHi at most the radius) whose azimuth (radians clockwise
+// from north, as azimuthRad; a1 < a2, a2 − a1 < π/2) lies between a1 and
+// a2, with a cell of slack each side; the caller tests each cell. The
+// annular sector is bounded by a convex polygon — two points on its rays
+// at dLo (the chord between them passes inside the inner arc; the site
+// itself when dLo is 0) and three on its rays and bisector at
+// dHi/cos((a2 − a1)/4), so that its edges pass outside the outer arc — cut
+// by each row's line. A wider wedge, or a grid that wraps the antimeridian
+// near the site, gets the whole of every row within dHi.
+func (g *coverageGrid) sectorRows(a1, a2, dLo, dHi float64, fn func(r, cLo, cHi int)) {
+	r2 := dHi * dHi
 	if !(a2-a1 < math.Pi/2) {
 		for r := range g.rows {
 			north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
@@ -628,12 +649,14 @@ func (g *coverageGrid) sectorRows(a1, a2 float64, fn func(r, cLo, cHi int)) {
 		}
 		return
 	}
-	rr := g.radiusM / math.Cos((a2-a1)/4)
-	var pe, pn [4]float64 // the polygon: site, ray a1, bisector, ray a2
-	for i, a := range [3]float64{a1, (a1 + a2) / 2, a2} {
-		sin, cos := math.Sincos(a)
-		pe[i+1], pn[i+1] = rr*sin, rr*cos
-	}
+	rr := dHi / math.Cos((a2-a1)/4)
+	s1, c1 := math.Sincos(a1)
+	sm, cm := math.Sincos((a1 + a2) / 2)
+	s2, c2 := math.Sincos(a2)
+	// The polygon, in order: inner a1, outer a1, outer bisector, outer a2,
+	// inner a2 (the two inner points are the site when dLo is 0).
+	pe := [5]float64{dLo * s1, rr * s1, rr * sm, rr * s2, dLo * s2}
+	pn := [5]float64{dLo * c1, rr * c1, rr * cm, rr * c2, dLo * c2}
 	nLo, nHi := math.Inf(1), math.Inf(-1)
 	for i := range pn {
 		nLo, nHi = min(nLo, pn[i]), max(nHi, pn[i])
@@ -657,12 +680,11 @@ func (g *coverageGrid) sectorRows(a1, a2 float64, fn func(r, cLo, cHi int)) {
 				if (pn[i]-y)*(pn[j]-y) > 0 || pn[i] == pn[j] && pn[i] != y {
 					continue
 				}
-				var e float64
 				if pn[i] == pn[j] {
 					eLo, eHi = min(eLo, pe[i], pe[j]), max(eHi, pe[i], pe[j])
 					continue
 				}
-				e = pe[i] + (y-pn[i])*(pe[j]-pe[i])/(pn[j]-pn[i])
+				e := pe[i] + (y-pn[i])*(pe[j]-pe[i])/(pn[j]-pn[i])
 				eLo, eHi = min(eLo, e), max(eHi, e)
 			}
 			if eLo > eHi {

@@ -49,7 +49,6 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 	}
 	nRad, n := g.radials, g.samples
 	total := g.rows + nRad
-	r2 := g.radiusM * g.radiusM
 
 	// Pass 1: the cells' ground.
 	noDataGround, nCells, err := g.fillGround(ctx, ts, res.Values, func(done, _ int) {
@@ -146,32 +145,20 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 			}
 		}
 		// The unit's cells.
-		a1, a2 := g.unitAzimuths(k0, unit)
+		g.unitCells(ws, k0, unit, res.Values, false)
 		nv := 0
-		g.sectorRows(a1, a2, func(r, cLo, cHi int) {
-			north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
-			vals := res.Values[r*g.cols : (r+1)*g.cols]
-			for c := cLo; c < cHi; c++ {
-				e := g.east(r, c)
-				d2 := e*e + north*north
-				if d2 > r2 {
-					continue
-				}
-				d := math.Sqrt(d2)
-				k := g.radialAt(e, north, d)
-				if k < k0 || k >= k0+unit {
-					continue // another unit's
-				}
-				m := min(max(int(math.Ceil(d*invStepOf[k]-0.5))-1, 0), int(g.radiusM*invStepOf[k])+1)
-				dKM := max(d, 1) / 1000 // a cell at the site counts as 1 m away
-				if hl.Visible(float64(tab[(k-k0)*n+m]), dKM, float64(vals[c])) {
-					vals[c] = 1
-					nv++
-				} else {
-					vals[c] = 0
-				}
+		for i, cell := range ws.found {
+			o, d := int(ws.foundOff[i]), ws.foundD[i]
+			inv := invStepOf[k0+o]
+			m := min(max(int(math.Ceil(d*inv-0.5))-1, 0), int(g.radiusM*inv)+1)
+			dKM := max(d, 1) / 1000 // a cell at the site counts as 1 m away
+			if hl.Visible(float64(tab[o*n+m]), dKM, float64(ws.foundH[i])) {
+				res.Values[cell] = 1
+				nv++
+			} else {
+				res.Values[cell] = 0
 			}
-		})
+		}
 		covered.Add(int64(nv))
 		return nil
 	})

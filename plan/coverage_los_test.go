@@ -33,9 +33,9 @@ func TestAzimuthRad(t *testing.T) {
 }
 
 // TestSectorRowsCoverEveryCell: for wedges of every width the units use
-// and wider (the whole-row fallback), on grids at the equator, at 60°N, at
-// 45°S across the antimeridian and with a coarse resolution, every cell
-// centre within the radius whose azimuth lies in the wedge falls inside the
+// and wider (the whole-row fallback), whole and cut to annuli, on grids at
+// the equator, at 60°N, at 45°S across the antimeridian and with a coarse
+// resolution, every cell centre in the annular sector falls inside the
 // column interval sectorRows gives for its row, and rows are visited once.
 func TestSectorRowsCoverEveryCell(t *testing.T) {
 	ts, err := terrain.Open()
@@ -59,12 +59,13 @@ func TestSectorRowsCoverEveryCell(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			r2 := g.radiusM * g.radiusM
-			for _, w := range []struct{ a1, a2 float64 }{
-				{-0.05, 0.08}, {0.7, 0.79}, {1.5, 1.62}, {3.1, 3.2}, {-1.6, -1.5}, {2.9, 3.3}, {-3.3, -3.0}, {0.2, 1.7}, {-2, 1},
+			for _, w := range []struct{ a1, a2, lo, hi float64 }{
+				{-0.05, 0.08, 0, 1}, {0.7, 0.79, 0, 1}, {1.5, 1.62, 0.5, 1}, {3.1, 3.2, 0.25, 0.5}, {-1.6, -1.5, 0, 0.125},
+				{2.9, 3.3, 0.1, 0.9}, {-3.3, -3.0, 0, 1}, {0.2, 1.7, 0, 1}, {-2, 1, 0.5, 1},
 			} {
+				dLo, dHi := w.lo*g.radiusM, w.hi*g.radiusM
 				seen := map[int][2]int{}
-				g.sectorRows(w.a1, w.a2, func(r, lo, hi int) {
+				g.sectorRows(w.a1, w.a2, dLo, dHi, func(r, lo, hi int) {
 					if _, dup := seen[r]; dup {
 						t.Fatalf("wedge %v: row %d visited twice", w, r)
 					}
@@ -75,7 +76,7 @@ func TestSectorRowsCoverEveryCell(t *testing.T) {
 					north := (g.rowLat[r] - g.siteLat) * g.rowN[r]
 					for c := range g.cols {
 						e := g.east(r, c)
-						if e*e+north*north > r2 {
+						if d := math.Hypot(e, north); d > dHi || d < dLo {
 							continue
 						}
 						a := azimuthRad(e, north)
