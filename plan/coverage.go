@@ -145,6 +145,7 @@ type coverageGrid struct {
 	levels       int       // radial levels below the full set (see walkTree, coverageLOS)
 	shift        int       // a level-t radial starts at R/2^(t+shift)
 	thresholds   []float64 // R/2^(j+shift), m: level j serves distances from there out
+	perLevel     []float64 // radials of level j and coarser per radian of azimuth
 }
 
 // CoverageMap computes a coverage map around req.Site over the elevation
@@ -380,8 +381,10 @@ func coverageGeometry(ts *terrain.Set, lat, lon float64, req CoverageRequest, re
 		g.shift = 1
 	}
 	g.thresholds = make([]float64, g.levels+1)
+	g.perLevel = make([]float64, g.levels+1)
 	for j := range g.thresholds {
 		g.thresholds[j] = req.RadiusM / float64(int(1)<<(j+g.shift))
+		g.perLevel[j] = float64(g.radials) / (2 * math.Pi) / float64(int(1)<<j)
 	}
 	g.samples = int(req.RadiusM/g.stepM) + 3
 	res.Radials, res.StepM = g.radials, g.stepM
@@ -577,11 +580,13 @@ func (g *coverageGrid) radialAtLevel(e, n, dM float64, j int) int {
 	if dM == 0 {
 		return 0
 	}
-	p := azimuthRad(e, n) * float64(g.radials) / (2 * math.Pi) / float64(int(1)<<j)
-	k := int(math.Round(p)) << j
-	if k < 0 {
-		k += g.radials
+	a := azimuthRad(e, n)
+	if a < 0 {
+		a += 2 * math.Pi
 	}
+	// The nearest radial of the level, rounding half up (a ≥ 0: the
+	// conversion truncates, as floor would).
+	k := int(a*g.perLevel[j]+0.5) << j
 	if k >= g.radials {
 		k -= g.radials
 	}
