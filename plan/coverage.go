@@ -403,30 +403,10 @@ func metresPerDegreeWGS84(lat float64) (northM, eastM float64) {
 	return terrain.WGS84A * (1 - e2) / (w * w * w) * math.Pi / 180, terrain.WGS84A / w * math.Abs(cos) * math.Pi / 180
 }
 
-// offset returns the distance in metres and the azimuth in radians
-// (clockwise from north, −π..π) of the centre of cell (r, c) from the site.
-func (g *coverageGrid) offset(r, c int) (distM, aziRad float64) {
-	dLon := g.lon0 + float64(c)*g.dLon - g.siteLon
-	if dLon > 180 {
-		dLon -= 360
-	} else if dLon < -180 {
-		dLon += 360
-	}
-	e := dLon * g.rowE[r]
-	n := (g.rowLat[r] - g.siteLat) * g.rowN[r]
-	return math.Sqrt(e*e + n*n), math.Atan2(e, n)
-}
-
 // distance returns the distance in metres of the centre of cell (r, c)
-// from the site, as offset does.
+// from the site (mid-latitude plane, as east).
 func (g *coverageGrid) distance(r, c int) float64 {
-	dLon := g.lon0 + float64(c)*g.dLon - g.siteLon
-	if dLon > 180 {
-		dLon -= 360
-	} else if dLon < -180 {
-		dLon += 360
-	}
-	e := dLon * g.rowE[r]
+	e := g.east(r, c)
 	n := (g.rowLat[r] - g.siteLat) * g.rowN[r]
 	return math.Sqrt(e*e + n*n)
 }
@@ -563,19 +543,9 @@ func (g *coverageGrid) level(dM float64) int {
 	return j
 }
 
-// radialOf returns the radial that answers the cell e metres east and n
-// metres north of the site: the nearest in azimuth among those of its
-// distance's level and coarser (every 2^j-th radial).
-func (g *coverageGrid) radialOf(e, n float64) int {
-	return g.radialAt(e, n, math.Sqrt(e*e+n*n))
-}
-
-// radialAt is radialOf for a cell whose distance dM is known.
-func (g *coverageGrid) radialAt(e, n, dM float64) int {
-	return g.radialAtLevel(e, n, dM, g.level(dM))
-}
-
-// radialAtLevel is radialAt for a cell whose level j is known.
+// radialAtLevel returns the radial that answers the cell e metres east and
+// n metres north of the site, dM metres away at level j (g.level): the
+// nearest in azimuth among every 2^j-th radial.
 func (g *coverageGrid) radialAtLevel(e, n, dM float64, j int) int {
 	if dM == 0 {
 		return 0

@@ -34,10 +34,9 @@ const losMaxLevels = 6
 //     apart; it starts there, from the running maximum of the coarser
 //     radial k − 2^t beside it (at most half a cell away, as the cells are
 //     from their own radial), and samples only the rest.
-//     Then the unit answers its cells: those of the wedge of azimuths it
-//     can serve (coverageGrid.sectorRows) whose nearest radial of their
-//     distance's level (coverageGrid.radialAt; the azimuth from a
-//     polynomial arctangent within 2e−8 rad) is one of the unit's: eq. 50
+//     Then the unit answers its cells (coverageGrid.unitCells: those whose
+//     nearest radial of their distance's level is one of the unit's, found
+//     band by band in the wedges of azimuths the unit serves): eq. 50
 //     against the running maximum after the m samples more than half a
 //     step short of the cell, with the cell's own ground and distance.
 //
