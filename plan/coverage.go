@@ -725,10 +725,10 @@ type radialCells struct {
 // radials that branch off it: k + 2^c for every level c < t, each with
 // its own branches. ws.walker holds radial k's state after the samples
 // before g.start(t, ·) (the parent's, or none for a coarsest radial). Radial
-// k + 2^c lies 2^c radial steps from k: where it starts, R/2^(c+1), that is
-// at most half the radial spacing at the radius, as far as a cell lies from
-// its own radial; so it takes k's samples up to there (a copy of k's
-// state, ws.snaps[c]) and samples only the rest. About a third fewer
+// k + 2^c lies 2^c radial steps from k: where it starts, R/2^(c+2), that is
+// at most a quarter of the radial spacing at the radius, as far as a cell
+// lies from its own radial; so it takes k's samples up to there (a copy of
+// k's state, ws.snaps[c]) and samples only the rest. About a sixth fewer
 // samples than every radial at full length.
 func (g *coverageGrid) walkTree(ws *coverageWorker, k, t int, cellsOf func(int) radialCells, req *CoverageRequest, values []float32, covered []int32, noData []bool) error {
 	c, nd, err := g.walk(ws, k, t, cellsOf(k), req, values)
