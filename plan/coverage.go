@@ -250,6 +250,7 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 
 	covered := make([]int32, g.radials)
 	noData := make([]bool, g.radials)
+	var answered atomic.Int64
 	// Units of 2^levels radials, each from its coarsest radial (walkTree),
 	// with the cells they answer (unitCells).
 	err = coverageParallel(ctx, g.radials/unit, func(done, _ int) {
@@ -270,6 +271,7 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 		}
 		k0 := u * unit
 		g.unitCells(ws, k0, unit, res.Values, true)
+		answered.Add(int64(len(ws.found)))
 		ws.walker.Reset(h0)
 		return g.walkTree(ws, k0, g.levels, func(k int) radialCells {
 			a, b := ws.radStart[k-k0], ws.radStart[k-k0+1]
@@ -277,6 +279,9 @@ func CoverageMap(ctx context.Context, ts *terrain.Set, req CoverageRequest, prog
 		}, &req, res.Values, covered, noData)
 	})
 	if err != nil {
+		return nil, err
+	}
+	if err := g.checkAnswered(int(answered.Load()), res.Cells); err != nil {
 		return nil, err
 	}
 	for r := range g.radials {
@@ -450,6 +455,17 @@ func (g *coverageGrid) fillGround(ctx context.Context, ts *terrain.Set, values [
 		return nil
 	})
 	return nd.Load(), int(nCells.Load()), err
+}
+
+// checkAnswered guards the engines' bookkeeping: the units must answer
+// exactly the cells the ground pass counted, or a cell would keep its
+// ground height as its value. A mismatch is a fault of this package, so
+// the map is refused rather than written.
+func (g *coverageGrid) checkAnswered(answered, cells int) error {
+	if answered != cells {
+		return fmt.Errorf("coverage: internal error: %d of %d cells answered (site %.5f,%.5f, radius %g m); please report it", answered, cells, g.siteLat, g.siteLon, g.radiusM)
+	}
+	return nil
 }
 
 // unitCells gathers the cells within the radius that radials k0 …

@@ -87,7 +87,7 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 	}
 
 	// Pass 2: units of radials, then their cells.
-	var covered atomic.Int64
+	var covered, answered atomic.Int64
 	err = coverageParallel(ctx, nRad/unit, func(done, _ int) {
 		if progress != nil {
 			progress(g.rows+done*unit, total)
@@ -145,6 +145,7 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		}
 		// The unit's cells.
 		g.unitCells(ws, k0, unit, res.Values, false)
+		answered.Add(int64(len(ws.found)))
 		nv := 0
 		for i, cell := range ws.found {
 			o, d := int(ws.foundOff[i]), ws.foundD[i]
@@ -162,6 +163,9 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		return nil
 	})
 	if err != nil {
+		return err
+	}
+	if err := g.checkAnswered(int(answered.Load()), nCells); err != nil {
 		return err
 	}
 	res.Cells, res.Covered = nCells, int(covered.Load())
