@@ -183,3 +183,19 @@ func htGDALValues(t testing.TB, file string, lats, lons []float64) []float64 {
 	}
 	return vals
 }
+
+// htMosaicRaw writes the 2×2 mosaic of 3″ tiles with voids of htMosaic
+// (N45E007 to N46E008, htGrid) straight as HGT bytes, without GDAL, and
+// returns its folder.
+func htMosaicRaw(t testing.TB) string {
+	t.Helper()
+	dir := t.TempDir()
+	for _, ll := range [][2]int{{45, 7}, {45, 8}, {46, 7}, {46, 8}} {
+		g := htGrid(HGTSamples3, ll[0], ll[1], true)
+		raw := htRaw(HGTSamples3, func(r, c int) int16 { return g[r*HGTSamples3+c] })
+		if err := os.WriteFile(filepath.Join(dir, HGTName(ll[0], ll[1])), raw, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return dir
+}

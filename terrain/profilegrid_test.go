@@ -3,8 +3,6 @@ package terrain
 import (
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"testing"
 )
 
@@ -18,14 +16,7 @@ import (
 // tiles with voids, crossing its seams, and on profiles along the seams
 // themselves (a meridian on a tile edge, and ends on the edges and corner).
 func TestProfileGridSampling(t *testing.T) {
-	dir := t.TempDir()
-	for _, ll := range [][2]int{{45, 7}, {45, 8}, {46, 7}, {46, 8}} {
-		g := htGrid(HGTSamples3, ll[0], ll[1], true)
-		raw := htRaw(HGTSamples3, func(r, c int) int16 { return g[r*HGTSamples3+c] })
-		if err := os.WriteFile(filepath.Join(dir, HGTName(ll[0], ll[1])), raw, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	dir := htMosaicRaw(t)
 	set, err := Open(dir)
 	if err != nil {
 		t.Fatal(err)

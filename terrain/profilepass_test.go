@@ -3,8 +3,6 @@ package terrain
 import (
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"slices"
 	"testing"
 )
@@ -19,14 +17,7 @@ import (
 // tiles), across the antimeridian, and beyond 75° where every position is
 // exact.
 func TestProfileOnePass(t *testing.T) {
-	dir := t.TempDir()
-	for _, ll := range [][2]int{{45, 7}, {45, 8}, {46, 7}, {46, 8}} {
-		g := htGrid(HGTSamples3, ll[0], ll[1], true)
-		raw := htRaw(HGTSamples3, func(r, c int) int16 { return g[r*HGTSamples3+c] })
-		if err := os.WriteFile(filepath.Join(dir, HGTName(ll[0], ll[1])), raw, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	dir := htMosaicRaw(t)
 	open := func() *Set {
 		s, err := Open(dir)
 		if err != nil {

@@ -92,13 +92,7 @@ func (p *Sampler) at(y, x float64) float64 {
 		}
 		return float64(t.H[0])
 	}
-	r := min(int(y), t.Rows-2)
-	c := min(int(x), t.Cols-2)
-	fy, fx := y-float64(r), x-float64(c)
-	i := r*t.Cols + c
-	h := t.H[i : i+t.Cols+2 : i+t.Cols+2]
-	h00, h01 := float64(h[0]), float64(h[1])
-	h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
+	h00, h01, h10, h11, fy, fx := t.quad(y, x)
 	if v := bilinear(h00, h01, h10, h11, fy, fx); v == v {
 		return v
 	}
@@ -144,14 +138,7 @@ func (p *Sampler) RadialFrom(lat, lon, aziDeg, startM, stepM float64, lats, lons
 			y := (p.lat0 - la) * p.invDLat
 			x := (lo - p.lon0) * p.invDLon
 			if y >= 0 && y <= p.maxY && x >= 0 && x <= p.maxX {
-				r := min(int(y), t.Rows-2)
-				c := min(int(x), t.Cols-2)
-				fy, fx := y-float64(r), x-float64(c)
-				j := r*t.Cols + c
-				h := t.H[j : j+t.Cols+2 : j+t.Cols+2]
-				h00, h01 := float64(h[0]), float64(h[1])
-				h10, h11 := float64(h[t.Cols]), float64(h[t.Cols+1])
-				if v := bilinear(h00, h01, h10, h11, fy, fx); v == v {
+				if v := bilinear(t.quad(y, x)); v == v {
 					heights[i] = v
 					continue
 				}

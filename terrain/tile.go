@@ -90,6 +90,16 @@ func (t *Tile) At(lat, lon float64) float64 {
 	return voidMean(h00, h01, h10, h11)
 }
 
+// quad returns the four samples around fractional row y and column x
+// (both within the grid, which has at least 2 × 2 samples) and the
+// fractions of the point between them, in bilinear's order.
+func (t *Tile) quad(y, x float64) (z00, z01, z10, z11, fy, fx float64) {
+	n := t.Cols
+	r, c := min(int(y), t.Rows-2), min(int(x), n-2)
+	h := t.H[r*n+c : r*n+c+n+2] // one bounds check for the four samples
+	return float64(h[0]), float64(h[1]), float64(h[n]), float64(h[n+1]), y - float64(r), x - float64(c)
+}
+
 // bilinear interpolates between four samples, z00 north-west, z01
 // north-east, z10 south-west and z11 south-east, at fractions fy south and
 // fx east of z00 (common practice): NaN when any of them is a void. Every
