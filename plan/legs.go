@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/mastlink/mastlink/plan/units"
+	"github.com/mastlink/mastlink/propagation"
 )
 
 // Link directions. A repeater's talk-in is the station transmitting on the
@@ -114,13 +115,16 @@ func newTargetLegs(near End, t Target) (targetLegs, error) {
 // tl.freqsMHz[i], with the near antenna nearHeightM above the ground at
 // g.From and the target's antenna at g.To. The loss is the same both ways
 // at one frequency (ITU-R P.526 diffraction is reciprocal), as
-// Env.Evaluate also assumes, so it is computed once per frequency.
+// Env.Evaluate also assumes, so it is computed once per frequency, with
+// one reading of the profile for both frequencies of a repeater
+// (Env.PathLosses).
 func (e *Env) pathLosses(g *Geometry, tl *targetLegs, nearHeightM float64, loss *[2]float64) error {
-	for i, f := range tl.freqsMHz {
-		r, err := e.PathLoss(g, nearHeightM, tl.target.Antenna.HeightM, f)
-		if err != nil {
-			return fmt.Errorf("%s: %w", tl.target.Name, err)
-		}
+	var rs [len(loss)]propagation.Result
+	out := rs[:len(tl.freqsMHz)]
+	if err := e.PathLosses(g, nearHeightM, tl.target.Antenna.HeightM, tl.freqsMHz, out); err != nil {
+		return fmt.Errorf("%s: %w", tl.target.Name, err)
+	}
+	for i, r := range out {
 		loss[i] = r.PathLossDB
 	}
 	return nil

@@ -361,11 +361,33 @@ func aimOf(a Antenna, azimuthDeg float64) *float64 {
 // hToM metres above the ground at g.From and g.To, at freqMHz. The
 // model's warnings (Longley–Rice ITM) are added to g's.
 func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.Result, error) {
+	r, err := e.model().Loss(g.path, e.lossParams(hFromM, hToM, freqMHz))
+	g.modelWarn |= r.ITM.Warnings
+	return r, err
+}
+
+// PathLosses is PathLoss at each of freqsMHz into out (of the same
+// length), the same figures to the last bit, with one reading of the
+// profile for all of them where the model allows
+// (propagation.LossAtFrequencies): a repeater's input and output
+// frequencies over one path.
+func (e *Env) PathLosses(g *Geometry, hFromM, hToM float64, freqsMHz []float64, out []propagation.Result) error {
+	err := propagation.LossAtFrequencies(e.model(), g.path, e.lossParams(hFromM, hToM, 0), freqsMHz, out)
+	for _, r := range out {
+		g.modelWarn |= r.ITM.Warnings
+	}
+	return err
+}
+
+// lossParams returns the model parameters of a path between antennas
+// hFromM and hToM metres above the ground, at freqMHz, with the Env's
+// k-factor, polarization and ground.
+func (e *Env) lossParams(hFromM, hToM, freqMHz float64) propagation.Params {
 	k := e.K
 	if k == 0 {
 		k = propagation.DefaultKFactor
 	}
-	prm := propagation.Params{
+	return propagation.Params{
 		FreqMHz:       freqMHz,
 		TxHeightM:     hFromM,
 		RxHeightM:     hToM,
@@ -373,9 +395,6 @@ func (e *Env) PathLoss(g *Geometry, hFromM, hToM, freqMHz float64) (propagation.
 		Polarization:  e.Polarization,
 		Ground:        e.Ground,
 	}
-	r, err := e.model().Loss(g.path, prm)
-	g.modelWarn |= r.ITM.Warnings
-	return r, err
 }
 
 // ParsePolarization returns the polarization named by s: "vertical" or

@@ -75,6 +75,7 @@ type profileScan struct {
 	stim, srim float64 // eqs. 49, 53
 	str        float64 // eq. 50
 	nuMax      float64 // eq. 51 maximum (computed for every path)
+	qMax       float64 // e|e|/(d_i (d−d_i)) at iMax: nuMax without the wavelength (see atWavelength)
 	iMax       int     // index of nuMax, −1 if none
 	v1, v2     float64 // eqs. 58, 59
 	hobs       float64 // eq. 61a
@@ -137,9 +138,8 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	s.hrsM = hgt[n-1] + rp.rxM
 	hts, hrs := s.htsM, s.hrsM
 	s.str = (hrs - hts) / d
-	slope := s.str                    // the ray rises by (h_rs − h_ts)/d per km
-	bulge := 500 / rp.aeKM            // 500 C_e of eq. 49
-	kNu := 0.002 * d / rp.wavelengthM // eq. 51 factor without 1/(d_i (d−d_i))
+	slope := s.str         // the ray rises by (h_rs − h_ts)/d per km
+	bulge := 500 / rp.aeKM // 500 C_e of eq. 49
 
 	// Pass over the terrain: checks, the smooth-surface sums of eqs. 58
 	// and 59 over every segment, and the highest obstruction of the
@@ -149,36 +149,22 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	nb := 0
 	var v1, v2 float64
 	hobs := math.Inf(-1)
-	hmin, hmax := min(hgt[0], hgt[n-1]), max(hgt[0], hgt[n-1]) // range of h_i
+	amax := max(math.Abs(hgt[0]), math.Abs(hgt[n-1])) // largest |h_i|
 	dp, hp := 0.0, hgt[0]
 	for lo := 1; lo < n; lo += blk {
 		hi := min(lo+blk, n-1)
 		if lo == n-1 {
 			hi = n // the last point alone: the last segment of the sums
 		}
-		m := math.Inf(-1)
-		for i := lo; i < hi; i++ {
-			di := dist[i] - d0
-			h := hgt[i]
-			if !(di > dp) {
+		var m float64
+		var bad int
+		m, dp, hp, v1, v2, amax, bad = terrainBlock(dist[lo:hi], hgt[lo:hi], d0, hts, slope, dp, hp, v1, v2, amax)
+		if bad >= 0 {
+			i := lo + bad
+			if !(dist[i]-d0 > dp) {
 				return s, fmt.Errorf("%w: distance %g km at point %d does not increase from %g km at point %d", ErrBadPath, dist[i], i, dist[i-1], i-1)
 			}
-			if h-h != 0 { // NaN or ±Inf
-				return s, fmt.Errorf("%w: terrain height %g m at point %d is not a number; fill voids before computing loss", ErrBadPath, h, i)
-			}
-			dd := di - dp
-			v1 += dd * (h + hp)
-			v2 += dd * (h*(2*di+dp) + hp*(di+2*dp))
-			dp, hp = di, h
-			if hob := h - hts - slope*di; hob > m {
-				m = hob
-			}
-			if h < hmin {
-				hmin = h
-			}
-			if h > hmax {
-				hmax = h
-			}
+			return s, fmt.Errorf("%w: terrain height %g m at point %d is not a number; fill voids before computing loss", ErrBadPath, hgt[i], i)
 		}
 		if hi == n {
 			break
@@ -209,7 +195,7 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	}
 
 	// The magnitudes every value is made of, metres: the margin's scale.
-	scale := max(-hmin, hmax) + math.Abs(hts) + math.Abs(hrs) + bulge*d*d + cmax
+	scale := amax + math.Abs(hts) + math.Abs(hrs) + bulge*d*d + cmax
 	sc := scanner{dist: dist, hgt: hgt, clut: clut, d0: d0, d: d, hts: hts, hrs: hrs, slope: slope, bulge: bulge,
 		aobt: math.Inf(-1), aobr: math.Inf(-1), stim: math.Inf(-1), srim: math.Inf(-1), qMax: math.Inf(-1), iMax: -1}
 	var ub [5][scanBlocks]float64 // bounds with their margins: a_obt, a_obr, S_tim, S_rim, e|e|/(d_i (d−d_i))
@@ -280,12 +266,51 @@ func scanProfile(p Path, rp params) (profileScan, error) {
 	if hobs > 0 {
 		s.aobt, s.aobr = sc.aobt, sc.aobr
 	}
-	nuMax := math.Inf(-1)
-	if sc.iMax >= 0 {
-		nuMax = math.Copysign(math.Sqrt(kNu*math.Abs(sc.qMax)), sc.qMax)
-	}
-	s.stim, s.srim, s.nuMax, s.iMax = sc.stim, sc.srim, nuMax, sc.iMax
+	s.stim, s.srim, s.qMax, s.iMax = sc.stim, sc.srim, sc.qMax, sc.iMax
+	s.atWavelength(rp.wavelengthM)
 	return s, nil
+}
+
+// atWavelength sets nuMax, the largest ν of eq. 51, for the wavelength
+// wavelengthM in metres. It is the only part of the scan that depends on
+// the frequency, so one scan serves several frequencies over the same
+// path and antenna heights.
+func (s *profileScan) atWavelength(wavelengthM float64) {
+	s.nuMax = math.Inf(-1)
+	if s.iMax >= 0 {
+		kNu := 0.002 * s.dKM / wavelengthM // eq. 51 factor without 1/(d_i (d−d_i))
+		s.nuMax = math.Copysign(math.Sqrt(kNu*math.Abs(s.qMax)), s.qMax)
+	}
+}
+
+// terrainBlock is the first pass of scanProfile over one block of
+// points (distances dist, km, and heights hgt, m): it carries the previous
+// point (dp, hp), the sums of eqs. 58 and 59 (v1, v2) and the largest
+// magnitude of the heights (amax), and returns them with the block's largest h_i − h_ts − slope·d_i
+// (eq. 61a). bad is the index in the block of the first point whose
+// distance does not increase or whose height is not a number, −1 if none;
+// the values returned are then meaningless. A function of its own keeps
+// every running value in a register.
+func terrainBlock(dist, hgt []float64, d0, hts, slope, dp, hp, v1, v2, amax float64) (m, dpOut, hpOut, v1Out, v2Out, amaxOut float64, bad int) {
+	m = math.Inf(-1)
+	dist = dist[:len(hgt)]
+	for i, h := range hgt {
+		di := dist[i] - d0
+		if !(di > dp) || h-h != 0 { // not increasing; NaN or ±Inf
+			return m, dp, hp, v1, v2, amax, i
+		}
+		dd := di - dp
+		v1 += dd * (h + hp)
+		v2 += dd * (h*(2*di+dp) + hp*(di+2*dp))
+		dp, hp = di, h
+		if hob := h - hts - slope*di; hob > m {
+			m = hob
+		}
+		if a := math.Abs(h); a > amax {
+			amax = a
+		}
+	}
+	return m, dp, hp, v1, v2, amax, -1
 }
 
 // scanner reads blocks of a profile for the maxima of scanProfile.

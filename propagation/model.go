@@ -53,6 +53,65 @@ type Model interface {
 	Loss(p Path, prm Params) (Result, error)
 }
 
+// FrequencyModel is a Model that computes one path at several
+// frequencies in less time than one Loss call per frequency.
+type FrequencyModel interface {
+	Model
+	// LossAtFrequencies sets out[k] to what Loss returns for p and prm
+	// with prm.FreqMHz = freqsMHz[k], the same to the last bit; out has
+	// the length of freqsMHz. On an error out is incomplete.
+	LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error
+}
+
+// LossAtFrequencies sets out[k] to m.Loss(p, prm) with prm.FreqMHz =
+// freqsMHz[k], for a pair of repeater frequencies or a channel list over
+// one path: by m's own LossAtFrequencies when m is a FrequencyModel, else
+// by one Loss call per frequency. out must have the length of freqsMHz.
+func LossAtFrequencies(m Model, p Path, prm Params, freqsMHz []float64, out []Result) error {
+	if len(out) != len(freqsMHz) {
+		return fmt.Errorf("%w: %d results for %d frequencies", ErrBadParams, len(out), len(freqsMHz))
+	}
+	if fm, ok := m.(FrequencyModel); ok {
+		return fm.LossAtFrequencies(p, prm, freqsMHz, out)
+	}
+	for k, f := range freqsMHz {
+		prm.FreqMHz = f
+		r, err := m.Loss(p, prm)
+		if err != nil {
+			return err
+		}
+		out[k] = r
+	}
+	return nil
+}
+
+// scanAtFrequencies sets out[k] to result(rp, s) for frequency
+// freqsMHz[k], with the resolved parameters and the profile scan at that
+// frequency, scanning the profile once: the scan depends on the frequency
+// only through ν of ITU-R P.526-16 eq. 51 (profileScan.atWavelength).
+func scanAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result, result func(rp params, s *profileScan) Result) error {
+	if len(out) != len(freqsMHz) {
+		return fmt.Errorf("%w: %d results for %d frequencies", ErrBadParams, len(out), len(freqsMHz))
+	}
+	var s profileScan
+	for k, f := range freqsMHz {
+		prm.FreqMHz = f
+		rp, err := prm.resolve()
+		if err != nil {
+			return err
+		}
+		if k == 0 {
+			if s, err = scanProfile(p, rp); err != nil {
+				return err
+			}
+		} else {
+			s.atWavelength(rp.wavelengthM)
+		}
+		out[k] = result(rp, &s)
+	}
+	return nil
+}
+
 // FreeSpace is the Model of free-space loss alone (ITU-R P.525-4): terrain
 // only informs the clearance and line-of-sight fields, never the loss.
 type FreeSpace struct{}
@@ -71,9 +130,19 @@ func (m FreeSpace) Loss(p Path, prm Params) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
-	r := baseResult(m.Name(), &s, rp)
+	return m.result(rp, &s), nil
+}
+
+func (m FreeSpace) result(rp params, s *profileScan) Result {
+	r := baseResult(m.Name(), s, rp)
 	r.PathLossDB = r.FreeSpaceDB
-	return r, nil
+	return r
+}
+
+// LossAtFrequencies is Loss at each of freqsMHz, reading the profile once
+// (see FrequencyModel).
+func (m FreeSpace) LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error {
+	return scanAtFrequencies(p, prm, freqsMHz, out, func(rp params, s *profileScan) Result { return m.result(rp, s) })
 }
 
 // Terrain is the Model of free-space loss plus diffraction over the terrain
@@ -98,11 +167,22 @@ func (m Terrain) Loss(p Path, prm Params) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
-	r := baseResult(m.Name(), &s, rp)
-	r.Bullington = deltaBullington(p, rp, &s)
+	return m.result(p, rp, &s), nil
+}
+
+func (m Terrain) result(p Path, rp params, s *profileScan) Result {
+	r := baseResult(m.Name(), s, rp)
+	r.Bullington = deltaBullington(p, rp, s)
 	r.ExcessDB = r.Bullington.LossDB
 	r.PathLossDB = r.FreeSpaceDB + r.ExcessDB
-	return r, nil
+	return r
+}
+
+// LossAtFrequencies is Loss at each of freqsMHz with one scan of the
+// profile for all of them (see FrequencyModel); the rest of
+// delta-Bullington (the smooth profile, eqs. 60–66) is per frequency.
+func (m Terrain) LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error {
+	return scanAtFrequencies(p, prm, freqsMHz, out, func(rp params, s *profileScan) Result { return m.result(p, rp, s) })
 }
 
 func baseResult(name string, s *profileScan, rp params) Result {

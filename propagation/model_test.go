@@ -2,6 +2,7 @@ package propagation
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -202,5 +203,56 @@ func TestFrequencyRange(t *testing.T) {
 	}
 	if _, _, ok := FrequencyRange(FreeSpace{}); ok {
 		t.Error("free space states a band")
+	}
+}
+
+// TestLossAtFrequencies checks that one path at several frequencies gives,
+// field for field and to the last bit, what one Loss call per frequency
+// gives, for every registered model (Terrain and FreeSpace scan the
+// profile once; the others fall back to Loss), on rough and smooth
+// profiles, with clutter and with a repeater pair and a channel list; and
+// that a bad frequency or a wrong result count is an error.
+func TestLossAtFrequencies(t *testing.T) {
+	paths := map[string]Path{
+		"rolling 3300": rollingPath(3300, 33),
+		"rolling 40":   rollingPath(40, 2.5),
+		"two points":   {DistKM: []float64{0, 4}, HeightM: []float64{100, 300}},
+	}
+	rough := Path{DistKM: make([]float64, 700), HeightM: make([]float64, 700)}
+	for i := range rough.DistKM {
+		d := 15 * float64(i) / 699
+		rough.DistKM[i] = d
+		u := uint32(i) * 2654435761 // Knuth's multiplicative hash: deterministic noise
+		rough.HeightM[i] = 600 + 350*math.Sin(d/7) + 150*math.Sin(d/1.3) + float64(u>>24)/255*20
+	}
+	paths["rough 700"] = rough
+	freqSets := [][]float64{{147.18, 147.78}, {146.55}, {50.2, 145.5, 433.5, 1296.2}, {}}
+	for _, reg := range Models() {
+		for name, p := range paths {
+			for _, fs := range freqSets {
+				prm := Params{TxHeightM: 1.5, RxHeightM: 20, Polarization: Vertical}
+				got := make([]Result, len(fs))
+				if err := LossAtFrequencies(reg.Model, p, prm, fs, got); err != nil {
+					t.Fatalf("%s, %s, %v: %v", reg.Model.Name(), name, fs, err)
+				}
+				for k, f := range fs {
+					prm.FreqMHz = f
+					want, err := reg.Model.Loss(p, prm)
+					if err != nil {
+						t.Fatal(err)
+					}
+					if g, w := fmt.Sprintf("%+v", got[k]), fmt.Sprintf("%+v", want); g != w {
+						t.Errorf("%s, %s at %g MHz:\n got %s\nwant %s", reg.Model.Name(), name, f, g, w)
+					}
+				}
+			}
+		}
+		p := paths["rolling 40"]
+		if err := LossAtFrequencies(reg.Model, p, Params{TxHeightM: 2, RxHeightM: 2}, []float64{146, 0}, make([]Result, 2)); !errors.Is(err, ErrBadParams) {
+			t.Errorf("%s: a 0 MHz frequency gave %v, want ErrBadParams", reg.Model.Name(), err)
+		}
+		if err := LossAtFrequencies(reg.Model, p, Params{TxHeightM: 2, RxHeightM: 2}, []float64{146, 440}, make([]Result, 1)); !errors.Is(err, ErrBadParams) {
+			t.Errorf("%s: one result for two frequencies gave %v, want ErrBadParams", reg.Model.Name(), err)
+		}
 	}
 }
