@@ -161,13 +161,22 @@ func profilePositions(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Pro
 // (or any sample when GeoTIFFs may overlap the tiles) is looked up.
 func (s *Set) profileHeights(dst *Profile) error {
 	w := s.newHeightWalk(dst)
-	lats, lons, elev := dst.Lat, dst.Lon[:len(dst.Lat)], dst.ElevM[:len(dst.Lat)]
-	for i, lat := range lats {
-		h, err := w.height(lat, lons[i])
+	n := len(dst.Lat)
+	lats, lons, elev := dst.Lat, dst.Lon[:n], dst.ElevM[:n]
+	for i := 0; i < n; {
+		if w.fast {
+			done, voids := w.g.heightsInTile(lats[i:], lons[i:], elev[i:])
+			dst.NoData += voids
+			if i += done; i == n {
+				break
+			}
+		}
+		h, err := w.height(lats[i], lons[i])
 		if err != nil {
 			return err
 		}
 		elev[i] = h
+		i++
 	}
 	return nil
 }
@@ -243,27 +252,19 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 		profilePositions(line, lat1, lon1, lat2, lon2, step, dst)
 		return s.profileHeights(dst)
 	}
-	dist, lats, lons, elev := dst.DistM[:n], dst.Lat[:n], dst.Lon[:n], dst.ElevM[:n]
-	w := s.newHeightWalk(dst)
-	// put stores sample i and its height.
-	put := func(i int, lat, lon float64) error {
+	dist, lats, lons := dst.DistM[:n], dst.Lat[:n], dst.Lon[:n]
+	// put stores sample i.
+	put := func(i int, lat, lon float64) {
 		if lon >= 180 {
 			lon -= 360
 		}
 		dist[i], lats[i], lons[i] = float64(i)*step, lat, lon
-		h, err := w.height(lat, lon)
-		elev[i] = h
-		return err
 	}
-	if err := put(0, lat1, normLon(lon1)); err != nil {
-		return err
-	}
+	put(0, lat1, normLon(lon1))
 	lat0, lon0, dlat0, dlon0, ok0 := line.node(0)
 	for j := 0; j < n-1; {
 		if j > 0 {
-			if err := put(j, lat0, lon0); err != nil {
-				return err
-			}
+			put(j, lat0, lon0)
 		}
 		end := min(j+k, n-1) // the next node
 		lat1, lon1, dlat1, dlon1, ok1 := line.node(float64(end) * step)
@@ -271,9 +272,7 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 		if !ok0 || !ok1 {
 			for i := j + 1; i < end; i++ {
 				la, lo := line.Position(float64(i) * step)
-				if err := put(i, la, lo); err != nil {
-					return err
-				}
+				put(i, la, lo)
 			}
 		} else {
 			dl := lon1 - lon0
@@ -282,66 +281,44 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 			} else if dl < -180 {
 				dl += 360
 			}
-			h := float64(kk) * step
-			wt := dst.hermite.weights(kk)
-			dLat := lat1 - lat0
-			g := &w.g
-			inTile := w.fast && g.maxR >= 0 // the tile in use can be read here
-			for i := 1; i < kk; i++ {
-				c := wt[3*i : 3*i+3 : 3*i+3]
-				h01 := c[0]
-				h10 := c[1] * h
-				h11 := c[2] * h
-				lat := lat0 + h01*dLat + h10*dlat0 + h11*dlat1
-				lon := lon0 + h01*dl + h10*dlon0 + h11*dlon1
-				if lon > 180 {
-					lon -= 360
-				} else if lon < -180 {
-					lon += 360
-				}
-				if lon >= 180 {
-					lon -= 360
-				}
-				ix := j + i
-				dist[ix], lats[ix], lons[ix] = float64(ix)*step, lat, lon
-				// Inside the tile in use: gridCursor.at without the call.
-				y := (g.lat0 - lat) * g.invDLat
-				x := (lon - g.lon0) * g.invDLon
-				if inTile && y >= 0 && y <= g.maxY && x >= 0 && x <= g.maxX {
-					r := min(int(y), g.maxR)
-					c := min(int(x), g.maxC)
-					fy, fx := y-float64(r), x-float64(c)
-					cols := g.cols
-					o := r*cols + c
-					hs := g.h[o : o+cols+2 : o+cols+2]
-					z00, z01 := float64(hs[0]), float64(hs[1])
-					z10, z11 := float64(hs[cols]), float64(hs[cols+1])
-					v := bilinear(z00, z01, z10, z11, fy, fx)
-					if v != v {
-						if v = voidMean(z00, z01, z10, z11); v != v {
-							v = 0
-							dst.NoData++
-						}
-					}
-					elev[ix] = v
-					continue
-				}
-				hv, err := w.height(lat, lon)
-				if err != nil {
-					return err
-				}
-				elev[ix] = hv
-				inTile = w.fast && g.maxR >= 0
-			}
+			hermiteStretch(dst.hermite.weights(kk), float64(kk)*step, lat0, lon0, lat1-lat0, dl, dlat0, dlon0, dlat1, dlon1,
+				step, j, dist[j+1:end], lats[j+1:end], lons[j+1:end])
 		}
 		lat0, lon0, dlat0, dlon0, ok0 = lat1, lon1, dlat1, dlon1, ok1
 		j = end
 	}
-	if err := put(n-1, lat2, normLon(lon2)); err != nil {
-		return err
-	}
+	put(n-1, lat2, normLon(lon2))
 	dist[n-1] = dst.DistanceM
-	return nil
+	return s.profileHeights(dst)
+}
+
+// hermiteStretch sets the positions of the samples strictly between two
+// exact geodesic nodes, h metres apart, by cubic Hermite interpolation:
+// wt holds the weights (hermiteCache.weights), the first node is at (lat0,
+// lon0) with derivatives (dlat0, dlon0), the second dLat and dLon further
+// with derivatives (dlat1, dlon1), degrees and degrees per metre; sample
+// i of the stretch (i from 1) is sample j+i of the profile, at distance
+// (j+i)·step metres, stored at index i−1 of dist, lats and lons with its
+// longitude in [−180, 180).
+func hermiteStretch(wt []float64, h, lat0, lon0, dLat, dLon, dlat0, dlon0, dlat1, dlon1, step float64, j int, dist, lats, lons []float64) {
+	lats, lons = lats[:len(dist)], lons[:len(dist)]
+	for i := range dist {
+		c := wt[3*i+3 : 3*i+6 : 3*i+6]
+		h01 := c[0]
+		h10 := c[1] * h
+		h11 := c[2] * h
+		lat := lat0 + h01*dLat + h10*dlat0 + h11*dlat1
+		lon := lon0 + h01*dLon + h10*dlon0 + h11*dlon1
+		if lon > 180 {
+			lon -= 360
+		} else if lon < -180 {
+			lon += 360
+		}
+		if lon >= 180 {
+			lon -= 360
+		}
+		dist[i], lats[i], lons[i] = float64(j+i+1)*step, lat, lon
+	}
 }
 
 // hermiteCache keeps the cubic Hermite weights of Line.Positions for two
@@ -429,4 +406,45 @@ func (g *gridCursor) at(y, x float64) float64 {
 		return v
 	}
 	return voidMean(h00, h01, h10, h11)
+}
+
+// heightsInTile sets elev[i] to the height at (lats[i], lons[i]), degrees,
+// for the leading samples that lie inside the tile in use, as
+// heightWalk.height would (the same bilinear interpolation, a void filled
+// by the mean of the valid samples around it, 0 where none is), and
+// returns how many it did and how many of them were unfillable voids. It
+// stops at the first sample outside the tile, and does none when the tile
+// cannot be read here (no tile, or a degenerate grid). Every value it
+// needs is kept in a register.
+func (g *gridCursor) heightsInTile(lats, lons, elev []float64) (done, voids int) {
+	if g.maxR < 0 {
+		return 0, 0
+	}
+	lat0, lon0, invDLat, invDLon := g.lat0, g.lon0, g.invDLat, g.invDLon
+	maxY, maxX, maxR, maxC := g.maxY, g.maxX, g.maxR, g.maxC
+	cols, hgt := g.cols, g.h
+	lons, elev = lons[:len(lats)], elev[:len(lats)]
+	for i, lat := range lats {
+		y := (lat0 - lat) * invDLat
+		x := (lons[i] - lon0) * invDLon
+		if !(y >= 0 && y <= maxY && x >= 0 && x <= maxX) {
+			return i, voids
+		}
+		r := min(int(y), maxR)
+		c := min(int(x), maxC)
+		fy, fx := y-float64(r), x-float64(c)
+		o := r*cols + c
+		hs := hgt[o : o+cols+2 : o+cols+2] // one bounds check for the four samples
+		z00, z01 := float64(hs[0]), float64(hs[1])
+		z10, z11 := float64(hs[cols]), float64(hs[cols+1])
+		v := bilinear(z00, z01, z10, z11, fy, fx)
+		if v != v {
+			if v = voidMean(z00, z01, z10, z11); v != v {
+				v = 0
+				voids++
+			}
+		}
+		elev[i] = v
+	}
+	return len(lats), voids
 }

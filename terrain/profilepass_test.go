@@ -7,12 +7,14 @@ import (
 	"testing"
 )
 
-// TestProfileOnePass: Profile places the samples and takes their heights
-// in one pass (profileSamples); it must give to the last bit what the two
-// separate steps give, Line.Positions (Karney 2013 nodes, cubic Hermite
-// between them; checked against Line.Position in TestProfileGridSampling)
-// then the height of every sample (profileHeights): distances, positions,
-// heights, the files used in their order, NoData and the missing tiles.
+// TestProfileOnePass: Profile places the samples stretch by stretch with
+// cached weights (profileSamples) and reads runs of heights inside one tile
+// without a call (gridCursor.heightsInTile); it must give to the last bit
+// what the plain steps give, Line.Positions (Karney 2013 nodes, cubic
+// Hermite between them; checked against Line.Position in
+// TestProfileGridSampling) then every sample's height looked up on its own
+// (heightWalk.height): distances, positions, heights, the files used in
+// their order, NoData and the missing tiles.
 // Profiles run over a 2×2 mosaic of 3″ tiles with voids, off it (missing
 // tiles), across the antimeridian, and beyond 75° where every position is
 // exact.
@@ -56,8 +58,13 @@ func TestProfileOnePass(t *testing.T) {
 		q.DistM, q.Lat, q.Lon, q.ElevM = grow(q.DistM, n), grow(q.Lat, n), grow(q.Lon, n), grow(q.ElevM, n)
 		q.Sources, q.NoData = q.Sources[:0], 0
 		profilePositions(&line, c.lat1, c.lon1, c.lat2, c.lon2, p.StepM, &q)
-		if err := want.profileHeights(&q); err != nil {
-			t.Fatal(err)
+		w := want.newHeightWalk(&q)
+		for i := range n {
+			h, err := w.height(q.Lat[i], q.Lon[i])
+			if err != nil {
+				t.Fatal(err)
+			}
+			q.ElevM[i] = h
 		}
 		for i := range n {
 			for _, v := range [][2]float64{{p.DistM[i], q.DistM[i]}, {p.Lat[i], q.Lat[i]}, {p.Lon[i], q.Lon[i]}, {p.ElevM[i], q.ElevM[i]}} {
