@@ -88,10 +88,12 @@ type Geometry struct {
 }
 
 // Measure fills g with the terrain profile between a and b along the WGS84
-// geodesic (Karney), at the Env's step.
+// geodesic (Karney), at the Env's step: the heights alone
+// (terrain.Set.ProfileHeights); SampleDistanceM and SamplePosition give a
+// sample's place.
 func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 	g.From, g.To = a, b
-	if err := e.terrainSet().Profile(a.Lat(), a.Lon(), b.Lat(), b.Lon(), e.StepM, &g.Profile); err != nil {
+	if err := e.terrainSet().ProfileHeights(a.Lat(), a.Lon(), b.Lat(), b.Lon(), e.StepM, &g.Profile); err != nil {
 		return err
 	}
 	g.Source = "terrain"
@@ -99,7 +101,7 @@ func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 	if g.Profile.NoData == len(g.Profile.ElevM) {
 		g.Source = "smooth earth"
 	}
-	n := len(g.Profile.DistM)
+	n := g.Profile.Len()
 	if cap(g.path.DistKM) < n {
 		g.path.DistKM = make([]float64, n)
 	}
@@ -117,6 +119,36 @@ func (e *Env) Measure(a, b orb.Point, g *Geometry) error {
 	}
 	dist[n-1] = g.Profile.DistanceM * 0.001
 	return nil
+}
+
+// SampleDistanceM returns the distance of sample i of g's profile from
+// g.From along the path, metres.
+func (g *Geometry) SampleDistanceM(i int) float64 {
+	p := &g.Profile
+	if i < len(p.DistM) {
+		return p.DistM[i]
+	}
+	if i == p.Len()-1 {
+		return p.DistanceM
+	}
+	return float64(i) * p.StepM
+}
+
+// SamplePosition returns the latitude and longitude of sample i of g's
+// profile, degrees: on the WGS84 geodesic from g.From to g.To (Karney,
+// "Algorithms for geodesics", J. Geodesy 87, 2013) for a measured
+// profile, 0, 0 for a profile given without positions.
+func (g *Geometry) SamplePosition(i int) (lat, lon float64) {
+	p := &g.Profile
+	if i < len(p.Lat) {
+		return p.Lat[i], p.Lon[i]
+	}
+	line, _ := terrain.InverseLine(g.From.Lat(), g.From.Lon(), g.To.Lat(), g.To.Lon())
+	lat, lon = line.Position(g.SampleDistanceM(i))
+	if lon >= 180 {
+		lon -= 360
+	}
+	return lat, lon
 }
 
 // GeometryFromPath makes a Geometry from a profile given directly (a
@@ -279,7 +311,7 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		ClutterLossDB:    txL.clutterDB + rxL.clutterDB,
 	}
 	lv := b.Levels()
-	n := len(g.Profile.DistM)
+	n := g.Profile.Len()
 	r := LinkResult{
 		From: tx.Name, To: rx.Name,
 		FreqMHz:          freqMHz,
@@ -328,11 +360,12 @@ func (e *Env) Evaluate(g *Geometry, tx, rx End, freqMHz float64, txAtFrom bool) 
 		c := loss.WorstClearanceF1
 		r.WorstClearanceF1 = &c
 		i := loss.ObstacleIndex
-		d := g.Profile.DistM[i]
+		d := g.SampleDistanceM(i)
 		if !txAtFrom {
 			d = g.Profile.DistanceM - d
 		}
-		r.Obstacle = &Obstacle{DistanceM: d, Lat: g.Profile.Lat[i], Lon: g.Profile.Lon[i], ElevationM: g.Profile.ElevM[i]}
+		lat, lon := g.SamplePosition(i)
+		r.Obstacle = &Obstacle{DistanceM: d, Lat: lat, Lon: lon, ElevationM: g.Profile.ElevM[i]}
 	}
 	if m, ok := e.model().(propagation.ITM); ok {
 		r.ITM = newITMReport(m, loss.ITM, !txAtFrom)

@@ -306,8 +306,12 @@ func terrainBlock(dist, hgt []float64, d0, hts, slope, dp, hp, v1, v2, amax floa
 		if hob := h - hts - slope*di; hob > m {
 			m = hob
 		}
-		if a := math.Abs(h); a > amax {
-			amax = a
+		// amax = max(amax, |h|) with amax ≥ 0, by comparisons only (math.Abs
+		// here costs a trip through an integer register).
+		if h > amax {
+			amax = h
+		} else if -h > amax {
+			amax = -h
 		}
 	}
 	return m, dp, hp, v1, v2, amax, -1

@@ -81,3 +81,72 @@ func TestProfileOnePass(t *testing.T) {
 		t.Errorf("missing tiles %v, two steps give %v", g, w)
 	}
 }
+
+// TestProfileHeightsAgainstProfile: ProfileHeights interpolates the
+// samples in the rows and columns of the tile in use, Profile in latitude
+// and longitude; the two are the same affine map up to rounding, so the
+// heights must agree within 1e−9 m, with the same length, step, azimuths,
+// files used, NoData and missing tiles, and no positions. Same paths as
+// TestProfileOnePass: a mosaic with voids, off it, across the
+// antimeridian, beyond 75°, steps over the node spacing.
+func TestProfileHeightsAgainstProfile(t *testing.T) {
+	dir := htMosaicRaw(t)
+	open := func() *Set {
+		s, err := Open(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return s
+	}
+	got, want := open(), open()
+	type path struct{ lat1, lon1, lat2, lon2, step float64 }
+	paths := []path{
+		{45.2, 8, 46.8, 8, 0},
+		{45, 7, 47, 9, 0},
+		{45.5, 7.5, 45.5001, 7.5, 0},
+		{44.5, 6.5, 47.5, 9.5, 0},
+		{46.9, 8.9, 45.1, 7.05, 0},
+		{10, 179.9, 10.3, -179.8, 90},
+		{74.5, 20, 76.5, 21, 30},
+		{-80, 10, -79, 170, 500},
+		{45.5, 7.5, 46.5, 8.5, 3000},
+		{45.5, 7.5, 46.5, 8.5, 1000},
+		{45.95, 7.95, 46.05, 8.05, 0.5},
+		{45.5, 7.5, 45.5, 7.5, 0}, // one place
+	}
+	rng := rand.New(rand.NewPCG(7, 9))
+	for range 120 {
+		paths = append(paths, path{44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, 44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, []float64{0, 7.5, 30, 90}[rng.IntN(4)]})
+	}
+	var p, q Profile
+	worst := 0.0
+	for k, c := range paths {
+		if err := got.ProfileHeights(c.lat1, c.lon1, c.lat2, c.lon2, c.step, &p); err != nil {
+			t.Fatal(err)
+		}
+		if err := want.Profile(c.lat1, c.lon1, c.lat2, c.lon2, c.step, &q); err != nil {
+			t.Fatal(err)
+		}
+		if p.Len() != q.Len() || p.DistanceM != q.DistanceM || p.StepM != q.StepM || p.AzimuthDeg != q.AzimuthDeg || p.BackAzimuthDeg != q.BackAzimuthDeg {
+			t.Fatalf("path %d: %d samples, %v m, step %v m, azimuths %v %v; Profile gives %d, %v, %v, %v %v",
+				k, p.Len(), p.DistanceM, p.StepM, p.AzimuthDeg, p.BackAzimuthDeg, q.Len(), q.DistanceM, q.StepM, q.AzimuthDeg, q.BackAzimuthDeg)
+		}
+		if len(p.DistM)+len(p.Lat)+len(p.Lon) != 0 {
+			t.Fatalf("path %d: positions filled (%d, %d, %d)", k, len(p.DistM), len(p.Lat), len(p.Lon))
+		}
+		for i := range p.ElevM {
+			d := math.Abs(p.ElevM[i] - q.ElevM[i])
+			worst = max(worst, d)
+			if !(d <= 1e-9) {
+				t.Fatalf("path %d sample %d of %d: %v m, Profile gives %v m", k, i, p.Len(), p.ElevM[i], q.ElevM[i])
+			}
+		}
+		if p.NoData != q.NoData || !slices.Equal(p.Sources, q.Sources) {
+			t.Fatalf("path %d: NoData %d, sources %v; Profile gives %d, %v", k, p.NoData, p.Sources, q.NoData, q.Sources)
+		}
+	}
+	if g, w := got.Missing(), want.Missing(); !slices.Equal(g, w) {
+		t.Errorf("missing tiles %v, Profile gives %v", g, w)
+	}
+	t.Logf("largest height difference %.3g m", worst)
+}

@@ -368,7 +368,7 @@ func briefingProfiles(p *plan.Plan, env *plan.Env, res *plan.PlanResult, im bool
 		}
 		out = append(out, report.BriefingProfile{
 			Title: pr.station + " to " + pr.target,
-			DistM: slices.Clone(geom.Profile.DistM), ElevM: slices.Clone(geom.Profile.ElevM),
+			DistM: sampleDistances(&geom), ElevM: slices.Clone(geom.Profile.ElevM),
 			FromHeightM: a.Antenna.HeightM, ToHeightM: b.Antenna.HeightM, FreqMHz: worst.FreqMHz,
 			Note: profileNote(pr, res.NeededMarginDB, im),
 		})
@@ -457,4 +457,14 @@ func briefingExposureLabel(e plan.StationExposure) string {
 		return e.Station + " (recommended mast)"
 	}
 	return e.Station
+}
+
+// sampleDistances returns the distance of every sample of g's profile from
+// its start, metres.
+func sampleDistances(g *plan.Geometry) []float64 {
+	d := make([]float64, g.Profile.Len())
+	for i := range d {
+		d[i] = g.SampleDistanceM(i)
+	}
+	return d
 }
