@@ -6,7 +6,6 @@ import (
 	"slices"
 
 	"github.com/mastlink/mastlink/plan/units"
-	"github.com/mastlink/mastlink/propagation"
 )
 
 // Link directions. A repeater's talk-in is the station transmitting on the
@@ -119,8 +118,7 @@ func newTargetLegs(near End, t Target) (targetLegs, error) {
 // one reading of the profile for both frequencies of a repeater
 // (Env.PathLosses).
 func (e *Env) pathLosses(g *Geometry, tl *targetLegs, nearHeightM float64, loss *[2]float64) error {
-	var rs [len(loss)]propagation.Result
-	out := rs[:len(tl.freqsMHz)]
+	out := g.results[:len(tl.freqsMHz)] // kept in g: a local array would escape through the model's interface
 	if err := e.PathLosses(g, nearHeightM, tl.target.Antenna.HeightM, tl.freqsMHz, out); err != nil {
 		return fmt.Errorf("%s: %w", tl.target.Name, err)
 	}

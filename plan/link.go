@@ -85,6 +85,9 @@ type Geometry struct {
 	// modelWarn gathers the ITM warnings of every PathLoss over the path
 	// since it was measured.
 	modelWarn propagation.ITMWarnings
+	// results holds the losses of pathLosses (a repeater's two
+	// frequencies) without an allocation per path.
+	results [2]propagation.Result
 }
 
 // Measure fills g with the terrain profile between a and b along the WGS84

@@ -68,8 +68,8 @@ type FrequencyModel interface {
 // one path: by m's own LossAtFrequencies when m is a FrequencyModel, else
 // by one Loss call per frequency. out must have the length of freqsMHz.
 func LossAtFrequencies(m Model, p Path, prm Params, freqsMHz []float64, out []Result) error {
-	if len(out) != len(freqsMHz) {
-		return fmt.Errorf("%w: %d results for %d frequencies", ErrBadParams, len(out), len(freqsMHz))
+	if err := checkResults(freqsMHz, out); err != nil {
+		return err
 	}
 	if fm, ok := m.(FrequencyModel); ok {
 		return fm.LossAtFrequencies(p, prm, freqsMHz, out)
@@ -85,29 +85,38 @@ func LossAtFrequencies(m Model, p Path, prm Params, freqsMHz []float64, out []Re
 	return nil
 }
 
-// scanAtFrequencies sets out[k] to result(rp, s) for frequency
-// freqsMHz[k], with the resolved parameters and the profile scan at that
-// frequency, scanning the profile once: the scan depends on the frequency
-// only through ν of ITU-R P.526-16 eq. 51 (profileScan.atWavelength).
-func scanAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result, result func(rp params, s *profileScan) Result) error {
+// frequencyScan scans a path once for several frequencies: the scan
+// depends on the frequency only through ν of ITU-R P.526-16 eq. 51
+// (profileScan.atWavelength).
+type frequencyScan struct {
+	s       profileScan
+	scanned bool
+}
+
+// at returns the resolved parameters of prm at freqMHz, with f.s the scan
+// of p at that frequency: the first call scans p, the next ones only
+// set ν.
+func (f *frequencyScan) at(p Path, prm Params, freqMHz float64) (params, error) {
+	prm.FreqMHz = freqMHz
+	rp, err := prm.resolve()
+	if err != nil {
+		return rp, err
+	}
+	if !f.scanned {
+		if f.s, err = scanProfile(p, rp); err != nil {
+			return rp, err
+		}
+		f.scanned = true
+		return rp, nil
+	}
+	f.s.atWavelength(rp.wavelengthM)
+	return rp, nil
+}
+
+// checkResults checks that out has one entry per frequency.
+func checkResults(freqsMHz []float64, out []Result) error {
 	if len(out) != len(freqsMHz) {
 		return fmt.Errorf("%w: %d results for %d frequencies", ErrBadParams, len(out), len(freqsMHz))
-	}
-	var s profileScan
-	for k, f := range freqsMHz {
-		prm.FreqMHz = f
-		rp, err := prm.resolve()
-		if err != nil {
-			return err
-		}
-		if k == 0 {
-			if s, err = scanProfile(p, rp); err != nil {
-				return err
-			}
-		} else {
-			s.atWavelength(rp.wavelengthM)
-		}
-		out[k] = result(rp, &s)
 	}
 	return nil
 }
@@ -142,7 +151,18 @@ func (m FreeSpace) result(rp params, s *profileScan) Result {
 // LossAtFrequencies is Loss at each of freqsMHz, reading the profile once
 // (see FrequencyModel).
 func (m FreeSpace) LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error {
-	return scanAtFrequencies(p, prm, freqsMHz, out, func(rp params, s *profileScan) Result { return m.result(rp, s) })
+	if err := checkResults(freqsMHz, out); err != nil {
+		return err
+	}
+	var f frequencyScan
+	for k, freq := range freqsMHz {
+		rp, err := f.at(p, prm, freq)
+		if err != nil {
+			return err
+		}
+		out[k] = m.result(rp, &f.s)
+	}
+	return nil
 }
 
 // Terrain is the Model of free-space loss plus diffraction over the terrain
@@ -182,7 +202,18 @@ func (m Terrain) result(p Path, rp params, s *profileScan) Result {
 // profile for all of them (see FrequencyModel); the rest of
 // delta-Bullington (the smooth profile, eqs. 60–66) is per frequency.
 func (m Terrain) LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error {
-	return scanAtFrequencies(p, prm, freqsMHz, out, func(rp params, s *profileScan) Result { return m.result(p, rp, s) })
+	if err := checkResults(freqsMHz, out); err != nil {
+		return err
+	}
+	var f frequencyScan
+	for k, freq := range freqsMHz {
+		rp, err := f.at(p, prm, freq)
+		if err != nil {
+			return err
+		}
+		out[k] = m.result(p, rp, &f.s)
+	}
+	return nil
 }
 
 func baseResult(name string, s *profileScan, rp params) Result {

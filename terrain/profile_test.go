@@ -329,7 +329,8 @@ func BenchmarkTileAt(b *testing.B) {
 }
 
 // BenchmarkProfile100km1as: a 100 km profile over a 1″ tile at the default
-// step, tile cached, reusing the Profile.
+// step, tile cached, reusing the Profile, with the positions (Profile) and
+// without (ProfileHeights).
 func BenchmarkProfile100km1as(b *testing.B) {
 	for _, c := range []struct {
 		name                   string
@@ -355,11 +356,19 @@ func BenchmarkProfile100km1as(b *testing.B) {
 			if p.DistanceM < 99e3 || p.DistanceM > 101e3 {
 				b.Fatalf("path of %v m; want about 100 km", p.DistanceM)
 			}
-			b.ReportAllocs()
-			for b.Loop() {
-				set.Profile(c.lat1, c.lon1, c.lat2, c.lon2, 0, &p)
+			for _, f := range []struct {
+				name string
+				fill func(lat1, lon1, lat2, lon2, stepM float64, dst *Profile) error
+			}{{"positions", set.Profile}, {"heights", set.ProfileHeights}} {
+				b.Run(f.name, func(b *testing.B) {
+					b.ReportAllocs()
+					for b.Loop() {
+						f.fill(c.lat1, c.lon1, c.lat2, c.lon2, 0, &p)
+					}
+					b.ReportMetric(float64(p.Len()), "samples")
+					b.ReportMetric(b.Elapsed().Seconds()*1e9/float64(b.N)/float64(p.Len()), "ns/sample")
+				})
 			}
-			b.ReportMetric(float64(p.Len()), "samples")
 		})
 	}
 }
