@@ -469,18 +469,20 @@ func (g *gridCursor) stretchHeights(st *stretch, from int, out []float64) (done,
 	yA, xA := st.dLat*iy, st.dLon*ix             // times h01
 	yB, xB := st.dlat0*st.h*iy, st.dlon0*st.h*ix // times the h10 weight
 	yC, xC := st.dlat1*st.h*iy, st.dlon1*st.h*ix // times the h11 weight
-	maxY, maxX, maxR, maxC := g.maxY, g.maxX, g.maxR, g.maxC
+	// Strictly inside the last row and column, so that the 2×2 cell
+	// starts at the truncated row and column; a sample on the last row or
+	// column is looked up, with the same answer.
+	maxY, maxX := g.maxY, g.maxX
 	cols, hgt := g.cols, g.h
 	wt := st.wt
 	for i := from; i < len(out); i++ {
 		c := wt[3*i : 3*i+3 : 3*i+3]
 		y := y0 + c[0]*yA + c[1]*yB + c[2]*yC
 		x := x0 + c[0]*xA + c[1]*xB + c[2]*xC
-		if !(y >= 0 && y <= maxY && x >= 0 && x <= maxX) {
+		if !(y >= 0 && y < maxY && x >= 0 && x < maxX) {
 			return i - from, voids
 		}
-		r := min(int(y), maxR)
-		cc := min(int(x), maxC)
+		r, cc := int(y), int(x)
 		fy, fx := y-float64(r), x-float64(cc)
 		o := r*cols + cc
 		hs := hgt[o : o+cols+2 : o+cols+2] // one bounds check for the four samples
@@ -627,17 +629,17 @@ func (g *gridCursor) heightsInTile(lats, lons, elev []float64) (done, voids int)
 		return 0, 0
 	}
 	lat0, lon0, invDLat, invDLon := g.lat0, g.lon0, g.invDLat, g.invDLon
-	maxY, maxX, maxR, maxC := g.maxY, g.maxX, g.maxR, g.maxC
+	// Strictly inside the last row and column, as in stretchHeights.
+	maxY, maxX := g.maxY, g.maxX
 	cols, hgt := g.cols, g.h
 	lons, elev = lons[:len(lats)], elev[:len(lats)]
 	for i, lat := range lats {
 		y := (lat0 - lat) * invDLat
 		x := (lons[i] - lon0) * invDLon
-		if !(y >= 0 && y <= maxY && x >= 0 && x <= maxX) {
+		if !(y >= 0 && y < maxY && x >= 0 && x < maxX) {
 			return i, voids
 		}
-		r := min(int(y), maxR)
-		c := min(int(x), maxC)
+		r, c := int(y), int(x)
 		fy, fx := y-float64(r), x-float64(c)
 		o := r*cols + c
 		hs := hgt[o : o+cols+2 : o+cols+2] // one bounds check for the four samples
