@@ -290,31 +290,74 @@ func (s *profileScan) atWavelength(wavelengthM float64) {
 // (eq. 61a). bad is the index in the block of the first point whose
 // distance does not increase or whose height is not a number, −1 if none;
 // the values returned are then meaningless. A function of its own keeps
-// every running value in a register.
+// every running value in a register; the maximum is taken on orderKey.
 func terrainBlock(dist, hgt []float64, d0, hts, slope, dp, hp, v1, v2, amax float64) (m, dpOut, hpOut, v1Out, v2Out, amaxOut float64, bad int) {
-	m = math.Inf(-1)
+	mk := orderKey(math.Inf(-1)) // the running maximum of h_i − h_ts − slope·d_i as orderKey
 	dist = dist[:len(hgt)]
-	for i, h := range hgt {
+	// Two points a turn, each value by the same expression and the sums
+	// in the same order as one at a time; a pair with a bad point is left
+	// to the loop below, which names it.
+	i := 0
+	for ; i+1 < len(hgt); i += 2 {
+		h1, h2 := hgt[i], hgt[i+1]
+		d1, d2 := dist[i]-d0, dist[i+1]-d0
+		if !(d1 > dp) || !(d2 > d1) || h1-h1 != 0 || h2-h2 != 0 {
+			break
+		}
+		dd := d1 - dp
+		v1 += dd * (h1 + hp)
+		v2 += dd * (h1*(2*d1+dp) + hp*(d1+2*dp))
+		dd = d2 - d1
+		v1 += dd * (h2 + h1)
+		v2 += dd * (h2*(2*d2+d1) + h1*(d2+2*d1))
+		dp, hp = d2, h2
+		mk = max(mk, orderKey(h1-hts-slope*d1))
+		mk = max(mk, orderKey(h2-hts-slope*d2))
+		amax = maxAbs(amax, h1)
+		amax = maxAbs(amax, h2)
+	}
+	for ; i < len(hgt); i++ {
+		h := hgt[i]
 		di := dist[i] - d0
 		if !(di > dp) || h-h != 0 { // not increasing; NaN or ±Inf
-			return m, dp, hp, v1, v2, amax, i
+			return 0, dp, hp, v1, v2, amax, i
 		}
 		dd := di - dp
 		v1 += dd * (h + hp)
 		v2 += dd * (h*(2*di+dp) + hp*(di+2*dp))
 		dp, hp = di, h
-		if hob := h - hts - slope*di; hob > m {
-			m = hob
-		}
-		// amax = max(amax, |h|) with amax ≥ 0, by comparisons only (math.Abs
-		// here costs a trip through an integer register).
-		if h > amax {
-			amax = h
-		} else if -h > amax {
-			amax = -h
-		}
+		mk = max(mk, orderKey(h-hts-slope*di))
+		amax = maxAbs(amax, h)
 	}
-	return m, dp, hp, v1, v2, amax, -1
+	return fromOrderKey(mk), dp, hp, v1, v2, amax, -1
+}
+
+// orderKey maps a float64 that is not NaN to an int64 in the same order
+// (IEEE 754 bit patterns: sign and magnitude, negatives reversed), so a
+// running maximum is an integer one, without a branch to mispredict on
+// rough terrain. −0 orders just below +0, where a comparison keeps the
+// first of the two; they are equal as numbers, and the block maxima only
+// bound the block's values or, as h_obs of eq. 61a, count when above 0.
+func orderKey(x float64) int64 {
+	k := int64(math.Float64bits(x))
+	return k ^ int64(uint64(k>>63)>>1)
+}
+
+// fromOrderKey is the inverse of orderKey.
+func fromOrderKey(k int64) float64 {
+	return math.Float64frombits(uint64(k ^ int64(uint64(k>>63)>>1)))
+}
+
+// maxAbs returns max(a, |h|) for a ≥ 0 by comparisons only (math.Abs costs
+// a trip through an integer register here).
+func maxAbs(a, h float64) float64 {
+	if h > a {
+		return h
+	}
+	if -h > a {
+		return -h
+	}
+	return a
 }
 
 // scanner reads blocks of a profile for the maxima of scanProfile.
