@@ -417,7 +417,7 @@ func (s *Set) heightSamples(line *Line, lat1, lon1, lat2, lon2, step float64, ds
 // second dLat and dLon further with derivatives (dlat1, dlon1), degrees
 // and degrees per metre.
 type stretch struct {
-	wt                         []float64
+	wt                         *hermiteWeights
 	h, lat0, lon0, dLat, dLon  float64
 	dlat0, dlon0, dlat1, dlon1 float64
 }
@@ -426,10 +426,9 @@ type stretch struct {
 // (0 at the first node), degrees, the longitude in [−180, 180), by the
 // expressions of hermiteStretch.
 func (st *stretch) position(i int) (lat, lon float64) {
-	c := st.wt[3*i : 3*i+3 : 3*i+3]
-	h01 := c[0]
-	h10 := c[1] * st.h
-	h11 := c[2] * st.h
+	h01 := st.wt.h01[i]
+	h10 := st.wt.a10[i] * st.h
+	h11 := st.wt.a11[i] * st.h
 	lat = st.lat0 + h01*st.dLat + h10*st.dlat0 + h11*st.dlat1
 	lon = st.lon0 + h01*st.dLon + h10*st.dlon0 + h11*st.dlon1
 	if lon > 180 {
@@ -469,25 +468,32 @@ func (g *gridCursor) stretchHeights(st *stretch, from int, out []float64) (done,
 	yA, xA := st.dLat*iy, st.dLon*ix             // times h01
 	yB, xB := st.dlat0*st.h*iy, st.dlon0*st.h*ix // times the h10 weight
 	yC, xC := st.dlat1*st.h*iy, st.dlon1*st.h*ix // times the h11 weight
-	// Strictly inside the last row and column, so that the 2×2 cell
-	// starts at the truncated row and column; a sample on the last row or
-	// column is looked up, with the same answer.
+	// Samples must lie strictly inside the last row and column, so that
+	// the 2×2 cell starts at the truncated row and column; a sample on the
+	// last row or column is looked up, with the same answer.
 	maxY, maxX := g.maxY, g.maxX
+	// The curve strays from its chord by at most 4/27 (|yB − yA| +
+	// |yC − yA|) rows: with a10 = t(1−t)² and a11 = −t²(1−t), h01 − t =
+	// −(a10 + a11), so y − chord = a10 (yB − yA) + a11 (yC − yA), and
+	// |a10|, |a11| ≤ 4/27. When the chord's box widened by that (and by
+	// far more than rounding) is inside, no sample needs checking.
+	checked := !(boxInside(y0, yA, 4.0/27*(math.Abs(yB-yA)+math.Abs(yC-yA)), maxY) &&
+		boxInside(x0, xA, 4.0/27*(math.Abs(xB-xA)+math.Abs(xC-xA)), maxX))
 	cols, hgt := g.cols, g.h
-	wt := st.wt
-	for i := from; i < len(out); i++ {
-		c := wt[3*i : 3*i+3 : 3*i+3]
-		y := y0 + c[0]*yA + c[1]*yB + c[2]*yC
-		x := x0 + c[0]*xA + c[1]*xB + c[2]*xC
-		if !(y >= 0 && y < maxY && x >= 0 && x < maxX) {
+	n := len(out)
+	w01, w10, w11 := st.wt.h01[:n], st.wt.a10[:n], st.wt.a11[:n]
+	for i := from; i < n; i++ {
+		y := y0 + w01[i]*yA + w10[i]*yB + w11[i]*yC
+		x := x0 + w01[i]*xA + w10[i]*xB + w11[i]*xC
+		if checked && !(y >= 0 && y < maxY && x >= 0 && x < maxX) {
 			return i - from, voids
 		}
 		r, cc := int(y), int(x)
 		fy, fx := y-float64(r), x-float64(cc)
 		o := r*cols + cc
-		hs := hgt[o : o+cols+2 : o+cols+2] // one bounds check for the four samples
-		z00, z01 := float64(hs[0]), float64(hs[1])
-		z10, z11 := float64(hs[cols]), float64(hs[cols+1])
+		top, bot := hgt[o:o+2:o+2], hgt[o+cols:o+cols+2:o+cols+2]
+		z00, z01 := float64(top[0]), float64(top[1])
+		z10, z11 := float64(bot[0]), float64(bot[1])
 		v := bilinear(z00, z01, z10, z11, fy, fx)
 		if v != v {
 			if v = voidMean(z00, z01, z10, z11); v != v {
@@ -500,6 +506,14 @@ func (g *gridCursor) stretchHeights(st *stretch, from int, out []float64) (done,
 	return len(out) - from, voids
 }
 
+// boxInside reports whether every value within dev of the segment from v0
+// to v0 + dv lies in [0, last) with a margin of 1e−6 (rows or columns:
+// far beyond the rounding of values below 10⁶).
+func boxInside(v0, dv, dev, last float64) bool {
+	lo, hi := min(v0, v0+dv), max(v0, v0+dv)
+	return lo-dev-1e-6 >= 0 && hi+dev+1e-6 < last
+}
+
 // hermiteStretch sets the positions of the samples strictly between two
 // exact geodesic nodes, h metres apart, by cubic Hermite interpolation:
 // wt holds the weights (hermiteCache.weights), the first node is at (lat0,
@@ -508,13 +522,14 @@ func (g *gridCursor) stretchHeights(st *stretch, from int, out []float64) (done,
 // i of the stretch (i from 1) is sample j+i of the profile, at distance
 // (j+i)·step metres, stored at index i−1 of dist, lats and lons with its
 // longitude in [−180, 180).
-func hermiteStretch(wt []float64, h, lat0, lon0, dLat, dLon, dlat0, dlon0, dlat1, dlon1, step float64, j int, dist, lats, lons []float64) {
-	lats, lons = lats[:len(dist)], lons[:len(dist)]
+func hermiteStretch(wt *hermiteWeights, h, lat0, lon0, dLat, dLon, dlat0, dlon0, dlat1, dlon1, step float64, j int, dist, lats, lons []float64) {
+	n := len(dist)
+	lats, lons = lats[:n], lons[:n]
+	w01, w10, w11 := wt.h01[1:n+1], wt.a10[1:n+1], wt.a11[1:n+1]
 	for i := range dist {
-		c := wt[3*i+3 : 3*i+6 : 3*i+6]
-		h01 := c[0]
-		h10 := c[1] * h
-		h11 := c[2] * h
+		h01 := w01[i]
+		h10 := w10[i] * h
+		h11 := w11[i] * h
 		lat := lat0 + h01*dLat + h10*dlat0 + h11*dlat1
 		lon := lon0 + h01*dLon + h10*dlon0 + h11*dlon1
 		if lon > 180 {
@@ -534,35 +549,41 @@ func hermiteStretch(wt []float64, h, lat0, lon0, dLat, dLon, dlat0, dlon0, dlat1
 // used less recently is replaced.
 type hermiteCache struct {
 	k    [2]int
-	w    [2][]float64
+	w    [2]hermiteWeights
 	next int
 }
 
-// weights returns h01, and the slope weights of h10 and h11 before their
-// factor h, for the points i = 1 … kk−1 of a stretch of kk steps (3 per
-// point, from index 3), computed by the expressions of Line.Positions.
-func (c *hermiteCache) weights(kk int) []float64 {
+// hermiteWeights are the weights of cubic Hermite interpolation at the
+// points i = 0 … kk−1 of a stretch of kk steps, t = i/kk: h01 (of the
+// second node's value; h00 = 1 − h01 is folded into the difference), and
+// a10 and a11, the weights of the two slopes before their factor, the
+// stretch's length h. Index 0 is the first node (all zero).
+type hermiteWeights struct {
+	h01, a10, a11 []float64
+}
+
+// weights returns the weights for a stretch of kk steps, computed by the
+// expressions of Line.Positions.
+func (c *hermiteCache) weights(kk int) *hermiteWeights {
 	for s := range c.k {
-		if c.k[s] == kk && c.w[s] != nil {
+		if c.k[s] == kk && c.w[s].h01 != nil {
 			c.next = 1 - s // the other one goes first
-			return c.w[s]
+			return &c.w[s]
 		}
 	}
 	s := c.next
 	c.next = 1 - s
-	w := c.w[s][:0]
-	if cap(w) < 3*kk {
-		w = make([]float64, 0, 3*kk)
-	}
-	w = append(w, 0, 0, 0)
+	w := &c.w[s]
+	w.h01, w.a10, w.a11 = grow(w.h01, kk), grow(w.a10, kk), grow(w.a11, kk)
+	w.h01[0], w.a10[0], w.a11[0] = 0, 0, 0
 	inv := 1 / float64(kk)
 	for i := 1; i < kk; i++ {
 		t := float64(i) * inv
 		t2 := t * t
 		t3 := t2 * t
-		w = append(w, 3*t2-2*t3, t3-2*t2+t, t3-t2)
+		w.h01[i], w.a10[i], w.a11[i] = 3*t2-2*t3, t3-2*t2+t, t3-t2
 	}
-	c.k[s], c.w[s] = kk, w
+	c.k[s] = kk
 	return w
 }
 
@@ -642,9 +663,9 @@ func (g *gridCursor) heightsInTile(lats, lons, elev []float64) (done, voids int)
 		r, c := int(y), int(x)
 		fy, fx := y-float64(r), x-float64(c)
 		o := r*cols + c
-		hs := hgt[o : o+cols+2 : o+cols+2] // one bounds check for the four samples
-		z00, z01 := float64(hs[0]), float64(hs[1])
-		z10, z11 := float64(hs[cols]), float64(hs[cols+1])
+		top, bot := hgt[o:o+2:o+2], hgt[o+cols:o+cols+2:o+cols+2]
+		z00, z01 := float64(top[0]), float64(top[1])
+		z10, z11 := float64(bot[0]), float64(bot[1])
 		v := bilinear(z00, z01, z10, z11, fy, fx)
 		if v != v {
 			if v = voidMean(z00, z01, z10, z11); v != v {

@@ -150,3 +150,36 @@ func TestProfileHeightsAgainstProfile(t *testing.T) {
 	}
 	t.Logf("largest height difference %.3g m", worst)
 }
+
+// TestHermiteChordBound checks the bound stretchHeights relies on to skip
+// the per-sample check: a cubic Hermite curve with end difference A and
+// end slopes times length B, C strays from its chord by at most
+// 4/27 (|B − A| + |C − A|), on random curves, at 2001 points each, with
+// the basis functions of Line.Positions (hermiteCache.weights); and the
+// bound is reached (within 1e−6) by the curves it is sharp for.
+func TestHermiteChordBound(t *testing.T) {
+	var c hermiteCache
+	w := c.weights(2000)
+	rng := rand.New(rand.NewPCG(3, 4))
+	for k := range 2000 {
+		a := (rng.Float64() - 0.5) * 200
+		b := a + (rng.Float64()-0.5)*math.Pow(10, float64(rng.IntN(5)-2))
+		cc := a + (rng.Float64()-0.5)*math.Pow(10, float64(rng.IntN(5)-2))
+		if k == 0 { // sharp: only the first slope differs; its largest stray is at t = 1/3
+			a, b, cc = 0, 1, 0
+		}
+		bound := 4.0 / 27 * (math.Abs(b-a) + math.Abs(cc-a))
+		worst := 0.0
+		for i := range 2000 {
+			tt := float64(i) / 2000
+			y := w.h01[i]*a + w.a10[i]*b + w.a11[i]*cc
+			worst = max(worst, math.Abs(y-tt*a))
+		}
+		if worst > bound*(1+1e-12)+1e-12 {
+			t.Fatalf("curve %d (A %g, B %g, C %g): strays %g from its chord, bound %g", k, a, b, cc, worst, bound)
+		}
+		if k == 0 && worst < bound-1e-6 {
+			t.Errorf("sharp curve strays %g, bound %g: the bound is loose", worst, bound)
+		}
+	}
+}
