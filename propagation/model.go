@@ -68,8 +68,8 @@ type FrequencyModel interface {
 // one path: by m's own LossAtFrequencies when m is a FrequencyModel, else
 // by one Loss call per frequency. out must have the length of freqsMHz.
 func LossAtFrequencies(m Model, p Path, prm Params, freqsMHz []float64, out []Result) error {
-	if err := checkResults(freqsMHz, out); err != nil {
-		return err
+	if len(out) != len(freqsMHz) {
+		return fmt.Errorf("%w: %d results for %d frequencies", ErrBadParams, len(out), len(freqsMHz))
 	}
 	if fm, ok := m.(FrequencyModel); ok {
 		return fm.LossAtFrequencies(p, prm, freqsMHz, out)
@@ -113,10 +113,28 @@ func (f *frequencyScan) at(p Path, prm Params, freqMHz float64) (params, error) 
 	return rp, nil
 }
 
-// checkResults checks that out has one entry per frequency.
-func checkResults(freqsMHz []float64, out []Result) error {
+// scanLosses sets out[k] to the loss breakdown of p at freqsMHz[k], from
+// one scan of the profile for all of them: free-space loss (ITU-R
+// P.525-4) with the clearance, plus delta-Bullington diffraction (ITU-R
+// P.526-16 §4.5, eq. 66; its smooth profile, eqs. 60–66, per frequency)
+// when diffraction is set. name is the model's.
+func scanLosses(name string, diffraction bool, p Path, prm Params, freqsMHz []float64, out []Result) error {
 	if len(out) != len(freqsMHz) {
 		return fmt.Errorf("%w: %d results for %d frequencies", ErrBadParams, len(out), len(freqsMHz))
+	}
+	var f frequencyScan
+	for k, freq := range freqsMHz {
+		rp, err := f.at(p, prm, freq)
+		if err != nil {
+			return err
+		}
+		r := baseResult(name, &f.s, rp)
+		if diffraction {
+			r.Bullington = deltaBullington(p, rp, &f.s)
+			r.ExcessDB = r.Bullington.LossDB
+		}
+		r.PathLossDB = r.FreeSpaceDB + r.ExcessDB
+		out[k] = r
 	}
 	return nil
 }
@@ -131,38 +149,15 @@ func (FreeSpace) Name() string { return "free-space" }
 // Loss returns the free-space loss over the path length, with the clearance
 // of the profile. ExcessDB is 0.
 func (m FreeSpace) Loss(p Path, prm Params) (Result, error) {
-	rp, err := prm.resolve()
-	if err != nil {
-		return Result{}, err
-	}
-	s, err := scanProfile(p, rp)
-	if err != nil {
-		return Result{}, err
-	}
-	return m.result(rp, &s), nil
-}
-
-func (m FreeSpace) result(rp params, s *profileScan) Result {
-	r := baseResult(m.Name(), s, rp)
-	r.PathLossDB = r.FreeSpaceDB
-	return r
+	var out [1]Result
+	err := scanLosses(m.Name(), false, p, prm, []float64{prm.FreqMHz}, out[:])
+	return out[0], err
 }
 
 // LossAtFrequencies is Loss at each of freqsMHz, reading the profile once
 // (see FrequencyModel).
 func (m FreeSpace) LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error {
-	if err := checkResults(freqsMHz, out); err != nil {
-		return err
-	}
-	var f frequencyScan
-	for k, freq := range freqsMHz {
-		rp, err := f.at(p, prm, freq)
-		if err != nil {
-			return err
-		}
-		out[k] = m.result(rp, &f.s)
-	}
-	return nil
+	return scanLosses(m.Name(), false, p, prm, freqsMHz, out)
 }
 
 // Terrain is the Model of free-space loss plus diffraction over the terrain
@@ -179,41 +174,16 @@ func (Terrain) Name() string { return "terrain" }
 // Loss returns free-space loss plus delta-Bullington diffraction
 // (ExcessDB = BullingtonTerms.LossDB, eq. 66).
 func (m Terrain) Loss(p Path, prm Params) (Result, error) {
-	rp, err := prm.resolve()
-	if err != nil {
-		return Result{}, err
-	}
-	s, err := scanProfile(p, rp)
-	if err != nil {
-		return Result{}, err
-	}
-	return m.result(p, rp, &s), nil
-}
-
-func (m Terrain) result(p Path, rp params, s *profileScan) Result {
-	r := baseResult(m.Name(), s, rp)
-	r.Bullington = deltaBullington(p, rp, s)
-	r.ExcessDB = r.Bullington.LossDB
-	r.PathLossDB = r.FreeSpaceDB + r.ExcessDB
-	return r
+	var out [1]Result
+	err := scanLosses(m.Name(), true, p, prm, []float64{prm.FreqMHz}, out[:])
+	return out[0], err
 }
 
 // LossAtFrequencies is Loss at each of freqsMHz with one scan of the
 // profile for all of them (see FrequencyModel); the rest of
 // delta-Bullington (the smooth profile, eqs. 60–66) is per frequency.
 func (m Terrain) LossAtFrequencies(p Path, prm Params, freqsMHz []float64, out []Result) error {
-	if err := checkResults(freqsMHz, out); err != nil {
-		return err
-	}
-	var f frequencyScan
-	for k, freq := range freqsMHz {
-		rp, err := f.at(p, prm, freq)
-		if err != nil {
-			return err
-		}
-		out[k] = m.result(p, rp, &f.s)
-	}
-	return nil
+	return scanLosses(m.Name(), true, p, prm, freqsMHz, out)
 }
 
 func baseResult(name string, s *profileScan, rp params) Result {

@@ -274,18 +274,14 @@ func (w *heightWalk) height(lat, lon float64) (float64, error) {
 	return h, nil
 }
 
-// profileSamples is profilePositions followed by profileHeights in one
-// pass, with the same values to the last bit: Line.Positions' exact nodes
-// and cubic Hermite interpolation between them (its weights kept from one
-// profile to the next), each sample's height taken as soon as its
-// position is known, inside the tile in use without a call.
+// profileSamples is profilePositions followed by profileHeights, with
+// the same values to the last bit: Line.Positions' exact nodes and cubic
+// Hermite interpolation between them (its weights kept from one profile
+// to the next), then the heights.
 func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Profile) error {
 	n := len(dst.DistM)
-	k := 1
-	if math.Abs(step) > 0 {
-		k = int(min(1024, 2000/math.Abs(step))) // as Line.Positions
-	}
-	if k <= 1 || n < 3 {
+	nw, ok := newNodeWalk(line, step, n)
+	if !ok {
 		profilePositions(line, lat1, lon1, lat2, lon2, step, dst)
 		return s.profileHeights(dst)
 	}
@@ -298,31 +294,20 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 		dist[i], lats[i], lons[i] = float64(i)*step, lat, lon
 	}
 	put(0, lat1, normLon(lon1))
-	lat0, lon0, dlat0, dlon0, ok0 := line.node(0)
-	for j := 0; j < n-1; {
+	for nw.next(line, &dst.hermite) {
+		j, end, st := nw.j, nw.end, &nw.st
 		if j > 0 {
-			put(j, lat0, lon0)
+			put(j, st.lat0, st.lon0)
 		}
-		end := min(j+k, n-1) // the next node
-		lat1, lon1, dlat1, dlon1, ok1 := line.node(float64(end) * step)
-		kk := end - j
-		if !ok0 || !ok1 {
-			for i := j + 1; i < end; i++ {
-				la, lo := line.Position(float64(i) * step)
-				put(i, la, lo)
+		for i := j + 1; i < end; i++ {
+			var la, lo float64
+			if nw.exact {
+				la, lo = line.Position(float64(i) * step)
+			} else {
+				la, lo = st.position(i - j)
 			}
-		} else {
-			dl := lon1 - lon0
-			if dl > 180 {
-				dl -= 360
-			} else if dl < -180 {
-				dl += 360
-			}
-			hermiteStretch(dst.hermite.weights(kk), float64(kk)*step, lat0, lon0, lat1-lat0, dl, dlat0, dlon0, dlat1, dlon1,
-				step, j, dist[j+1:end], lats[j+1:end], lons[j+1:end])
+			put(i, la, lo)
 		}
-		lat0, lon0, dlat0, dlon0, ok0 = lat1, lon1, dlat1, dlon1, ok1
-		j = end
 	}
 	put(n-1, lat2, normLon(lon2))
 	dist[n-1] = dst.DistanceM
@@ -336,11 +321,8 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 // position in degrees (as profileSamples) and is looked up.
 func (s *Set) heightSamples(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Profile) error {
 	n := len(dst.ElevM)
-	k := 1
-	if math.Abs(step) > 0 {
-		k = int(min(1024, 2000/math.Abs(step))) // as Line.Positions
-	}
-	if k <= 1 || n < 3 {
+	nw, ok := newNodeWalk(line, step, n)
+	if !ok {
 		// Few samples, or one node per sample: positions as Profile's,
 		// in dst's position slices, emptied again after.
 		dst.DistM, dst.Lat, dst.Lon = grow(dst.DistM, n), grow(dst.Lat, n), grow(dst.Lon, n)
@@ -363,52 +345,98 @@ func (s *Set) heightSamples(line *Line, lat1, lon1, lat2, lon2, step float64, ds
 	if err := look(0, lat1, normLon(lon1)); err != nil {
 		return err
 	}
-	lat0, lon0, dlat0, dlon0, ok0 := line.node(0)
-	for j := 0; j < n-1; {
+	for nw.next(line, &dst.hermite) {
+		j, end, st := nw.j, nw.end, &nw.st
 		if j > 0 {
-			if err := look(j, lat0, lon0); err != nil {
+			if err := look(j, st.lat0, st.lon0); err != nil {
 				return err
 			}
 		}
-		end := min(j+k, n-1) // the next node
-		lat1, lon1, dlat1, dlon1, ok1 := line.node(float64(end) * step)
-		kk := end - j
-		if !ok0 || !ok1 {
-			for i := j + 1; i < end; i++ {
-				la, lo := line.Position(float64(i) * step)
-				if err := look(i, la, lo); err != nil {
-					return err
-				}
-			}
-		} else {
-			dl := lon1 - lon0
-			if dl > 180 {
-				dl -= 360
-			} else if dl < -180 {
-				dl += 360
-			}
-			st := stretch{wt: dst.hermite.weights(kk), h: float64(kk) * step, lat0: lat0, lon0: lon0, dLat: lat1 - lat0, dLon: dl,
-				dlat0: dlat0, dlon0: dlon0, dlat1: dlat1, dlon1: dlon1}
-			out := elev[j:end]
-			for i := 1; i < kk; {
-				if w.fast {
-					done, voids := w.g.stretchHeights(&st, i, out)
-					dst.NoData += voids
-					if i += done; i == kk {
-						break
-					}
-				}
-				la, lo := st.position(i)
+		out := elev[j:end]
+		for i := 1; i < len(out); i++ {
+			if nw.exact {
+				la, lo := line.Position(float64(j+i) * step)
 				if err := look(j+i, la, lo); err != nil {
 					return err
 				}
-				i++
+				continue
+			}
+			if w.fast {
+				done, voids := w.g.stretchHeights(st, i, out)
+				dst.NoData += voids
+				if i += done; i == len(out) {
+					break
+				}
+			}
+			la, lo := st.position(i)
+			if err := look(j+i, la, lo); err != nil {
+				return err
 			}
 		}
-		lat0, lon0, dlat0, dlon0, ok0 = lat1, lon1, dlat1, dlon1, ok1
-		j = end
 	}
 	return look(n-1, lat2, normLon(lon2))
+}
+
+// nodeWalk steps along a geodesic line in stretches between exact nodes
+// (Karney 2013) every k samples of step metres, as Line.Positions does:
+// each stretch runs from sample j (a node) to sample end (the next one)
+// and holds the cubic Hermite interpolation between them, or is exact
+// (every sample from Line.Position) where a node lies beyond 75° of
+// latitude and the interpolation would be poor.
+type nodeWalk struct {
+	step   float64
+	k, n   int
+	j, end int
+	exact  bool
+	st     stretch
+	// the node at end, carried to the next stretch
+	lat1, lon1, dlat1, dlon1 float64
+	ok1                      bool
+}
+
+// newNodeWalk starts a walk along line over n samples step metres apart;
+// ok is false when there is nothing to interpolate (fewer than three
+// samples, or a node at every sample).
+func newNodeWalk(line *Line, step float64, n int) (nodeWalk, bool) {
+	k := 1
+	if math.Abs(step) > 0 {
+		k = int(min(1024, 2000/math.Abs(step))) // as Line.Positions
+	}
+	w := nodeWalk{step: step, k: k, n: n}
+	w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1 = line.node(0)
+	return w, k > 1 && n >= 3
+}
+
+// next moves to the next stretch along line (the walk's), with weights
+// from hc, and reports whether there is one. (The line and the cache are
+// passed in, not kept, so that a Line on the caller's stack stays there.)
+func (w *nodeWalk) next(line *Line, hc *hermiteCache) bool {
+	if w.end >= w.n-1 {
+		return false
+	}
+	w.j = w.end
+	lat0, lon0, dlat0, dlon0, ok0 := w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1
+	w.end = min(w.j+w.k, w.n-1)
+	w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1 = line.node(float64(w.end) * w.step)
+	w.exact = !ok0 || !w.ok1
+	kk := w.end - w.j
+	w.st = stretch{h: float64(kk) * w.step, lat0: lat0, lon0: lon0, dLat: w.lat1 - lat0, dLon: wrap180(w.lon1 - lon0),
+		dlat0: dlat0, dlon0: dlon0, dlat1: w.dlat1, dlon1: w.dlon1}
+	if !w.exact {
+		w.st.wt = hc.weights(kk)
+	}
+	return true
+}
+
+// wrap180 returns a longitude difference in degrees taken into
+// [−180, 180] (one turn added or taken off).
+func wrap180(d float64) float64 {
+	if d > 180 {
+		return d - 360
+	} else if d < -180 {
+		return d + 360
+	}
+	return d
 }
 
 // stretch is the cubic Hermite interpolation between two exact geodesic
@@ -424,7 +452,7 @@ type stretch struct {
 
 // position returns the latitude and longitude of sample i of the stretch
 // (0 at the first node), degrees, the longitude in [−180, 180), by the
-// expressions of hermiteStretch.
+// expressions of Line.Positions.
 func (st *stretch) position(i int) (lat, lon float64) {
 	h01 := st.wt.h01[i]
 	h10 := st.wt.a10[i] * st.h
@@ -457,12 +485,7 @@ func (g *gridCursor) stretchHeights(st *stretch, from int, out []float64) (done,
 	// The first node in the tile's rows and columns; its longitude taken
 	// within 180° of the tile's, so a stretch across the antimeridian
 	// stays continuous.
-	dx := st.lon0 - g.lon0
-	if dx > 180 {
-		dx -= 360
-	} else if dx < -180 {
-		dx += 360
-	}
+	dx := wrap180(st.lon0 - g.lon0)
 	iy, ix := -g.invDLat, g.invDLon
 	y0, x0 := (g.lat0-st.lat0)*g.invDLat, dx*ix
 	yA, xA := st.dLat*iy, st.dLon*ix             // times h01
@@ -512,36 +535,6 @@ func (g *gridCursor) stretchHeights(st *stretch, from int, out []float64) (done,
 func boxInside(v0, dv, dev, last float64) bool {
 	lo, hi := min(v0, v0+dv), max(v0, v0+dv)
 	return lo-dev-1e-6 >= 0 && hi+dev+1e-6 < last
-}
-
-// hermiteStretch sets the positions of the samples strictly between two
-// exact geodesic nodes, h metres apart, by cubic Hermite interpolation:
-// wt holds the weights (hermiteCache.weights), the first node is at (lat0,
-// lon0) with derivatives (dlat0, dlon0), the second dLat and dLon further
-// with derivatives (dlat1, dlon1), degrees and degrees per metre; sample
-// i of the stretch (i from 1) is sample j+i of the profile, at distance
-// (j+i)·step metres, stored at index i−1 of dist, lats and lons with its
-// longitude in [−180, 180).
-func hermiteStretch(wt *hermiteWeights, h, lat0, lon0, dLat, dLon, dlat0, dlon0, dlat1, dlon1, step float64, j int, dist, lats, lons []float64) {
-	n := len(dist)
-	lats, lons = lats[:n], lons[:n]
-	w01, w10, w11 := wt.h01[1:n+1], wt.a10[1:n+1], wt.a11[1:n+1]
-	for i := range dist {
-		h01 := w01[i]
-		h10 := w10[i] * h
-		h11 := w11[i] * h
-		lat := lat0 + h01*dLat + h10*dlat0 + h11*dlat1
-		lon := lon0 + h01*dLon + h10*dlon0 + h11*dlon1
-		if lon > 180 {
-			lon -= 360
-		} else if lon < -180 {
-			lon += 360
-		}
-		if lon >= 180 {
-			lon -= 360
-		}
-		dist[i], lats[i], lons[i] = float64(j+i+1)*step, lat, lon
-	}
 }
 
 // hermiteCache keeps the cubic Hermite weights of Line.Positions for two

@@ -28,23 +28,7 @@ func TestProfileOnePass(t *testing.T) {
 		return s
 	}
 	got, want := open(), open()
-	type path struct{ lat1, lon1, lat2, lon2, step float64 }
-	paths := []path{
-		{45.2, 8, 46.8, 8, 0},
-		{45, 7, 47, 9, 0},
-		{45.5, 7.5, 45.5001, 7.5, 0},
-		{44.5, 6.5, 47.5, 9.5, 0},       // off the mosaic at both ends
-		{10, 179.9, 10.3, -179.8, 90},   // across the antimeridian
-		{74.5, 20, 76.5, 21, 30},        // nodes beyond 75°
-		{-80, 10, -79, 170, 500},        // far south, long
-		{45.5, 7.5, 46.5, 8.5, 3000},    // a step over 2 km: every point exact
-		{45.5, 7.5, 46.5, 8.5, 1000},    // two steps per node
-		{45.95, 7.95, 46.05, 8.05, 0.5}, // half-metre step
-	}
-	rng := rand.New(rand.NewPCG(5, 8))
-	for range 80 {
-		paths = append(paths, path{44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, 44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, []float64{0, 7.5, 30, 90}[rng.IntN(4)]})
-	}
+	paths := profilePassPaths(5, 8, 80)
 	var p, q Profile
 	for k, c := range paths {
 		if err := got.Profile(c.lat1, c.lon1, c.lat2, c.lon2, c.step, &p); err != nil {
@@ -86,9 +70,8 @@ func TestProfileOnePass(t *testing.T) {
 // samples in the rows and columns of the tile in use, Profile in latitude
 // and longitude; the two are the same affine map up to rounding, so the
 // heights must agree within 1e−9 m, with the same length, step, azimuths,
-// files used, NoData and missing tiles, and no positions. Same paths as
-// TestProfileOnePass: a mosaic with voids, off it, across the
-// antimeridian, beyond 75°, steps over the node spacing.
+// files used, NoData and missing tiles, and no positions, on the
+// profiles of profilePassPaths.
 func TestProfileHeightsAgainstProfile(t *testing.T) {
 	dir := htMosaicRaw(t)
 	open := func() *Set {
@@ -99,25 +82,7 @@ func TestProfileHeightsAgainstProfile(t *testing.T) {
 		return s
 	}
 	got, want := open(), open()
-	type path struct{ lat1, lon1, lat2, lon2, step float64 }
-	paths := []path{
-		{45.2, 8, 46.8, 8, 0},
-		{45, 7, 47, 9, 0},
-		{45.5, 7.5, 45.5001, 7.5, 0},
-		{44.5, 6.5, 47.5, 9.5, 0},
-		{46.9, 8.9, 45.1, 7.05, 0},
-		{10, 179.9, 10.3, -179.8, 90},
-		{74.5, 20, 76.5, 21, 30},
-		{-80, 10, -79, 170, 500},
-		{45.5, 7.5, 46.5, 8.5, 3000},
-		{45.5, 7.5, 46.5, 8.5, 1000},
-		{45.95, 7.95, 46.05, 8.05, 0.5},
-		{45.5, 7.5, 45.5, 7.5, 0}, // one place
-	}
-	rng := rand.New(rand.NewPCG(7, 9))
-	for range 120 {
-		paths = append(paths, path{44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, 44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, []float64{0, 7.5, 30, 90}[rng.IntN(4)]})
-	}
+	paths := profilePassPaths(7, 9, 120)
 	var p, q Profile
 	worst := 0.0
 	for k, c := range paths {
@@ -182,4 +147,34 @@ func TestHermiteChordBound(t *testing.T) {
 			t.Errorf("sharp curve strays %g, bound %g: the bound is loose", worst, bound)
 		}
 	}
+}
+
+// passPath is a profile to compare: its ends, degrees, and step, metres.
+type passPath struct{ lat1, lon1, lat2, lon2, step float64 }
+
+// profilePassPaths returns the profiles TestProfileOnePass and
+// TestProfileHeightsAgainstProfile compare over the 2×2 mosaic of 3″
+// tiles at 45–47°N, 7–9°E (htMosaicRaw): along and across it, off it,
+// across the antimeridian, beyond 75°, steps over the 2 km node spacing,
+// one place, then n random ones (seeded by s1, s2) over and around it.
+func profilePassPaths(s1, s2 uint64, n int) []passPath {
+	paths := []passPath{
+		{45.2, 8, 46.8, 8, 0},
+		{45, 7, 47, 9, 0},
+		{46.9, 8.9, 45.1, 7.05, 0},
+		{45.5, 7.5, 45.5001, 7.5, 0},
+		{44.5, 6.5, 47.5, 9.5, 0},       // off the mosaic at both ends
+		{10, 179.9, 10.3, -179.8, 90},   // across the antimeridian
+		{74.5, 20, 76.5, 21, 30},        // nodes beyond 75°
+		{-80, 10, -79, 170, 500},        // far south, long
+		{45.5, 7.5, 46.5, 8.5, 3000},    // a step over 2 km: every point exact
+		{45.5, 7.5, 46.5, 8.5, 1000},    // two steps per node
+		{45.95, 7.95, 46.05, 8.05, 0.5}, // half-metre step
+		{45.5, 7.5, 45.5, 7.5, 0},       // one place
+	}
+	rng := rand.New(rand.NewPCG(s1, s2))
+	for range n {
+		paths = append(paths, passPath{44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, 44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, []float64{0, 7.5, 30, 90}[rng.IntN(4)]})
+	}
+	return paths
 }
