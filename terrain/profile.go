@@ -451,22 +451,13 @@ type stretch struct {
 }
 
 // position returns the latitude and longitude of sample i of the stretch
-// (0 at the first node), degrees, the longitude in [−180, 180), by the
-// expressions of Line.Positions.
+// (0 at the first node), degrees, the longitude in [−180, 180] (callers
+// take 180 to −180), by the expressions of Line.Positions.
 func (st *stretch) position(i int) (lat, lon float64) {
-	h01 := st.wt.h01[i]
-	h10 := st.wt.a10[i] * st.h
-	h11 := st.wt.a11[i] * st.h
+	w := st.wt
+	h01, h10, h11 := w.h01[i], w.a10[i]*st.h, w.a11[i]*st.h
 	lat = st.lat0 + h01*st.dLat + h10*st.dlat0 + h11*st.dlat1
-	lon = st.lon0 + h01*st.dLon + h10*st.dlon0 + h11*st.dlon1
-	if lon > 180 {
-		lon -= 360
-	} else if lon < -180 {
-		lon += 360
-	}
-	if lon >= 180 {
-		lon -= 360
-	}
+	lon = wrap180(st.lon0 + h01*st.dLon + h10*st.dlon0 + h11*st.dlon1)
 	return lat, lon
 }
 
