@@ -57,3 +57,25 @@ func ExampleMarginForReliabilityDB() {
 	// 7.05 dB
 	// 96.5 %
 }
+
+func ExampleLossAtFrequencies() {
+	// A repeater pair over the invented profile of ExampleTerrain: one
+	// reading of the profile serves both frequencies.
+	p := propagation.Path{
+		DistKM:  []float64{0, 2, 4, 5, 6, 8, 10, 12},
+		HeightM: []float64{420, 430, 470, 505, 460, 400, 390, 385},
+	}
+	prm := propagation.Params{TxHeightM: 10, RxHeightM: 2}
+	freqs := []float64{146.97, 146.37}
+	out := make([]propagation.Result, len(freqs))
+	if err := propagation.LossAtFrequencies(propagation.Terrain{}, p, prm, freqs, out); err != nil {
+		fmt.Println(err)
+		return
+	}
+	for k, r := range out {
+		fmt.Printf("%.2f MHz: %.1f dB\n", freqs[k], r.PathLossDB)
+	}
+	// Output:
+	// 146.97 MHz: 128.6 dB
+	// 146.37 MHz: 128.5 dB
+}

@@ -82,3 +82,24 @@ func ExampleSet_Profile() {
 	// 997 samples every 64.9 m from [N45E007.hgt]
 	// highest 1000 m at 32179 m (45.4996°N 7.4977°E)
 }
+
+func ExampleSet_ProfileHeights() {
+	dir, _ := os.MkdirTemp("", "dem")
+	defer os.RemoveAll(dir)
+	writeHillTile(dir)
+	set, _ := terrain.Open(dir)
+
+	// The same path as ExampleSet_Profile, heights only: sample i lies
+	// i·StepM metres along the geodesic.
+	var p terrain.Profile
+	if err := set.ProfileHeights(45.3, 7.2, 45.7, 7.8, 0, &p); err != nil {
+		fmt.Println(err)
+		return
+	}
+	top := slices.Index(p.ElevM, slices.Max(p.ElevM))
+	fmt.Printf("%d samples every %.1f m, no positions kept: %v\n", p.Len(), p.StepM, len(p.Lat) == 0)
+	fmt.Printf("highest %.0f m at %.0f m\n", p.ElevM[top], float64(top)*p.StepM)
+	// Output:
+	// 997 samples every 64.9 m, no positions kept: true
+	// highest 1000 m at 32179 m
+}
