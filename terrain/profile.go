@@ -34,7 +34,8 @@ func (e samplesError) Is(target error) bool { return target == ErrTooManySamples
 
 // Profile is the terrain along the WGS84 geodesic between two points,
 // sampled at equal distances with both ends included. The slices have one
-// entry per sample and are reused by (*Set).Profile.
+// entry per sample and are reused by (*Set).Profile; (*Set).ProfileHeights
+// fills ElevM alone and leaves DistM, Lat and Lon empty.
 type Profile struct {
 	DistanceM      float64 // geodesic length from point 1 to point 2, metres
 	AzimuthDeg     float64 // azimuth at point 1 towards point 2, degrees clockwise from north in [0, 360)
