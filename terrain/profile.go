@@ -199,22 +199,13 @@ func profilePositions(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Pro
 // (or any sample when GeoTIFFs may overlap the tiles) is looked up.
 func (s *Set) profileHeights(dst *Profile) error {
 	w := s.newHeightWalk(dst)
-	n := len(dst.Lat)
-	lats, lons, elev := dst.Lat, dst.Lon[:n], dst.ElevM[:n]
-	for i := 0; i < n; {
-		if w.fast {
-			done, voids := w.g.heightsInTile(lats[i:], lons[i:], elev[i:])
-			dst.NoData += voids
-			if i += done; i == n {
-				break
-			}
-		}
-		h, err := w.height(lats[i], lons[i])
+	lats, lons, elev := dst.Lat, dst.Lon[:len(dst.Lat)], dst.ElevM[:len(dst.Lat)]
+	for i, lat := range lats {
+		h, err := w.height(lat, lons[i])
 		if err != nil {
 			return err
 		}
 		elev[i] = h
-		i++
 	}
 	return nil
 }
@@ -464,7 +455,7 @@ func (st *stretch) position(i int) (lat, lon float64) {
 
 // stretchHeights sets out[i] to the height of sample i of the stretch st,
 // from sample from on, for the samples that lie inside the tile in use,
-// as heightsInTile would at the same points, and returns how many it did
+// as heightWalk.height would at the same points, and returns how many it did
 // and how many of them were unfillable voids; it stops at the first
 // sample outside the tile (or at the end of out). The interpolation runs
 // in the tile's rows and columns: the nodes and their derivatives are
@@ -620,45 +611,4 @@ func (g *gridCursor) at(y, x float64) float64 {
 		return v
 	}
 	return voidMean(h00, h01, h10, h11)
-}
-
-// heightsInTile sets elev[i] to the height at (lats[i], lons[i]), degrees,
-// for the leading samples that lie inside the tile in use, as
-// heightWalk.height would (the same bilinear interpolation, a void filled
-// by the mean of the valid samples around it, 0 where none is), and
-// returns how many it did and how many of them were unfillable voids. It
-// stops at the first sample outside the tile, and does none when the tile
-// cannot be read here (no tile, or a degenerate grid). Every value it
-// needs is kept in a register.
-func (g *gridCursor) heightsInTile(lats, lons, elev []float64) (done, voids int) {
-	if g.maxR < 0 {
-		return 0, 0
-	}
-	lat0, lon0, invDLat, invDLon := g.lat0, g.lon0, g.invDLat, g.invDLon
-	// Strictly inside the last row and column, as in stretchHeights.
-	maxY, maxX := g.maxY, g.maxX
-	cols, hgt := g.cols, g.h
-	lons, elev = lons[:len(lats)], elev[:len(lats)]
-	for i, lat := range lats {
-		y := (lat0 - lat) * invDLat
-		x := (lons[i] - lon0) * invDLon
-		if !(y >= 0 && y < maxY && x >= 0 && x < maxX) {
-			return i, voids
-		}
-		r, c := int(y), int(x)
-		fy, fx := y-float64(r), x-float64(c)
-		o := r*cols + c
-		top, bot := hgt[o:o+2:o+2], hgt[o+cols:o+cols+2:o+cols+2]
-		z00, z01 := float64(top[0]), float64(top[1])
-		z10, z11 := float64(bot[0]), float64(bot[1])
-		v := bilinear(z00, z01, z10, z11, fy, fx)
-		if v != v {
-			if v = voidMean(z00, z01, z10, z11); v != v {
-				v = 0
-				voids++
-			}
-		}
-		elev[i] = v
-	}
-	return len(lats), voids
 }

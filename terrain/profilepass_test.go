@@ -8,26 +8,16 @@ import (
 )
 
 // TestProfileOnePass: Profile places the samples stretch by stretch with
-// cached weights (profileSamples) and reads runs of heights inside one tile
-// without a call (gridCursor.heightsInTile); it must give to the last bit
-// what the plain steps give, Line.Positions (Karney 2013 nodes, cubic
-// Hermite between them; checked against Line.Position in
-// TestProfileGridSampling) then every sample's height looked up on its own
-// (heightWalk.height): distances, positions, heights, the files used in
-// their order, NoData and the missing tiles.
-// Profiles run over a 2×2 mosaic of 3″ tiles with voids, off it (missing
-// tiles), across the antimeridian, and beyond 75° where every position is
-// exact.
+// cached weights (profileSamples, nodeWalk), then takes their heights; it
+// must give to the last bit what the plain steps give, Line.Positions
+// (Karney 2013 nodes, cubic Hermite between them; checked against
+// Line.Position in TestProfileGridSampling) then every sample's height
+// looked up on its own (heightWalk.height): distances, positions, heights,
+// the files used in their order, NoData and the missing tiles, on the
+// profiles of profilePassPaths (a mosaic with voids, off it, the
+// antimeridian, beyond 75°).
 func TestProfileOnePass(t *testing.T) {
-	dir := htMosaicRaw(t)
-	open := func() *Set {
-		s, err := Open(dir)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return s
-	}
-	got, want := open(), open()
+	got, want := twoMosaicSets(t)
 	paths := profilePassPaths(5, 8, 80)
 	var p, q Profile
 	for k, c := range paths {
@@ -73,15 +63,7 @@ func TestProfileOnePass(t *testing.T) {
 // files used, NoData and missing tiles, and no positions, on the
 // profiles of profilePassPaths.
 func TestProfileHeightsAgainstProfile(t *testing.T) {
-	dir := htMosaicRaw(t)
-	open := func() *Set {
-		s, err := Open(dir)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return s
-	}
-	got, want := open(), open()
+	got, want := twoMosaicSets(t)
 	paths := profilePassPaths(7, 9, 120)
 	var p, q Profile
 	worst := 0.0
@@ -177,4 +159,19 @@ func profilePassPaths(s1, s2 uint64, n int) []passPath {
 		paths = append(paths, passPath{44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, 44.7 + rng.Float64()*2.6, 6.7 + rng.Float64()*2.6, []float64{0, 7.5, 30, 90}[rng.IntN(4)]})
 	}
 	return paths
+}
+
+// twoMosaicSets returns two sets over one 2×2 mosaic of 3″ tiles with
+// voids (htMosaicRaw), each with its own cache and missing-tile list.
+func twoMosaicSets(t *testing.T) (a, b *Set) {
+	t.Helper()
+	dir := htMosaicRaw(t)
+	open := func() *Set {
+		s, err := Open(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return s
+	}
+	return open(), open()
 }
