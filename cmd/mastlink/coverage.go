@@ -70,9 +70,9 @@ overlay, .geojson the areas at or above each of --levels.
 --model itm (or a plan whose model: is itm) maps the Longley–Rice ITM,
 which the radial engine does not walk: the map falls back to one terrain
 profile per cell, each cell exactly what link gives to the cell's centre.
-That costs one terrain profile per cell: about 5× slower than the radial
+That costs one terrain profile per cell: about 15× slower than the radial
 engine at 12 km on 3″ data, and the factor grows with the radius in cells
-(each profile is as long as its cell is far; tens of times at 40 km on 1″
+(each profile is as long as its cell is far; far more at 40 km on 1″
 data): keep the radius small. The ITM's warnings are counted over the
 cells. --model free-space is mapped the same way. Line of sight (--mode
 los) does not depend on the model.
