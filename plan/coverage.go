@@ -713,20 +713,20 @@ func (g *coverageGrid) span(north, eScale, r2 float64) (lo, hi int) {
 
 // coverageWorker is one goroutine's storage, reused for every radial.
 type coverageWorker struct {
-	walker           *propagation.Radial
-	snaps            []*propagation.Radial // walkTree: where each finer level branches off
-	sp               *terrain.Sampler
-	lats, lons, hgts []float64
-	count, order     []int32
-	mOf              []int32   // samples before each cell of the radial
-	horizon          []float32 // coverageLOS: running maxima of a unit's radials
-	found, foundOff  []int32   // unitCells: cells found, their radial in the unit
-	foundD           []float64 // unitCells: their distances, m
-	foundH           []float32 // unitCells: their ground, m
-	byRadial         []int32   // unitCells: the unit's cells grouped by radial
-	byRadialD        []float64 // with their distances
-	byRadialH        []float32 // and ground heights
-	radStart, fill   []int32   // unitCells: where each radial's cells start
+	walker          *propagation.Radial
+	snaps           []*propagation.Radial // walkTree: where each finer level branches off
+	sp              *terrain.Sampler
+	hgts            []float64 // the ground heights of the radial's samples
+	count, order    []int32
+	mOf             []int32   // samples before each cell of the radial
+	horizon         []float32 // coverageLOS: running maxima of a unit's radials
+	found, foundOff []int32   // unitCells: cells found, their radial in the unit
+	foundD          []float64 // unitCells: their distances, m
+	foundH          []float32 // unitCells: their ground, m
+	byRadial        []int32   // unitCells: the unit's cells grouped by radial
+	byRadialD       []float64 // with their distances
+	byRadialH       []float32 // and ground heights
+	radStart, fill  []int32   // unitCells: where each radial's cells start
 }
 
 // radialCells are the cells one radial answers: their indices in the map,
@@ -770,19 +770,19 @@ func (g *coverageGrid) walkTree(ws *coverageWorker, k, t int, cellsOf func(int) 
 func (g *coverageGrid) walk(ws *coverageWorker, r, t int, rc radialCells, req *CoverageRequest, values []float32) (covered int, noData bool, err error) {
 	cells := rc.cells
 	n := g.samples
-	if cap(ws.lats) < n {
-		ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
+	if cap(ws.hgts) < n {
+		ws.hgts = make([]float64, n)
 		ws.count = make([]int32, n+1)
 	}
 	s := g.start(t, 1/g.stepM)
-	lats, lons, hgts := ws.lats[:n-s], ws.lons[:n-s], ws.hgts[:n-s] // samples s … n−1
+	hgts := ws.hgts[:n-s] // samples s … n−1
 	ws.sp.NoData = 0
 	azi := 360 * float64(r) / float64(g.radials)
 	patternDB := 0.0 // the site antenna's gain along this radial, relative
 	if req.SitePattern != nil {
 		patternDB = req.SitePattern(azi)
 	}
-	if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, azi, float64(s)*g.stepM, g.stepM, lats, lons, hgts); err != nil {
+	if err := ws.sp.RadialHeightsFrom(g.siteLat, g.siteLon, azi, float64(s)*g.stepM, g.stepM, hgts); err != nil {
 		return 0, false, err
 	}
 	// Counting sort of the cells by m, the samples 1..m strictly more than

@@ -96,8 +96,8 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 		if ws.sp == nil {
 			ws.sp = ts.NewSampler()
 		}
-		if cap(ws.lats) < n {
-			ws.lats, ws.lons, ws.hgts = make([]float64, n), make([]float64, n), make([]float64, n)
+		if cap(ws.hgts) < n {
+			ws.hgts = make([]float64, n)
 		}
 		if len(ws.horizon) < unit*n {
 			ws.horizon = make([]float32, unit*n)
@@ -111,10 +111,10 @@ func (g *coverageGrid) coverageLOS(ctx context.Context, ts *terrain.Set, prm pro
 				t = bits.TrailingZeros(uint(o))
 			}
 			nk, start := min(int(g.radiusM*invStepOf[k])+3, n), g.start(t, invStepOf[k])
-			lats, lons, hgts := ws.lats[:nk-start], ws.lons[:nk-start], ws.hgts[:nk-start]
+			hgts := ws.hgts[:nk-start]
 			ws.sp.NoData = 0
 			step := stepOf[k]
-			if err := ws.sp.RadialFrom(g.siteLat, g.siteLon, 360*float64(k)/float64(nRad), float64(start)*step, step, lats, lons, hgts); err != nil {
+			if err := ws.sp.RadialHeightsFrom(g.siteLat, g.siteLon, 360*float64(k)/float64(nRad), float64(start)*step, step, hgts); err != nil {
 				return err
 			}
 			if ws.sp.NoData > 0 {

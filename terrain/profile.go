@@ -272,7 +272,7 @@ func (w *heightWalk) height(lat, lon float64) (float64, error) {
 // to the next), then the heights.
 func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Profile) error {
 	n := len(dst.DistM)
-	nw, ok := newNodeWalk(line, step, n)
+	nw, ok := newNodeWalk(line, 0, step, n)
 	if !ok {
 		profilePositions(line, lat1, lon1, lat2, lon2, step, dst)
 		return s.profileHeights(dst)
@@ -313,7 +313,7 @@ func (s *Set) profileSamples(line *Line, lat1, lon1, lat2, lon2, step float64, d
 // position in degrees (as profileSamples) and is looked up.
 func (s *Set) heightSamples(line *Line, lat1, lon1, lat2, lon2, step float64, dst *Profile) error {
 	n := len(dst.ElevM)
-	nw, ok := newNodeWalk(line, step, n)
+	nw, ok := newNodeWalk(line, 0, step, n)
 	if !ok {
 		// Few samples, or one node per sample: positions as Profile's,
 		// in dst's position slices, emptied again after.
@@ -376,6 +376,7 @@ func (s *Set) heightSamples(line *Line, lat1, lon1, lat2, lon2, step float64, ds
 // (every sample from Line.Position) where a node lies beyond 75° of
 // latitude and the interpolation would be poor.
 type nodeWalk struct {
+	start  float64 // the distance of sample 0 along the line, metres
 	step   float64
 	k, n   int
 	j, end int
@@ -386,16 +387,16 @@ type nodeWalk struct {
 	ok1                      bool
 }
 
-// newNodeWalk starts a walk along line over n samples step metres apart;
-// ok is false when there is nothing to interpolate (fewer than three
-// samples, or a node at every sample).
-func newNodeWalk(line *Line, step float64, n int) (nodeWalk, bool) {
+// newNodeWalk starts a walk along line over n samples step metres apart,
+// the first start metres along it; ok is false when there is nothing to
+// interpolate (fewer than three samples, or a node at every sample).
+func newNodeWalk(line *Line, start, step float64, n int) (nodeWalk, bool) {
 	k := 1
 	if math.Abs(step) > 0 {
 		k = int(min(1024, 2000/math.Abs(step))) // as Line.Positions
 	}
-	w := nodeWalk{step: step, k: k, n: n}
-	w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1 = line.node(0)
+	w := nodeWalk{start: start, step: step, k: k, n: n}
+	w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1 = line.node(start)
 	return w, k > 1 && n >= 3
 }
 
@@ -409,7 +410,7 @@ func (w *nodeWalk) next(line *Line, hc *hermiteCache) bool {
 	w.j = w.end
 	lat0, lon0, dlat0, dlon0, ok0 := w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1
 	w.end = min(w.j+w.k, w.n-1)
-	w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1 = line.node(float64(w.end) * w.step)
+	w.lat1, w.lon1, w.dlat1, w.dlon1, w.ok1 = line.node(w.start + float64(w.end)*w.step)
 	w.exact = !ok0 || !w.ok1
 	kk := w.end - w.j
 	w.st = stretch{h: float64(kk) * w.step, lat0: lat0, lon0: lon0, dLat: w.lat1 - lat0, dLon: wrap180(w.lon1 - lon0),

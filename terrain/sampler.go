@@ -29,6 +29,10 @@ type Sampler struct {
 	NoData int
 
 	lastMissLa, lastMissLo int
+
+	hermite hermiteCache // RadialHeightsFrom's interpolation weights
+	grid    gridCursor   // RadialHeightsFrom's view of cur
+	gridOf  *Tile        // the tile grid was made from
 }
 
 // NewSampler returns a Sampler over s. Make one per goroutine.
@@ -151,6 +155,78 @@ func (p *Sampler) RadialFrom(lat, lon, aziDeg, startM, stepM float64, lats, lons
 		heights[i] = h
 	}
 	return nil
+}
+
+// RadialHeightsFrom fills heights with the ground heights of the points
+// at distances startM, startM + stepM, startM + 2·stepM, … metres along
+// the WGS84 geodesic leaving (lat, lon), degrees, at azimuth aziDeg, as
+// RadialFrom does, without their positions: between the exact nodes of
+// Line.Positions (Karney 2013, every ≤ 2 km) the cubic Hermite
+// interpolation runs in the rows and columns of the tile in use (as
+// Set.ProfileHeights), so the heights agree with RadialFrom's within
+// 1e−9 m (TestRadialHeightsAgainstRadial), for about half the cost.
+// Errors as RadialFrom's.
+func (p *Sampler) RadialHeightsFrom(lat, lon, aziDeg, startM, stepM float64, heights []float64) error {
+	if err := checkPoint(lat, lon); err != nil {
+		return fmt.Errorf("radial start: %w", err)
+	}
+	if !(stepM > 0) || math.IsInf(stepM, 0) || math.IsNaN(aziDeg) || math.IsInf(aziDeg, 0) || !(startM >= 0) || math.IsInf(startM, 0) {
+		return fmt.Errorf("radial: step %v m must be positive, start %v m zero or more and azimuth %v° a number", stepM, startM, aziDeg)
+	}
+	n := len(heights)
+	var line Line
+	wgs84Geod.initLineDeg(&line, lat, lon, aziDeg)
+	// look takes sample i's height at (la, lo) by Height.
+	look := func(i int, la, lo float64) error {
+		if lo >= 180 {
+			lo -= 360
+		}
+		h, err := p.Height(la, lo)
+		heights[i] = h
+		return err
+	}
+	nw, ok := newNodeWalk(&line, startM, stepM, n)
+	if !ok {
+		for i := range n {
+			la, lo := line.Position(startM + float64(i)*stepM)
+			if err := look(i, la, lo); err != nil {
+				return err
+			}
+		}
+		return nil
+	}
+	for nw.next(&line, &p.hermite) {
+		j, st := nw.j, &nw.st
+		if err := look(j, st.lat0, st.lon0); err != nil {
+			return err
+		}
+		out := heights[j:nw.end]
+		for i := 1; i < len(out); i++ {
+			if nw.exact {
+				la, lo := line.Position(startM + float64(j+i)*stepM)
+				if err := look(j+i, la, lo); err != nil {
+					return err
+				}
+				continue
+			}
+			if p.fast && p.cur != nil {
+				if p.cur != p.gridOf {
+					p.grid.use(p.cur, p.src)
+					p.gridOf = p.cur
+				}
+				done, voids := p.grid.stretchHeights(st, i, out)
+				p.NoData += voids
+				if i += done; i == len(out) {
+					break
+				}
+			}
+			la, lo := st.position(i)
+			if err := look(j+i, la, lo); err != nil {
+				return err
+			}
+		}
+	}
+	return look(n-1, nw.lat1, nw.lon1)
 }
 
 // Grid describes the sample grid of the finest elevation file covering a
