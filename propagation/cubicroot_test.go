@@ -30,23 +30,10 @@ func TestEq22cRoot(t *testing.T) {
 	t.Logf("worst difference %.3g", worst)
 }
 
+// BenchmarkEq22cRoot compares eq22cRoot with the trigonometric form of
+// ITU-R P.526-16 eq. 22c it replaces.
 func BenchmarkEq22cRoot(b *testing.B) {
-	as := make([]float64, 1024)
-	for i := range as {
-		as[i] = -0.95 + 1.9*float64(i*7919%1024)/1024
-	}
-	b.Run("table+newton", func(b *testing.B) {
-		s := 0.0
-		for i := 0; b.Loop(); i++ {
-			s += eq22cRoot(as[i&1023])
-		}
-		_ = s
-	})
-	b.Run("trigonometric", func(b *testing.B) {
-		s := 0.0
-		for i := 0; b.Loop(); i++ {
-			s += math.Cos(math.Pi/3 + math.Acos(as[i&1023])/3)
-		}
-		_ = s
-	})
+	benchAgainst(b, -0.95, 1.9,
+		"table+newton", eq22cRoot,
+		"trigonometric", func(a float64) float64 { return math.Cos(math.Pi/3 + math.Acos(a)/3) })
 }

@@ -37,23 +37,7 @@ func TestLnFast(t *testing.T) {
 	t.Logf("worst error %.3g", worst)
 }
 
+// BenchmarkLn compares lnFast with math.Log.
 func BenchmarkLn(b *testing.B) {
-	xs := make([]float64, 1024)
-	for i := range xs {
-		xs[i] = 0.01 + 100*float64(i*7919%1024)/1024
-	}
-	b.Run("fast", func(b *testing.B) {
-		s := 0.0
-		for i := 0; b.Loop(); i++ {
-			s += lnFast(xs[i&1023])
-		}
-		_ = s
-	})
-	b.Run("math", func(b *testing.B) {
-		s := 0.0
-		for i := 0; b.Loop(); i++ {
-			s += math.Log(xs[i&1023])
-		}
-		_ = s
-	})
+	benchAgainst(b, 0.01, 100, "fast", lnFast, "math", math.Log)
 }

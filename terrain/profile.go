@@ -325,48 +325,68 @@ func (s *Set) heightSamples(line *Line, lat1, lon1, lat2, lon2, step float64, ds
 	}
 	elev := dst.ElevM[:n]
 	w := s.newHeightWalk(dst)
-	// look takes sample i's height at (lat, lon) by a lookup.
-	look := func(i int, lat, lon float64) error {
-		if lon >= 180 {
-			lon -= 360
+	if err := heightAt(elev, 0, lat1, normLon(lon1), w.height); err != nil {
+		return err
+	}
+	grid := func() *gridCursor {
+		if w.fast {
+			return &w.g
 		}
-		h, err := w.height(lat, lon)
-		elev[i] = h
+		return nil
+	}
+	if err := nw.heights(line, &dst.hermite, elev, false, grid, &dst.NoData, w.height); err != nil {
 		return err
 	}
-	if err := look(0, lat1, normLon(lon1)); err != nil {
-		return err
+	return heightAt(elev, n-1, lat2, normLon(lon2), w.height)
+}
+
+// heightAt sets heights[i] to height(lat, lon), the longitude taken from
+// [−180, 180] into [−180, 180).
+func heightAt(heights []float64, i int, lat, lon float64, height func(lat, lon float64) (float64, error)) error {
+	if lon >= 180 {
+		lon -= 360
 	}
-	for nw.next(line, &dst.hermite) {
-		j, end, st := nw.j, nw.end, &nw.st
-		if j > 0 {
-			if err := look(j, st.lat0, st.lon0); err != nil {
+	h, err := height(lat, lon)
+	heights[i] = h
+	return err
+}
+
+// heights walks the rest of nw and fills heights at every node after the
+// first (and at the first too when withFirst) and at every sample between
+// nodes, all but the last sample: inside the tile in use that grid gives
+// (nil for none), runs of samples by their rows and columns
+// (gridCursor.stretchHeights, unfillable voids added to *noData); any
+// other sample at its position in degrees, by height.
+func (nw *nodeWalk) heights(line *Line, hc *hermiteCache, heights []float64, withFirst bool,
+	grid func() *gridCursor, noData *int, height func(lat, lon float64) (float64, error)) error {
+	for nw.next(line, hc) {
+		j, st := nw.j, &nw.st
+		if j > 0 || withFirst {
+			if err := heightAt(heights, j, st.lat0, st.lon0, height); err != nil {
 				return err
 			}
 		}
-		out := elev[j:end]
+		out := heights[j:nw.end]
 		for i := 1; i < len(out); i++ {
-			if nw.exact {
-				la, lo := line.Position(float64(j+i) * step)
-				if err := look(j+i, la, lo); err != nil {
-					return err
-				}
-				continue
-			}
-			if w.fast {
-				done, voids := w.g.stretchHeights(st, i, out)
-				dst.NoData += voids
+			if g := grid(); g != nil && !nw.exact {
+				done, voids := g.stretchHeights(st, i, out)
+				*noData += voids
 				if i += done; i == len(out) {
 					break
 				}
 			}
-			la, lo := st.position(i)
-			if err := look(j+i, la, lo); err != nil {
+			var la, lo float64
+			if nw.exact {
+				la, lo = line.Position(nw.start + float64(j+i)*nw.step)
+			} else {
+				la, lo = st.position(i)
+			}
+			if err := heightAt(heights, j+i, la, lo, height); err != nil {
 				return err
 			}
 		}
 	}
-	return look(n-1, lat2, normLon(lon2))
+	return nil
 }
 
 // nodeWalk steps along a geodesic line in stretches between exact nodes

@@ -176,57 +176,30 @@ func (p *Sampler) RadialHeightsFrom(lat, lon, aziDeg, startM, stepM float64, hei
 	n := len(heights)
 	var line Line
 	wgs84Geod.initLineDeg(&line, lat, lon, aziDeg)
-	// look takes sample i's height at (la, lo) by Height.
-	look := func(i int, la, lo float64) error {
-		if lo >= 180 {
-			lo -= 360
-		}
-		h, err := p.Height(la, lo)
-		heights[i] = h
-		return err
-	}
 	nw, ok := newNodeWalk(&line, startM, stepM, n)
 	if !ok {
 		for i := range n {
 			la, lo := line.Position(startM + float64(i)*stepM)
-			if err := look(i, la, lo); err != nil {
+			if err := heightAt(heights, i, la, lo, p.Height); err != nil {
 				return err
 			}
 		}
 		return nil
 	}
-	for nw.next(&line, &p.hermite) {
-		j, st := nw.j, &nw.st
-		if err := look(j, st.lat0, st.lon0); err != nil {
-			return err
+	grid := func() *gridCursor {
+		if !p.fast || p.cur == nil {
+			return nil
 		}
-		out := heights[j:nw.end]
-		for i := 1; i < len(out); i++ {
-			if nw.exact {
-				la, lo := line.Position(startM + float64(j+i)*stepM)
-				if err := look(j+i, la, lo); err != nil {
-					return err
-				}
-				continue
-			}
-			if p.fast && p.cur != nil {
-				if p.cur != p.gridOf {
-					p.grid.use(p.cur, p.src)
-					p.gridOf = p.cur
-				}
-				done, voids := p.grid.stretchHeights(st, i, out)
-				p.NoData += voids
-				if i += done; i == len(out) {
-					break
-				}
-			}
-			la, lo := st.position(i)
-			if err := look(j+i, la, lo); err != nil {
-				return err
-			}
+		if p.cur != p.gridOf {
+			p.grid.use(p.cur, p.src)
+			p.gridOf = p.cur
 		}
+		return &p.grid
 	}
-	return look(n-1, nw.lat1, nw.lon1)
+	if err := nw.heights(&line, &p.hermite, heights, true, grid, &p.NoData, p.Height); err != nil {
+		return err
+	}
+	return heightAt(heights, n-1, nw.lat1, nw.lon1, p.Height)
 }
 
 // Grid describes the sample grid of the finest elevation file covering a
